@@ -1,0 +1,275 @@
+/**
+ * A small dense Levenberg–Marquardt solver for nonlinear least squares with analytic Jacobians
+ * and simple lower/upper bounds, written for the 2–4 parameter models of this engine.
+ *
+ * Minimises F(θ) = ½·Σ r_i², r_i = w_i·(y_i − f_i(θ)). Each iteration solves
+ * (JᵀJ + λ·diag(JᵀJ))·δ = Jᵀr (Marquardt 1963, SIAM J Appl Math 11:431, scaled damping) and
+ * updates λ by the gain ratio ρ (Nielsen 1999; Madsen, Nielsen & Tingleff, "Methods for
+ * Non-Linear Least Squares Problems", 2nd ed. 2004, Algorithm 3.16). Bounds: parameters at a
+ * bound whose gradient points outward are held (active set), and steps are clipped (projected LM).
+ * Stops on relative reduction of RSS (ftol, both actual and predicted, as in MINPACK), relative
+ * step (xtol) or a vanishing gradient (gtol).
+ *
+ * Why not ml-levenberg-marquardt: its version 5 returns no covariance, stops on an absolute RSS
+ * threshold (so noisy fits run to maxIterations) and differentiates numerically; the benchmark
+ * (bench/kinetics.mjs) measures it against this solver and SciPy.
+ *
+ * Deterministic: the same input gives bit-identical output (no randomness, fixed loop order).
+ */
+import { choleskyInPlace, choleskySolveInPlace, symmetricPositiveDefiniteInverse } from "./small-matrix";
+
+/** A least-squares problem: fills weighted residuals and (optionally) the weighted model Jacobian. */
+export interface LeastSquaresProblem {
+  readonly nParams: number;
+  readonly nObs: number;
+  /**
+   * Writes r_i = w_i·(y_i − f_i(θ)) into `residuals` and, when `jacobian` is not null,
+   * J_ij = w_i·∂f_i/∂θ_j into it (row-major nObs × nParams). Must not keep references.
+   */
+  evaluate(theta: Float64Array, residuals: Float64Array, jacobian: Float64Array | null): void;
+  /** Optional lower bounds (−Infinity for none). */
+  readonly lower?: ArrayLike<number>;
+  /** Optional upper bounds (+Infinity for none). */
+  readonly upper?: ArrayLike<number>;
+}
+
+export interface LeastSquaresOptions {
+  maxIterations?: number;
+  /** Relative RSS reduction tolerance (default 1e-12). */
+  ftol?: number;
+  /** Relative step tolerance (default 1e-12). */
+  xtol?: number;
+  /** Gradient tolerance on the cosine between r and the columns of J (default 1e-12). */
+  gtol?: number;
+}
+
+export interface LeastSquaresResult {
+  theta: Float64Array;
+  /** Σ r_i² at the solution (weighted residual sum of squares). */
+  rss: number;
+  iterations: number;
+  converged: boolean;
+  /** How it stopped, for diagnostics. */
+  reason: "ftol" | "xtol" | "gtol" | "max-iterations" | "zero-residual" | "non-finite";
+  /** Unscaled covariance inverse(JᵀJ) at the solution, or null when JᵀJ is singular. */
+  inverseJtJ: Float64Array | null;
+  /** Indices of parameters that ended on a bound. */
+  atBound: number[];
+}
+
+const DEFAULTS = { maxIterations: 200, ftol: 1e-12, xtol: 1e-12, gtol: 1e-12 };
+
+function sumSquares(r: Float64Array, n: number): number {
+  let s = 0;
+  for (let i = 0; i < n; i++) s += r[i]! * r[i]!;
+  return s;
+}
+
+/** Forms A = JᵀJ and g = Jᵀr. */
+function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: number, a: Float64Array, g: Float64Array): void {
+  a.fill(0);
+  g.fill(0);
+  for (let i = 0; i < n; i++) {
+    const ri = r[i]!;
+    const row = i * p;
+    for (let j = 0; j < p; j++) {
+      const jij = jac[row + j]!;
+      g[j] = g[j]! + jij * ri;
+      for (let k = 0; k <= j; k++) a[j * p + k] = a[j * p + k]! + jij * jac[row + k]!;
+    }
+  }
+  for (let j = 0; j < p; j++) for (let k = j + 1; k < p; k++) a[j * p + k] = a[k * p + j]!;
+}
+
+/**
+ * Solves min ½‖r(θ)‖² from `start` by bounded Levenberg–Marquardt (see the file comment).
+ */
+export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLike<number>, options: LeastSquaresOptions = {}): LeastSquaresResult {
+  const maxIterations = options.maxIterations ?? DEFAULTS.maxIterations;
+  const ftol = options.ftol ?? DEFAULTS.ftol;
+  const xtol = options.xtol ?? DEFAULTS.xtol;
+  const gtol = options.gtol ?? DEFAULTS.gtol;
+  const n = problem.nObs;
+  const p = problem.nParams;
+  const lower = problem.lower;
+  const upper = problem.upper;
+
+  const theta = new Float64Array(p);
+  for (let j = 0; j < p; j++) {
+    let v = start[j]!;
+    if (lower && v < lower[j]!) v = lower[j]!;
+    if (upper && v > upper[j]!) v = upper[j]!;
+    theta[j] = v;
+  }
+  const r = new Float64Array(n);
+  const jac = new Float64Array(n * p);
+  const rTrial = new Float64Array(n);
+  const thetaTrial = new Float64Array(p);
+  const a = new Float64Array(p * p);
+  const g = new Float64Array(p);
+  const m = new Float64Array(p * p);
+  const delta = new Float64Array(p);
+  const rhs = new Float64Array(p);
+  const free = new Int32Array(p);
+
+  problem.evaluate(theta, r, jac);
+  let rss = sumSquares(r, n);
+  if (!Number.isFinite(rss)) {
+    return { theta, rss, iterations: 0, converged: false, reason: "non-finite", inverseJtJ: null, atBound: [] };
+  }
+  normalEquations(jac, r, n, p, a, g);
+
+  let maxDiag = 0;
+  for (let j = 0; j < p; j++) maxDiag = Math.max(maxDiag, a[j * p + j]!);
+  let lambda = 1e-3;
+  let nu = 2;
+  let iterations = 0;
+  let reason: LeastSquaresResult["reason"] = "max-iterations";
+  let converged = false;
+
+  const gradientSmall = (): boolean => {
+    if (rss === 0) return true;
+    const rnorm = Math.sqrt(rss);
+    for (let j = 0; j < p; j++) {
+      const d = a[j * p + j]!;
+      if (d === 0) continue;
+      const atLower = lower !== undefined && theta[j] === lower[j] && g[j]! < 0;
+      const atUpper = upper !== undefined && theta[j] === upper[j] && g[j]! > 0;
+      if (atLower || atUpper) continue;
+      if (Math.abs(g[j]!) / (Math.sqrt(d) * rnorm) > gtol) return false;
+    }
+    return true;
+  };
+
+  if (rss === 0) {
+    reason = "zero-residual";
+    converged = true;
+  } else if (gradientSmall()) {
+    reason = "gtol";
+    converged = true;
+  }
+
+  while (!converged && iterations < maxIterations) {
+    iterations++;
+    // Active set: parameters on a bound whose descent direction (+g) points out of the box.
+    let nf = 0;
+    for (let j = 0; j < p; j++) {
+      const blockedLow = lower !== undefined && theta[j]! <= lower[j]! && g[j]! <= 0;
+      const blockedHigh = upper !== undefined && theta[j]! >= upper[j]! && g[j]! >= 0;
+      if (!blockedLow && !blockedHigh) free[nf++] = j;
+    }
+    if (nf === 0) {
+      reason = "gtol";
+      converged = true;
+      break;
+    }
+    // Damped, reduced normal equations on the free parameters.
+    for (let s = 0; s < nf; s++) {
+      const js = free[s]!;
+      for (let t = 0; t < nf; t++) m[s * nf + t] = a[js * p + free[t]!]!;
+      const d = Math.max(a[js * p + js]!, 1e-12 * maxDiag, 1e-300);
+      m[s * nf + s] = m[s * nf + s]! + lambda * d;
+      rhs[s] = g[js]!;
+    }
+    if (!choleskyInPlace(m, nf)) {
+      lambda *= nu;
+      nu *= 2;
+      if (!Number.isFinite(lambda) || lambda > 1e300) {
+        reason = "non-finite";
+        break;
+      }
+      continue;
+    }
+    choleskySolveInPlace(m, nf, rhs);
+    delta.fill(0);
+    for (let s = 0; s < nf; s++) delta[free[s]!] = rhs[s]!;
+
+    // Projected trial point; the actual step may be shorter than δ where a bound clips it.
+    let stepSmall = true;
+    for (let j = 0; j < p; j++) {
+      let v = theta[j]! + delta[j]!;
+      if (lower && v < lower[j]!) v = lower[j]!;
+      if (upper && v > upper[j]!) v = upper[j]!;
+      thetaTrial[j] = v;
+      delta[j] = v - theta[j]!;
+      if (Math.abs(delta[j]!) > xtol * (Math.abs(theta[j]!) + xtol)) stepSmall = false;
+    }
+    if (stepSmall) {
+      reason = "xtol";
+      converged = true;
+      break;
+    }
+    // Predicted reduction of ½‖r‖² for the actual step: δᵀg − ½δᵀAδ.
+    let dg = 0;
+    let dad = 0;
+    for (let j = 0; j < p; j++) {
+      dg += delta[j]! * g[j]!;
+      let ad = 0;
+      for (let k = 0; k < p; k++) ad += a[j * p + k]! * delta[k]!;
+      dad += delta[j]! * ad;
+    }
+    const predicted = dg - 0.5 * dad;
+    problem.evaluate(thetaTrial, rTrial, null);
+    const rssTrial = sumSquares(rTrial, n);
+    const actual = 0.5 * (rss - rssTrial);
+    const rho = predicted > 0 ? actual / predicted : -1;
+    if (Number.isFinite(rssTrial) && actual > 0 && rho > 0) {
+      const oldRss = rss;
+      theta.set(thetaTrial);
+      problem.evaluate(theta, r, jac);
+      rss = sumSquares(r, n);
+      normalEquations(jac, r, n, p, a, g);
+      for (let j = 0; j < p; j++) maxDiag = Math.max(maxDiag, a[j * p + j]!);
+      const f = 2 * rho - 1;
+      lambda *= Math.max(1 / 3, 1 - f * f * f);
+      nu = 2;
+      if (rss === 0) {
+        reason = "zero-residual";
+        converged = true;
+      } else if (2 * actual <= ftol * oldRss && 2 * predicted <= ftol * oldRss) {
+        reason = "ftol";
+        converged = true;
+      } else if (gradientSmall()) {
+        reason = "gtol";
+        converged = true;
+      }
+    } else {
+      lambda *= nu;
+      nu *= 2;
+      if (!Number.isFinite(lambda) || lambda > 1e300) {
+        // No step can reduce RSS any further at machine precision: we are at the minimum.
+        reason = "ftol";
+        converged = true;
+        break;
+      }
+    }
+  }
+  const atBound: number[] = [];
+  for (let j = 0; j < p; j++) {
+    if ((lower && theta[j] === lower[j]) || (upper && theta[j] === upper[j])) atBound.push(j);
+  }
+  const finite = Number.isFinite(rss) && theta.every(Number.isFinite);
+  return {
+    theta,
+    rss,
+    iterations,
+    converged: converged && finite,
+    reason: finite ? reason : "non-finite",
+    inverseJtJ: finite ? symmetricPositiveDefiniteInverse(a, p) : null,
+    atBound,
+  };
+}
+
+/**
+ * Standard errors from the linearised covariance Cov(θ) = inverse(JᵀJ)·RSS/(n − p)
+ * (Bates & Watts, Nonlinear Regression Analysis and Its Applications, 1988, §2.3).
+ * Returns the covariance matrix (row-major) or null when it cannot be formed.
+ */
+export function parameterCovariance(result: LeastSquaresResult, nObs: number, nParams: number): Float64Array | null {
+  const dof = nObs - nParams;
+  if (dof <= 0 || result.inverseJtJ === null) return null;
+  const s2 = result.rss / dof;
+  const cov = new Float64Array(nParams * nParams);
+  for (let i = 0; i < cov.length; i++) cov[i] = result.inverseJtJ[i]! * s2;
+  return cov;
+}
