@@ -1,0 +1,38 @@
+// Loads the invented demo data (people, campaigns, and what later steps add) into an empty
+// database. `--if-empty` makes it a no-op when any account exists. Never in production mode.
+import { sql } from "drizzle-orm";
+import { db, sqlClient } from "@/server/db/client";
+import { env } from "@/env";
+import { seedAccounts } from "@/server/seed/accounts";
+
+const ifEmpty = process.argv.includes("--if-empty");
+
+async function main() {
+  if (env.INHIBITRACK_MODE === "production") {
+    console.log("[seed] production mode: no demo data or demo accounts are loaded.");
+    return;
+  }
+  if (env.DEMO_DATA !== "1") {
+    console.log("[seed] DEMO_DATA is not 1: nothing to load.");
+    return;
+  }
+  const [row] = await db.execute<{ n: number }>(sql`select count(*)::int as n from users`);
+  if ((row?.n ?? 0) > 0) {
+    if (ifEmpty) {
+      console.log("[seed] the database already has data; demo data not loaded again.");
+      return;
+    }
+    throw new Error("The database is not empty; refusing to load demo data over it.");
+  }
+  const t0 = Date.now();
+  const ctx = await seedAccounts(db);
+  console.log(`[seed] invented demo accounts and 2 campaigns loaded (${Date.now() - t0} ms)`);
+  void ctx;
+}
+
+main()
+  .catch((e) => {
+    console.error(`[seed] failed: ${e instanceof Error ? e.stack : e}`);
+    process.exitCode = 1;
+  })
+  .finally(() => sqlClient.end());

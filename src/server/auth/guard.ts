@@ -1,0 +1,91 @@
+import "server-only";
+import { and, eq } from "drizzle-orm";
+import { headers } from "next/headers";
+import { db } from "@/server/db/client";
+import { campaigns, memberships } from "@/server/db/schema";
+import { AppError } from "@/server/errors";
+import { can, type Capability, type CampaignRole } from "@/lib/roles";
+import { getCurrentSession, type SessionUser } from "./session";
+
+/**
+ * The one guard module. Every server action and route handler calls one of these before it
+ * reads or writes anything; the UI hiding a button is never the check.
+ */
+export async function requireUser(): Promise<SessionUser> {
+  const { user } = await getCurrentSession();
+  if (!user) throw new AppError("unauthorized");
+  return user;
+}
+
+export async function requireAdmin(): Promise<SessionUser> {
+  const user = await requireUser();
+  if (user.globalRole !== "admin") throw new AppError("forbidden", "Only an administrator can do this.");
+  return user;
+}
+
+const uuidRe = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export type CampaignAccess = {
+  user: SessionUser;
+  campaign: typeof campaigns.$inferSelect;
+  role: CampaignRole | null; // null: an admin who is not a member
+};
+
+/**
+ * A campaign the user may see, and a capability in it. Someone who is not a member gets 404
+ * (the campaign's existence is not revealed); a member whose role lacks the capability, 403.
+ */
+export async function requireCampaign(campaignId: string, cap: Capability = "campaign:read"): Promise<CampaignAccess> {
+  const user = await requireUser();
+  if (!uuidRe.test(campaignId)) throw new AppError("not_found", "No such campaign.");
+  const rows = await db
+    .select({ campaign: campaigns, role: memberships.role })
+    .from(campaigns)
+    .leftJoin(memberships, and(eq(memberships.campaignId, campaigns.id), eq(memberships.userId, user.id)))
+    .where(eq(campaigns.id, campaignId))
+    .limit(1);
+  const row = rows[0];
+  if (!row || (row.role === null && user.globalRole !== "admin")) throw new AppError("not_found", "No such campaign.");
+  if (!can(user.globalRole, row.role, cap)) throw new AppError("forbidden");
+  return { user, campaign: row.campaign, role: row.role };
+}
+
+/**
+ * A capability held in any campaign (compounds are shared across campaigns: a chemist of any
+ * campaign registers them).
+ */
+export async function requireCapabilityAnywhere(cap: Capability): Promise<SessionUser> {
+  const user = await requireUser();
+  if (user.globalRole === "admin") return user;
+  const roles = await db.select({ role: memberships.role }).from(memberships).where(eq(memberships.userId, user.id));
+  if (!roles.some((r) => can("member", r.role, cap))) throw new AppError("forbidden", "Your roles do not allow this.");
+  return user;
+}
+
+/**
+ * Mutating requests must come from our own pages: a browser's Origin (when sent) must match
+ * the Host, and a cross-site fetch is refused.
+ */
+export async function requireSameOrigin(req?: Request): Promise<void> {
+  const h = req ? req.headers : await headers();
+  const origin = h.get("origin");
+  const host = h.get("x-forwarded-host") ?? h.get("host");
+  if (h.get("sec-fetch-site") === "cross-site") throw new AppError("bad_origin");
+  if (origin && origin !== "null") {
+    let originHost: string;
+    try {
+      originHost = new URL(origin).host;
+    } catch {
+      throw new AppError("bad_origin");
+    }
+    if (!host || originHost !== host) throw new AppError("bad_origin");
+  } else if (origin === "null") {
+    throw new AppError("bad_origin");
+  }
+}
+
+/** The client's address for throttling: the first hop a proxy recorded, else "local". */
+export async function clientAddress(req?: Request): Promise<string> {
+  const h = req ? req.headers : await headers();
+  return h.get("x-forwarded-for")?.split(",")[0]?.trim() || h.get("x-real-ip") || "local";
+}

@@ -1,0 +1,42 @@
+import "server-only";
+import { NextResponse } from "next/server";
+import type { z } from "zod";
+import { AppError, isNextControlFlow, toPublicError } from "./errors";
+import { requireSameOrigin } from "./auth/guard";
+
+type Ctx<P> = { params: Promise<P> };
+
+/**
+ * Every route handler goes through here: a mutating request is checked for its origin, then the
+ * handler runs (it calls the guard first), and anything thrown becomes a JSON error with the
+ * right status — never a stack trace.
+ */
+export function route<P = Record<string, never>>(fn: (req: Request, params: P) => Promise<Response>) {
+  return async (req: Request, ctx: Ctx<P>): Promise<Response> => {
+    try {
+      if (!["GET", "HEAD", "OPTIONS"].includes(req.method)) await requireSameOrigin(req);
+      return await fn(req, ctx ? await ctx.params : ({} as P));
+    } catch (e) {
+      if (isNextControlFlow(e)) throw e;
+      const { status, body } = toPublicError(e);
+      return NextResponse.json(body, { status, headers: status === 429 ? { "retry-after": "900" } : undefined });
+    }
+  };
+}
+
+export async function parseJson<S extends z.ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
+  let raw: unknown;
+  try {
+    raw = await req.json();
+  } catch {
+    throw new AppError("bad_request", "The request body must be JSON.");
+  }
+  return schema.parse(raw);
+}
+
+export function parseQuery<S extends z.ZodType>(req: Request, schema: S): z.infer<S> {
+  const url = new URL(req.url);
+  return schema.parse(Object.fromEntries(url.searchParams.entries()));
+}
+
+export const json = (data: unknown, status = 200) => NextResponse.json(data, { status });

@@ -1,0 +1,14 @@
+import { defineConfig } from "vitest/config";
+import { fileURLToPath } from "node:url";
+
+export default defineConfig({
+  resolve: { alias: { "@": fileURLToPath(new URL("./src", import.meta.url)), "server-only": fileURLToPath(new URL("./src/server/test-server-only.ts", import.meta.url)) } },
+  test: {
+    include: ["src/**/*.test.ts", "src/**/*.test.tsx"],
+    environment: "node",
+    testTimeout: 60_000,
+    hookTimeout: 120_000,
+    pool: "forks",
+    fileParallelism: false,
+  },
+});
