@@ -18,3 +18,4 @@ export { finiteOrNull, waldInterval95, reciprocalConstant, type Interval } from 
 export { ic50FromKi, kiFromIc50, type ChengPrusoffInput, type KiFromIc50Input } from "./cheng-prusoff";
 export { morrisonFractionalActivity, morrisonIc50, fitMorrison, type MorrisonFit, type MorrisonOptions } from "./morrison";
 export { doubleReciprocalPoints, doubleReciprocalLines, type ReciprocalPoint, type ReciprocalLine } from "./double-reciprocal";
+export { parseCsv, readMechanismCsv, readDoseResponseCsv, TableInputError, MIN_DOSE_RESPONSE_POINTS, MIN_DOSE_RESPONSE_CONCENTRATIONS, type DoseResponseSeries } from "./table-input";

@@ -225,8 +225,8 @@ function gridStart(lx: Float64Array, y: Float64Array, fixedTop: number | undefin
 
 /**
  * Fits the 4PL to concentrations `x` (≥ 0, any unit) and responses `y`. Throws on invalid input
- * (negative or non-finite values, fewer points than parameters + 1, fewer than 3 distinct
- * concentrations).
+ * (negative or non-finite values, fewer points than parameters + 1, fewer distinct concentrations
+ * than parameters, or fewer than 3).
  *
  * Flags (common practice; thresholds are conventions, not laws): IC50 outside the tested
  * concentration range; fewer than two distinct concentrations on a fitted plateau (within 20 % of
@@ -264,7 +264,8 @@ export function fitLogistic4(x: ArrayLike<number>, y: ArrayLike<number>, options
   const problem = makeProblem(lx, yy, fixedTop, fixedBottom);
   const p = problem.nParams;
   if (n < p + 1) throw new RangeError(`fitLogistic4: ${n} points cannot fit ${p} parameters with an error estimate; at least ${p + 1} are needed`);
-  if (distinct.size < 3) throw new RangeError(`fitLogistic4: ${distinct.size} distinct concentrations; at least 3 are needed`);
+  const minDistinct = Math.max(3, p);
+  if (distinct.size < minDistinct) throw new RangeError(`fitLogistic4: ${distinct.size} distinct concentrations; at least ${minDistinct} are needed`);
 
   const s = gridStart(lx, yy, fixedTop, fixedBottom);
   const start: number[] = [];
