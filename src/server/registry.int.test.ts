@@ -1,0 +1,117 @@
+// Role matrix: every route handler and server action is listed in src/server/registry.ts, and
+// each is called here as every kind of person (signed out, non-member, each role, admin).
+// Reference: the roles table in the product design (docs/product.md); "not a member → 404,
+// not 403" from the accounts issue.
+import { describe, it, expect, beforeAll } from "vitest";
+import fs from "node:fs";
+import path from "node:path";
+import { registry, allActors, type RegistryActor } from "./registry";
+import { makeWorld, userOf, callRoute, callAction, deniedRoute, deniedAction, newTestUser, TEST_PASSWORD, type World } from "@/test/harness";
+import { db } from "@/server/db/client";
+import { memberships } from "@/server/db/schema";
+
+import * as health from "@/app/api/health/route";
+import * as me from "@/app/api/me/route";
+import * as campaignsRoute from "@/app/api/campaigns/route";
+import * as authActions from "@/app/(auth)/actions";
+import * as settingsActions from "@/app/(workspace)/settings/actions";
+import * as campaignActions from "@/app/(workspace)/campaigns/actions";
+import * as teamActions from "@/app/(workspace)/campaigns/[campaignId]/team/actions";
+
+type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
+
+const route = (mod: unknown, path: string, method = "GET", body?: unknown): Invoke => async (actor, w) =>
+  deniedRoute((await callRoute(mod, { user: userOf(w, actor), path, method, body })).status);
+
+const invokers: Record<string, Invoke> = {
+  "src/app/api/health/route.ts#GET": route(health.GET, "/api/health"),
+  "src/app/api/me/route.ts#GET": route(me.GET, "/api/me"),
+  "src/app/api/campaigns/route.ts#GET": route(campaignsRoute.GET, "/api/campaigns"),
+  "src/app/(auth)/actions.ts#signInAction": async (actor, w) => {
+    const u = await newTestUser(`signin-${actor}`);
+    const o = await callAction(authActions.signInAction, { email: u.email, password: TEST_PASSWORD }, userOf(w, actor));
+    return !(o.kind === "redirect" && o.to === "/campaigns");
+  },
+  "src/app/(auth)/actions.ts#signOutAction": async (actor, w) => {
+    const o = await callAction(authActions.signOutAction, {}, userOf(w, actor));
+    return !(o.kind === "redirect" && o.to === "/sign-in");
+  },
+  "src/app/(auth)/actions.ts#requestResetAction": async (actor, w) =>
+    deniedAction(await callAction(authActions.requestResetAction, { email: `nobody-${actor}@test.invalid` }, userOf(w, actor))),
+  "src/app/(auth)/actions.ts#resetPasswordAction": async (actor, w) =>
+    deniedAction(await callAction(authActions.resetPasswordAction, { token: "x".repeat(40), password: "a-long-new-password" }, userOf(w, actor))),
+  "src/app/(auth)/actions.ts#acceptInviteAction": async (actor, w) =>
+    deniedAction(await callAction(authActions.acceptInviteAction, { token: "y".repeat(40), name: "N", password: "a-long-new-password" }, userOf(w, actor))),
+  "src/app/(workspace)/settings/actions.ts#changePasswordAction": async (actor, w) => {
+    // A wrong current password: allowed callers reach the check (400), others are refused first.
+    const o = await callAction(settingsActions.changePasswordAction, { current: "wrong-password", password: "another-long-password" }, userOf(w, actor));
+    return deniedAction(o);
+  },
+  "src/app/(workspace)/campaigns/actions.ts#createCampaignAction": async (actor, w) =>
+    deniedAction(await callAction(campaignActions.createCampaignAction, { name: `Matrix ${actor}`, targetEnzyme: "Invented enzyme" }, userOf(w, actor))),
+  "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#inviteAction": async (actor, w) =>
+    deniedAction(await callAction(teamActions.inviteAction, { campaignId: w.campaignId, email: `invitee-${actor}-${w.tag}@test.invalid`, role: "viewer" }, userOf(w, actor))),
+  "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#changeRoleAction": async (actor, w) =>
+    deniedAction(await callAction(teamActions.changeRoleAction, { campaignId: w.campaignId, userId: w.people.viewer.id, role: "viewer" }, userOf(w, actor))),
+  "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#removeMemberAction": async (actor, w) => {
+    const target = await newTestUser(`removable-${actor}`);
+    await db.insert(memberships).values({ campaignId: w.campaignId, userId: target.id, role: "viewer" });
+    return deniedAction(await callAction(teamActions.removeMemberAction, { campaignId: w.campaignId, userId: target.id }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#updateThresholdsAction": async (actor, w) =>
+    deniedAction(
+      await callAction(teamActions.updateThresholdsAction, { campaignId: w.campaignId, qcMinZPrime: "0.5", qcMaxCvPct: "20", hitThresholdPct: "50" }, userOf(w, actor)),
+    ),
+};
+
+function walk(dir: string, out: string[] = []): string[] {
+  for (const f of fs.readdirSync(dir, { withFileTypes: true })) {
+    const p = path.join(dir, f.name);
+    if (f.isDirectory()) walk(p, out);
+    else if (/\.(ts|tsx)$/.test(f.name) && !/\.test\.tsx?$/.test(f.name)) out.push(p);
+  }
+  return out;
+}
+
+/** Every exported route handler and server action found in src/app. */
+function discovered(): string[] {
+  const ids: string[] = [];
+  for (const file of walk("src/app")) {
+    const src = fs.readFileSync(file, "utf8");
+    const rel = file.split(path.sep).join("/");
+    if (path.basename(file) === "route.ts") {
+      for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE|HEAD|OPTIONS)\b/g)) ids.push(`${rel}#${m[1]}`);
+    } else if (/^\s*(["'])use server\1/.test(src)) {
+      for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(\w+)/g)) ids.push(`${rel}#${m[1]}`);
+    }
+  }
+  return ids.sort();
+}
+
+describe("route and action registry", () => {
+  it("lists every route handler and server action in src/app, and nothing that does not exist", () => {
+    const found = discovered();
+    const listed = registry.map((e) => e.id).sort();
+    expect(found.filter((id) => !listed.includes(id)), "routes/actions missing from src/server/registry.ts").toEqual([]);
+    expect(listed.filter((id) => !found.includes(id)), "registry entries with no route/action").toEqual([]);
+  });
+  it("has an invoker in this test for every registry entry", () => {
+    expect(registry.map((e) => e.id).filter((id) => !invokers[id])).toEqual([]);
+  });
+});
+
+describe("role matrix", () => {
+  let world: World;
+  beforeAll(async () => {
+    world = await makeWorld();
+  });
+  for (const entry of registry) {
+    for (const actor of allActors) {
+      const expected = entry.allow.includes(actor) ? "allowed" : "denied";
+      it(`${entry.id} as ${actor} is ${expected}`, async () => {
+        const denied = await invokers[entry.id]!(actor, world);
+        expect(denied ? "denied" : "allowed").toBe(expected);
+      });
+    }
+  }
+});

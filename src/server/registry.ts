@@ -1,0 +1,41 @@
+/**
+ * Every route handler and server action, with who may call it. The role-matrix test
+ * (registry.int.test.ts) fails when a route or action exists without an entry here, and calls
+ * each entry as every kind of person, asserting allow or deny.
+ *
+ * Actors: signedOut; nonMember (signed in, member of another campaign only); viewer, chemist,
+ * assay, lead (members of the campaign in question); admin (global administrator).
+ */
+export const allActors = ["signedOut", "nonMember", "viewer", "chemist", "assay", "lead", "admin"] as const;
+export type RegistryActor = (typeof allActors)[number];
+
+const everyone = [...allActors];
+const signedIn = allActors.filter((a) => a !== "signedOut");
+const members = ["viewer", "chemist", "assay", "lead", "admin"] as const;
+
+export type RegistryEntry = {
+  /** "<file>#<export>", e.g. "src/app/api/me/route.ts#GET". */
+  id: string;
+  what: string;
+  allow: readonly RegistryActor[];
+};
+
+export const registry: RegistryEntry[] = [
+  // Foundation and accounts
+  { id: "src/app/api/health/route.ts#GET", what: "service health (public, no data)", allow: everyone },
+  { id: "src/app/api/me/route.ts#GET", what: "the signed-in user and memberships", allow: signedIn },
+  { id: "src/app/api/campaigns/route.ts#GET", what: "campaigns the user belongs to", allow: signedIn },
+  { id: "src/app/(auth)/actions.ts#signInAction", what: "sign in (public)", allow: everyone },
+  { id: "src/app/(auth)/actions.ts#signOutAction", what: "sign out (public)", allow: everyone },
+  { id: "src/app/(auth)/actions.ts#requestResetAction", what: "ask for a reset link (public)", allow: everyone },
+  { id: "src/app/(auth)/actions.ts#resetPasswordAction", what: "set a new password with a token (public)", allow: everyone },
+  { id: "src/app/(auth)/actions.ts#acceptInviteAction", what: "accept an invitation with a token (public)", allow: everyone },
+  { id: "src/app/(workspace)/settings/actions.ts#changePasswordAction", what: "change one's own password", allow: signedIn },
+  { id: "src/app/(workspace)/campaigns/actions.ts#createCampaignAction", what: "create a campaign", allow: ["admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#inviteAction", what: "invite a person", allow: ["admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#changeRoleAction", what: "change a member's role", allow: ["admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#removeMemberAction", what: "remove a member", allow: ["admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#updateThresholdsAction", what: "set QC and hit thresholds", allow: ["lead", "admin"] },
+];
+
+export const registryGroups = { everyone, signedIn, members };
