@@ -162,7 +162,7 @@ function gridStart(lx: Float64Array, y: Float64Array, fixedTop: number | undefin
   const bothFree = fixedTop === undefined && fixedBottom === undefined;
   // With both asymptotes free the sign of h is redundant (symmetry), so only h > 0 is tried.
   const hs = bothFree ? [0.5, 1, 2] : [0.5, 1, 2, -0.5, -1, -2];
-  const steps = 16;
+  const steps = 11;
   const lo = lmin - 1;
   const hi = lmax + 1;
   const best: Start = { bottom: fixedBottom ?? ymean, top: fixedTop ?? ymean, l: 0.5 * (lmin + lmax), h: 1, rss: Infinity };

@@ -164,7 +164,7 @@ function projectedRss(d: Data, km: number, a: number, b: number): { rss: number;
 function gridStart(model: Exclude<InhibitionModel, "mixed">, d: Data, km0: number, iRef: number): number[] {
   let best = { rss: Infinity, start: [1, km0, 0] as number[] };
   const kGrid = [0];
-  for (let j = -6; j <= 6; j++) kGrid.push(Math.pow(10, j / 2) / iRef);
+  for (let j = -4; j <= 4; j++) kGrid.push(Math.pow(10, j / 2) / iRef);
   for (const kmMul of [0.5, 1, 2]) {
     const km = km0 * kmMul;
     for (const k of kGrid) {
@@ -269,14 +269,11 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
   for (const model of ["competitive", "uncompetitive", "noncompetitive"] as const) {
     raw[model] = fitFrom(model, d, gridStart(model, d, km0, iRef));
   }
-  // Mixed starts from each nested solution, so its RSS is never above theirs.
-  let mixed: RawFit | null = null;
-  for (const model of ["competitive", "uncompetitive", "noncompetitive"] as const) {
-    const [v, km, a, b] = unpack(model, raw[model].theta);
-    const fit = fitFrom("mixed", d, [v, km, a, b]);
-    if (mixed === null || fit.rss < mixed.rss) mixed = fit;
-  }
-  raw.mixed = mixed!;
+  // Mixed starts from the best nested solution: LM never increases RSS, so the mixed RSS is
+  // never above any nested model's and every F statistic is ≥ 0.
+  let nested: Exclude<InhibitionModel, "mixed"> = "competitive";
+  for (const model of ["uncompetitive", "noncompetitive"] as const) if (raw[model].rss < raw[nested].rss) nested = model;
+  raw.mixed = fitFrom("mixed", d, [...unpack(nested, raw[nested].theta)]);
 
   let syy = 0;
   for (let k = 0; k < d.n; k++) syy += (d.w[k]! * d.y[k]!) ** 2;

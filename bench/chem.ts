@@ -1,0 +1,136 @@
+/**
+ * Chemistry benchmark (not a test): `npx tsx bench/chem.ts [records] [candidates]`.
+ *
+ * 1. Bulk import of N SMILES records (default 10,000): CSV parse + form checks, then structure
+ *    parse + properties + fingerprint + in-file duplicate check (import-prepare.ts). The database
+ *    part of the import is not measured here.
+ * 2. Substructure search over the prepared molecules: the in-memory fingerprint prefilter (what
+ *    Postgres does with `(fp & q) = q`) and the exact openchemlib check on the candidates, from
+ *    stored ID codes, for 20 fragments; prints the median.
+ * 3. For comparison, openchemlib's own SSSearcherWithIndex index on 200 molecules (why it is not
+ *    used for storage).
+ *
+ * The molecules are INVENTED: random chains of drug-like units built by a seeded generator, only
+ * for timing.
+ */
+import { SSSearcherWithIndex } from "openchemlib";
+import { fingerprintContains, fromBitString } from "@/lib/chem/fingerprint";
+import { prepareImport } from "@/lib/chem/import-prepare";
+import { parseCsvImport } from "@/lib/chem/import-table";
+import { parseSmiles } from "@/lib/chem/parse";
+import { createSubstructureMatcher, parseFragmentQuery } from "@/lib/chem/substructure";
+import { structureSvg } from "@/lib/chem/svg";
+
+const N = Number(process.argv[2] ?? 10_000);
+
+function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+const ENDS = ["C", "F", "Cl", "CO", "FC(F)(F)", "N#C", "CN(C)", "OC(=O)", "O", "c8ccccc8", "C8CC8", "C8COCCN8", "Cc8ccco8"];
+const UNITS = ["c8ccc(cc8)", "c8cccc(c8)", "c8ccc(nc8)", "c8ccc(s8)", "C8CCN(CC8)", "N8CCN(CC8)", "C8CC(C8)", "c8cnc(nc8)", "c8ccc9[nH]ccc9c8"];
+const LINKS = ["", "C", "CC", "C(=O)N", "NC(=O)", "O", "S(=O)(=O)N", "N", "C(=O)", "OC", "CO", "NC(=O)N"];
+const TAILS = ["C", "F", "Cl", "OC", "C(F)(F)F", "C#N", "N(C)C", "C(=O)O", "O", "c8ccccc8", "C8CC8", "N8CCOCC8", "C(N)=O"];
+
+function inventedSmiles(count: number): string[] {
+  const rand = mulberry32(7);
+  const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)] as T;
+  const seen = new Set<string>();
+  while (seen.size < count) {
+    const s = pick(ENDS) + pick(LINKS) + pick(UNITS) + pick(LINKS) + pick(UNITS) + pick(LINKS) + pick(TAILS);
+    seen.add(s);
+  }
+  return [...seen];
+}
+
+function ms(t0: number): number {
+  return performance.now() - t0;
+}
+
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = Math.floor(s.length / 2);
+  return s.length % 2 ? (s[m] ?? 0) : ((s[m - 1] ?? 0) + (s[m] ?? 0)) / 2;
+};
+
+const smiles = inventedSmiles(N);
+const csv = ["smiles,name,supplier,purity_pct,amount_mg", ...smiles.map((s, i) => `${s},BENCH-${i + 1},Invented Supplier,98.5,10`)].join("\n");
+
+// Warm up openchemlib (first calls compile and initialise).
+prepareImport(parseCsvImport(csv.split("\n").slice(0, 51).join("\n")).records);
+
+let t0 = performance.now();
+const parsed = parseCsvImport(csv);
+const tCsv = ms(t0);
+t0 = performance.now();
+const prep = prepareImport(parsed.records);
+const tPrep = ms(t0);
+console.log(`import of ${N.toLocaleString("en")} SMILES records`);
+console.log(`  CSV parse + form checks:                   ${tCsv.toFixed(0)} ms`);
+console.log(`  structure + properties + fingerprint + dup: ${tPrep.toFixed(0)} ms (${(tPrep / N).toFixed(2)} ms/record)`);
+console.log(`  total:                                      ${((tCsv + tPrep) / 1000).toFixed(1)} s`);
+console.log(`  prepared ${prep.prepared.length}, structure issues ${prep.issues.length} (invented random chains; some are in-file duplicates)`);
+
+const stored = prep.prepared.map((p) => ({ key: p.properties.structureKey, fp: fromBitString(p.fingerprintBits) }));
+const fragments = [
+  "c1ccccc1",
+  "c1ccncc1",
+  "C(=O)N",
+  "S(=O)(=O)N",
+  "C(F)(F)F",
+  "N1CCNCC1",
+  "C1CCNCC1",
+  "c1ccc2[nH]ccc2c1",
+  "c1ccsc1",
+  "C#N",
+  "NC(=O)N",
+  "c1ccc(cc1)C(=O)N",
+  "C1CC1",
+  "N1CCOCC1",
+  "c1ncncc1",
+  "[F,Cl]c1ccccc1",
+  "OC(=O)c1ccccc1",
+  "c1ccc(Oc2ccccc2)cc1",
+  "CN(C)c1ccccc1",
+  "c1ccco1",
+];
+const times: number[] = [];
+console.log(`\nsubstructure search over ${stored.length.toLocaleString("en")} molecules (prefilter in memory + exact check from ID codes)`);
+for (const text of fragments) {
+  const q = parseFragmentQuery(text);
+  if (!q.ok) throw new Error(q.error);
+  t0 = performance.now();
+  const match = createSubstructureMatcher(q);
+  let candidates = 0;
+  let hits = 0;
+  for (const m of stored) {
+    if (!fingerprintContains(m.fp, q.fingerprint)) continue;
+    candidates++;
+    if (match(m.key)) hits++;
+  }
+  const t = ms(t0);
+  times.push(t);
+  console.log(`  ${text.padEnd(22)} candidates ${String(candidates).padStart(6)}  hits ${String(hits).padStart(6)}  ${t.toFixed(0)} ms`);
+}
+console.log(`  median over ${fragments.length} fragments: ${median(times).toFixed(0)} ms`);
+
+const sample = prep.prepared.slice(0, 200).map((p) => {
+  const r = parseSmiles(p.smiles ?? "");
+  if (!r.ok) throw new Error(r.error);
+  return r.molecule;
+});
+const oclIndex = new SSSearcherWithIndex();
+t0 = performance.now();
+for (const m of sample) oclIndex.createIndex(m);
+const tOcl = ms(t0);
+console.log(`\nopenchemlib SSSearcherWithIndex.createIndex: ${(tOcl / sample.length).toFixed(2)} ms/molecule (not used: ${((tOcl / sample.length) * N / 1000).toFixed(0)} s for ${N.toLocaleString("en")})`);
+t0 = performance.now();
+for (const p of prep.prepared.slice(0, 300)) structureSvg(p.properties.structureKey);
+console.log(`SVG thumbnails from the structure key: ${(ms(t0) / 300).toFixed(2)} ms each`);
