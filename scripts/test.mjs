@@ -11,6 +11,7 @@ const log = (...a) => console.log("[test]", ...a);
 const { root, ensureDependencies } = await import("./lib/stack.mjs");
 ensureDependencies(log);
 const { startStack, migrate, waitForHttp, portFree } = await import("./lib/stack.mjs");
+const { ensureDatabase } = await import("../docker-local-fakes/postgres/postgres.mjs");
 
 const isRoot = process.getuid?.() === 0;
 const only = process.argv.slice(2); // e.g. `npm test -- unit e2e`
@@ -124,7 +125,14 @@ try {
   if (want("e2e") || want("build")) {
     const built = runStep("production build (next build)", process.execPath, ["node_modules/next/dist/bin/next", "build"], { ...env, NODE_ENV: "production" });
     if (built && want("e2e")) {
-      // The e2e journeys run against the built app with the demo data loaded into the test database.
+      // The e2e journeys run against the built app with the demo data, in a database of their own.
+      const e2eUrl = new URL(env.DATABASE_URL);
+      const adminUrl = new URL(env.DATABASE_URL);
+      adminUrl.pathname = "/postgres";
+      e2eUrl.pathname = `${e2eUrl.pathname}_e2e`;
+      await ensureDatabase(adminUrl.toString(), e2eUrl.pathname.slice(1), { fresh: true });
+      env.DATABASE_URL = e2eUrl.toString();
+      migrate(env);
       const seed = spawnSync(process.execPath, ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", "src/cli/seed.ts", "--if-empty"], { cwd: root, env: { ...env, DEMO_DATA: "1" }, stdio: "inherit" });
       if (seed.status !== 0) throw new Error("Seeding the e2e database failed.");
       app = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(appPort)], {

@@ -1,8 +1,6 @@
-import { notFound } from "next/navigation";
-import { requireUser } from "@/server/auth/guard";
+import { pageAdmin } from "@/server/auth/page-guard";
 
 export default async function AdminLayout({ children }: { children: React.ReactNode }) {
-  const user = await requireUser();
-  if (user.globalRole !== "admin") notFound();
+  await pageAdmin();
   return <>{children}</>;
 }

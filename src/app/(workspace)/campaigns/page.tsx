@@ -1,5 +1,5 @@
 import Link from "next/link";
-import { requireUser } from "@/server/auth/guard";
+import { pageUser } from "@/server/auth/page-guard";
 import { campaignsFor } from "@/server/services/campaigns";
 import { roleLabels } from "@/lib/roles";
 import { EmptyState } from "@/components/ui/empty-state";
@@ -9,7 +9,7 @@ import { createCampaignAction } from "./actions";
 export const metadata = { title: "Campaigns" };
 
 export default async function CampaignsPage() {
-  const user = await requireUser();
+  const user = await pageUser();
   const list = await campaignsFor(user);
   return (
     <main className="mx-auto w-full max-w-5xl px-6 py-6">

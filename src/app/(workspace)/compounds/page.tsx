@@ -1,11 +1,11 @@
-import { requireUser } from "@/server/auth/guard";
+import { pageUser } from "@/server/auth/page-guard";
 import { EmptyState } from "@/components/ui/empty-state";
 import { ChemicalSafetyNote } from "@/components/ui/caution";
 
 export const metadata = { title: "Compound registry" };
 
 export default async function CompoundsPage() {
-  await requireUser();
+  await pageUser();
   return (
     <main className="mx-auto w-full max-w-6xl px-6 py-6">
       <h1 className="mb-1">Compound registry</h1>

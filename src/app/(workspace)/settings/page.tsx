@@ -1,11 +1,11 @@
-import { requireUser } from "@/server/auth/guard";
+import { pageUser } from "@/server/auth/page-guard";
 import { PasswordForm } from "./password-form";
 import { changePasswordAction } from "./actions";
 
 export const metadata = { title: "Your settings" };
 
 export default async function SettingsPage({ searchParams }: { searchParams: Promise<{ changed?: string }> }) {
-  const user = await requireUser();
+  const user = await pageUser();
   const { changed } = await searchParams;
   return (
     <main className="mx-auto w-full max-w-3xl px-6 py-6">

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { z } from "zod";
-import { requireAdmin } from "@/server/auth/guard";
+import { pageAdmin } from "@/server/auth/page-guard";
 import { auditEntries } from "@/server/services/campaigns";
 import { db } from "@/server/db/client";
 import { campaigns } from "@/server/db/schema";
@@ -22,7 +22,7 @@ function short(v: unknown): string {
 }
 
 export default async function AuditPage({ searchParams }: { searchParams: Promise<Record<string, string>> }) {
-  await requireAdmin();
+  await pageAdmin();
   const f = q.parse(await searchParams);
   const [{ items, total }, allCampaigns] = await Promise.all([
     auditEntries({ campaignId: f.campaign, action: f.action || undefined, actor: f.actor || undefined, limit: PAGE, offset: (f.page - 1) * PAGE }),

@@ -1,17 +1,11 @@
-import { notFound } from "next/navigation";
-import { requireCampaign } from "@/server/auth/guard";
-import { AppError } from "@/server/errors";
+import { pageCampaign } from "@/server/auth/page-guard";
 import { roleLabels } from "@/lib/roles";
 import { CampaignNav } from "../../_components/campaign-nav";
 import { ResearchUseNote } from "@/components/ui/caution";
 
 export default async function CampaignLayout({ children, params }: { children: React.ReactNode; params: Promise<{ campaignId: string }> }) {
   const { campaignId } = await params;
-  const access = await requireCampaign(campaignId).catch((e) => {
-    if (e instanceof AppError && (e.code === "not_found" || e.code === "forbidden")) notFound();
-    throw e;
-  });
-  const { campaign, role, user } = access;
+  const { campaign, role, user } = await pageCampaign(campaignId);
   return (
     <div className="flex flex-1">
       <aside className="w-52 shrink-0 border-r border-rule bg-paper-sunk px-3 py-4">

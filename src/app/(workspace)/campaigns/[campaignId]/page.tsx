@@ -1,4 +1,4 @@
-import { requireCampaign } from "@/server/auth/guard";
+import { pageCampaign } from "@/server/auth/page-guard";
 import { EmptyState } from "@/components/ui/empty-state";
 
 export const metadata = { title: "Overview" };
@@ -17,7 +17,7 @@ function Stat({ label, value, unit }: { label: string; value: string; unit?: str
 
 export default async function OverviewPage({ params }: { params: Promise<{ campaignId: string }> }) {
   const { campaignId } = await params;
-  const { campaign } = await requireCampaign(campaignId);
+  const { campaign } = await pageCampaign(campaignId);
   const km = campaign.kmValue != null ? `${campaign.kmValue} ${campaign.kmUnit ?? ""}` : "not set";
   const e = campaign.enzymeConcValue != null ? `${campaign.enzymeConcValue} ${campaign.enzymeConcUnit ?? ""}` : "not set";
   return (

@@ -1,11 +1,11 @@
-import { requireCampaign } from "@/server/auth/guard";
+import { pageCampaign } from "@/server/auth/page-guard";
 import { EmptyState } from "@/components/ui/empty-state";
 
 export const metadata = { title: "Hits" };
 
 export default async function HitsPage({ params }: { params: Promise<{ campaignId: string }> }) {
   const { campaignId } = await params;
-  await requireCampaign(campaignId);
+  await pageCampaign(campaignId);
   return (
     <div className="flex flex-col gap-4">
       <h1>Hits</h1>

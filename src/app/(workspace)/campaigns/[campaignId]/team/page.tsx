@@ -1,4 +1,4 @@
-import { requireCampaign } from "@/server/auth/guard";
+import { pageCampaign } from "@/server/auth/page-guard";
 import { membersOf, pendingInvitations } from "@/server/services/campaigns";
 import { can, roleLabels } from "@/lib/roles";
 import { TeamForms, MemberRow, ThresholdsForm } from "./team-forms";
@@ -8,7 +8,7 @@ export const metadata = { title: "Team & settings" };
 
 export default async function TeamPage({ params }: { params: Promise<{ campaignId: string }> }) {
   const { campaignId } = await params;
-  const { user, campaign, role } = await requireCampaign(campaignId);
+  const { user, campaign, role } = await pageCampaign(campaignId);
   const [members, invites] = await Promise.all([membersOf(campaignId), pendingInvitations(campaignId)]);
   const isAdmin = user.globalRole === "admin";
   return (
