@@ -57,7 +57,7 @@ function runStep(name, cmd, args, env) {
 
 function runVitest(name, config, env) {
   log(`▶ ${name}`);
-  const out = path.join(root, ".local", `vitest-${name}.json`);
+  const out = path.join(root, ".local", `vitest-${name}${process.env.TEST_SLOT ? `-${process.env.TEST_SLOT}` : ""}.json`);
   fs.rmSync(out, { force: true });
   const t0 = Date.now();
   const r = spawnSync(process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", config, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`], {
@@ -82,8 +82,10 @@ function runVitest(name, config, env) {
   log(`${name}: ${p} passed, ${f} failed (${((Date.now() - t0) / 1000).toFixed(1)} s)`);
 }
 
-const ports = { pg: 54339, s3: 4579, mail: 4035 };
-const appPort = Number(process.env.TEST_APP_PORT ?? 3100);
+// TEST_SLOT=N (0–9) runs a second suite beside the first on other ports and folders.
+const slot = Number(process.env.TEST_SLOT ?? 0);
+const ports = { pg: 54339 + slot * 100, s3: 4579 + slot * 100, mail: 4035 + slot * 100 };
+const appPort = Number(process.env.TEST_APP_PORT ?? 3100 + slot * 100);
 let stack;
 let app;
 async function cleanup() {
@@ -103,17 +105,17 @@ try {
   const chromium = want("e2e") ? ensureChromium() : "";
   const lockPort = await portFree(ports.s3);
   if (!lockPort) throw new Error(`Port ${ports.s3} is in use: is another \`npm test\` running?`);
-  stack = await startStack({ name: "test", ports, database: "inhibitrack_test", freshDatabase: true, log });
+  stack = await startStack({ name: slot ? `test${slot}` : "test", ports, database: "inhibitrack_test", freshDatabase: true, log });
   const appUrl = `http://127.0.0.1:${appPort}`;
   const env = {
     ...process.env,
     ...stack.env,
     APP_URL: appUrl,
-    NEXT_DIST_DIR: ".next-test",
+    NEXT_DIST_DIR: slot ? `.next-test${slot}` : ".next-test",
     NEXT_TELEMETRY_DISABLED: "1",
     AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: "true",
     CHROMIUM_PATH: chromium,
-    E2E_ARTIFACTS: path.join(root, "artifacts", "e2e"),
+    E2E_ARTIFACTS: path.join(root, "artifacts", slot ? `e2e${slot}` : "e2e"),
     NODE_ENV: "test",
   };
   migrate(env);
