@@ -7,7 +7,11 @@
  *   INH-000003 noncompetitive (Ki 2 µM) · INH-000004 mixed (Kic 1 µM, Kiu 4 µM, α 4)
  *   INH-000005 tight binder (K′ 1 nM at 10 nM enzyme, IC50 6 nM)
  *   INH-000006 partial inhibitor (IC50 2 µM, activity levels off at 35 %)
- * About 3 % of the rest are logistic inhibitors with IC50 between 0.05 and 50 µM.
+ * About 10 % of the rest are logistic inhibitors with IC50 between 0.05 and 50 µM (a higher hit
+ * rate than a real screen, so the demo has hits to follow up).
+ * By default the campaign uses 300 compounds, matching the chem module's invented demo library
+ * (registered in order as INH-000001 … INH-000300); the screen spreads them evenly over the plates,
+ * so most sample positions stay empty. Pass `compoundCount` to use a larger library.
  */
 import { writeGridText, writeLongEndpoint } from "./export-writers";
 import type { PlateFormat } from "./geometry";
@@ -53,7 +57,7 @@ export function inventedCompounds(seed: number, count: number): CompoundTruth[] 
   const out: CompoundTruth[] = [...SPECIAL_COMPOUNDS.slice(0, count)];
   for (let n = out.length + 1; n <= count; n++) {
     const id = compoundId(n);
-    if (u() < 0.03) {
+    if (u() < 0.1) {
       const ic50Um = Number((10 ** (Math.log10(0.05) + u() * (Math.log10(50) - Math.log10(0.05)))).toPrecision(3));
       const hill = Number((0.8 + u() * 0.7).toFixed(2));
       out.push({ id, kind: "logistic", ic50Um, hill });
@@ -88,9 +92,11 @@ export interface DemoCampaign {
 }
 
 export interface DemoOptions {
+  /** compounds in the library, INH-000001 …; default 300 */
+  readonly compoundCount?: number;
   /** single-dose plates (384-well); default 20 */
   readonly screenPlates?: number;
-  /** compounds per screen plate, in duplicate; default 160 (fills 320 sample wells) */
+  /** compounds per screen plate, in duplicate; default: the library spread evenly (at most 160) */
   readonly compoundsPerPlate?: number;
   /** dose-response plates (384-well, 16 compounds each); default 3 */
   readonly doseResponsePlates?: number;
@@ -117,9 +123,10 @@ function truthOf(c: CompoundTruth): Record<string, unknown> {
  */
 export function demoCampaignPlates(seed: number, options: DemoOptions = {}): DemoCampaign {
   const screenPlates = options.screenPlates ?? 20;
-  const perPlate = Math.min(options.compoundsPerPlate ?? 160, singleDoseCapacity(384, 2));
+  const count = Math.max(options.compoundCount ?? 300, SPECIAL_COMPOUNDS.length);
+  const perPlate = Math.min(options.compoundsPerPlate ?? Math.ceil(count / screenPlates), singleDoseCapacity(384, 2));
   const drPlates = options.doseResponsePlates ?? 3;
-  const compounds = inventedCompounds(seed, Math.max(screenPlates * perPlate, SPECIAL_COMPOUNDS.length));
+  const compounds = inventedCompounds(seed, count);
   const byId = new Map(compounds.map((c) => [c.id, c]));
   const plates: DemoPlate[] = [];
 

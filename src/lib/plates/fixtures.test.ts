@@ -85,8 +85,8 @@ describe("fixture set", () => {
 
 describe("demo campaign", () => {
   it("is deterministic and every plate round-trips through the parsers", () => {
-    const a = demoCampaignPlates(7, { screenPlates: 3, compoundsPerPlate: 40, doseResponsePlates: 1 });
-    const b = demoCampaignPlates(7, { screenPlates: 3, compoundsPerPlate: 40, doseResponsePlates: 1 });
+    const a = demoCampaignPlates(7, { compoundCount: 120, screenPlates: 3, compoundsPerPlate: 40, doseResponsePlates: 1 });
+    const b = demoCampaignPlates(7, { compoundCount: 120, screenPlates: 3, compoundsPerPlate: 40, doseResponsePlates: 1 });
     expect(a.plates.map((p) => p.file.contents)).toEqual(b.plates.map((p) => p.file.contents));
     expect(a.plates.map((p) => p.experiment)).toEqual(["single-dose", "single-dose", "single-dose", "dose-response", "mechanism"]);
     expect(a.compounds.every((c) => /^INH-\d{6}$/.test(c.id))).toBe(true);
@@ -104,12 +104,14 @@ describe("demo campaign", () => {
     expect(r.ok && r.export.shape === "grid-kinetic" && r.export.reads).toBe(60);
   });
 
-  it("builds the full default campaign: 20 screen plates, 3 dose-response plates, 1 mechanism plate", () => {
+  it("builds the default campaign over the 300-compound demo library: 20 screen plates, dose-response plates, 1 mechanism plate", () => {
     const d = demoCampaignPlates(1);
     expect(d.plates.filter((p) => p.experiment === "single-dose")).toHaveLength(20);
-    expect(d.plates.filter((p) => p.experiment === "dose-response")).toHaveLength(3);
+    expect(d.plates.filter((p) => p.experiment === "dose-response").length).toBeGreaterThanOrEqual(2);
     expect(d.plates.filter((p) => p.experiment === "mechanism")).toHaveLength(1);
-    expect(d.compounds).toHaveLength(3200);
+    expect(d.compounds).toHaveLength(300);
+    const screened = d.plates.filter((p) => p.experiment === "single-dose").flatMap((p) => p.map.wells.flatMap((w) => (w.role === "sample" && w.compound ? [w.compound] : [])));
+    expect(new Set(screened).size).toBe(300);
     expect(d.note).toMatch(/^INVENTED/);
   });
 });

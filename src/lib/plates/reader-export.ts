@@ -224,6 +224,14 @@ function findLongHeader(rows: TableRow[]): LongHeader | undefined {
   return undefined;
 }
 
+interface WellSeries {
+  readonly times: number[];
+  readonly values: number[];
+  readonly lines: number[];
+}
+
+type WellLookup = { readonly name: string; readonly idx: number; readonly row: number; readonly column: number } | { readonly error: string };
+
 function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExportOptions): ReaderExportResult {
   const issues = new Issues(ctx);
   const headerRow = rows[h.rowIndex]!;
@@ -231,48 +239,42 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
     issues.at(headerRow, h.timeProblem.col, undefined, `column ${quoteCell(h.timeProblem.text)} has no unit; name it time_s (seconds)`);
     return { ok: false, issues: issues.list };
   }
-  const kinetic = h.time !== undefined;
+  const time = h.time;
   const limitFormat: PlateFormat = options.format ?? 1536;
-  // Wells are collected by plate index so the result comes out in plate order.
+  const lineWord = ctx.kind === "xlsx" ? "row" : "line";
+  // Wells are keyed by their 1536-grid index so the result comes out in plate order; a kinetic
+  // file repeats each well name once per read, so names are looked up once.
+  const lookup = new Map<string, WellLookup>();
   const endpoint = new Map<number, { value: number; line: number }>();
-  const series = new Map<number, Map<number, { value: number; line: number }>>();
+  const series = new Map<number, WellSeries>();
   const times = new Set<number>();
   let maxRow = 0;
   let maxCol = 0;
   for (let r = h.rowIndex + 1; r < rows.length && !issues.full; r++) {
     const row = rows[r]!;
-    const cellAt = (c: number) => row.cells[c] ?? "";
-    const rawWell = cellAt(h.well);
-    const rawValue = cellAt(h.value);
-    const rawTime = h.time ? cellAt(h.time.col) : "";
+    const rawWell = row.cells[h.well] ?? "";
+    const rawValue = row.cells[h.value] ?? "";
+    const rawTime = time ? (row.cells[time.col] ?? "") : "";
     let bad = false;
-    for (const [c, raw] of [
-      [h.well, rawWell],
-      [h.value, rawValue],
-      ...(h.time ? ([[h.time.col, rawTime]] as const) : []),
-    ] as const) {
-      const inj = formulaInjectionMessage(raw);
-      if (inj) {
-        issues.at(row, c, undefined, inj);
-        bad = true;
-      }
+    let inj = formulaInjectionMessage(rawWell);
+    if (inj) (issues.at(row, h.well, undefined, inj), (bad = true));
+    inj = formulaInjectionMessage(rawValue);
+    if (inj) (issues.at(row, h.value, undefined, inj), (bad = true));
+    if (time) {
+      inj = formulaInjectionMessage(rawTime);
+      if (inj) (issues.at(row, time.col, undefined, inj), (bad = true));
     }
     if (bad) continue;
-    if (rawWell.trim() === "") {
-      issues.at(row, h.well, undefined, "well is missing");
+    let found = lookup.get(rawWell);
+    if (!found) {
+      found = lookUpWell(rawWell, limitFormat);
+      lookup.set(rawWell, found);
+    }
+    if ("error" in found) {
+      issues.at(row, h.well, undefined, found.error);
       continue;
     }
-    const pos = parseWellName(rawWell);
-    if (!pos) {
-      issues.at(row, h.well, undefined, `${quoteCell(rawWell.trim())} is not a well name`);
-      continue;
-    }
-    if (!fitsFormat(pos, limitFormat)) {
-      issues.at(row, h.well, undefined, `${quoteCell(rawWell.trim())} is not a well of a ${limitFormat}-well plate`);
-      continue;
-    }
-    const name = wellName(pos);
-    const idx = wellIndex(pos, 1536);
+    const { name, idx } = found;
     if (rawValue.trim() === "") {
       issues.at(row, h.value, name, "value is missing");
       continue;
@@ -282,66 +284,82 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
       issues.at(row, h.value, name, `${quoteCell(rawValue.trim())} is not a number`);
       continue;
     }
-    maxRow = Math.max(maxRow, pos.row);
-    maxCol = Math.max(maxCol, pos.column);
-    if (!h.time) {
+    if (found.row > maxRow) maxRow = found.row;
+    if (found.column > maxCol) maxCol = found.column;
+    if (!time) {
       const seen = endpoint.get(idx);
       if (seen) {
-        issues.at(row, h.well, name, `well is listed twice (first on ${ctx.kind === "xlsx" ? "row" : "line"} ${seen.line})`);
+        issues.at(row, h.well, name, `well is listed twice (first on ${lineWord} ${seen.line})`);
         continue;
       }
       endpoint.set(idx, { value, line: row.line });
       continue;
     }
     if (rawTime.trim() === "") {
-      issues.at(row, h.time.col, name, "time is missing");
+      issues.at(row, time.col, name, "time is missing");
       continue;
     }
     const t = parseNumber(rawTime, ctx.decimalComma);
     if (t === undefined) {
-      issues.at(row, h.time.col, name, `time ${quoteCell(rawTime.trim())} is not a number`);
+      issues.at(row, time.col, name, `time ${quoteCell(rawTime.trim())} is not a number`);
       continue;
     }
     if (t < 0) {
-      issues.at(row, h.time.col, name, `time ${t} is negative`);
+      issues.at(row, time.col, name, `time ${t} is negative`);
       continue;
     }
-    const timeS = Math.round(t * h.time.unitSeconds * 1e9) / 1e9;
+    const timeS = time.unitSeconds === 1 ? t : Math.round(t * time.unitSeconds * 1e9) / 1e9;
     let s = series.get(idx);
-    if (!s) series.set(idx, (s = new Map()));
-    const seen = s.get(timeS);
-    if (seen) {
-      issues.at(row, h.well, name, `time ${timeS} s is listed twice for this well (first on ${ctx.kind === "xlsx" ? "row" : "line"} ${seen.line})`);
-      continue;
+    if (!s) series.set(idx, (s = { times: [], values: [], lines: [] }));
+    // Exports list reads in time order, so a later time needs no duplicate search.
+    const last = s.times.length > 0 ? s.times[s.times.length - 1]! : -Infinity;
+    if (timeS <= last) {
+      const k = s.times.indexOf(timeS);
+      if (k >= 0) {
+        issues.at(row, h.well, name, `time ${timeS} s is listed twice for this well (first on ${lineWord} ${s.lines[k]})`);
+        continue;
+      }
     }
-    s.set(timeS, { value, line: row.line });
+    s.times.push(timeS);
+    s.values.push(value);
+    s.lines.push(row.line);
     if (!times.has(timeS)) {
       times.add(timeS);
       if (times.size > MAX_READS) {
-        issues.at(row, h.time.col, name, `file has more than ${MAX_READS} reads (distinct times); the limit is ${MAX_READS}`);
+        issues.at(row, time.col, name, `file has more than ${MAX_READS} reads (distinct times); the limit is ${MAX_READS}`);
         break;
       }
     }
   }
   if (issues.list.length > 0) return { ok: false, issues: issues.list };
-  const count = kinetic ? series.size : endpoint.size;
+  const count = time ? series.size : endpoint.size;
   if (count === 0) return fail(ctx.fileName, "the table has a header but no wells", { ...(ctx.kind === "text" ? { line: headerRow.line } : {}) });
   const format = options.format ?? smallestFormatFor({ row: maxRow, column: maxCol })!;
-  const reorder = <T>(m: Map<number, T>): [string, T][] => {
-    const keys = [...m.keys()].sort((a, b) => a - b);
-    return keys.map((k) => {
-      const pos = { row: Math.floor(k / 48), column: k % 48 };
-      return [wellName(pos), m.get(k)!];
-    });
-  };
-  if (!kinetic) {
-    const wells = new Map(reorder(endpoint).map(([w, v]) => [w, v.value]));
+  const nameOf = (k: number) => wellName({ row: Math.floor(k / 48), column: k % 48 });
+  if (!time) {
+    const keys = [...endpoint.keys()].sort((a, b) => a - b);
+    const wells = new Map(keys.map((k) => [nameOf(k), endpoint.get(k)!.value]));
     return { ok: true, export: endpointExport("long-endpoint", ctx, format, wells) };
   }
-  const wells = new Map(
-    reorder(series).map(([w, s]) => [w, [...s.entries()].sort((a, b) => a[0] - b[0]).map(([timeS, p]) => ({ timeS, value: p.value }))]),
-  );
+  const keys = [...series.keys()].sort((a, b) => a - b);
+  const wells = new Map<string, KineticPoint[]>();
+  for (const k of keys) {
+    const s = series.get(k)!;
+    const pts: KineticPoint[] = s.times.map((timeS, i) => ({ timeS, value: s.values[i]! }));
+    let sorted = true;
+    for (let i = 1; i < pts.length; i++) if (pts[i]!.timeS < pts[i - 1]!.timeS) sorted = false;
+    if (!sorted) pts.sort((a, b) => a.timeS - b.timeS);
+    wells.set(nameOf(k), pts);
+  }
   return { ok: true, export: kineticExport("long-kinetic", ctx, format, wells, [...times].sort((a, b) => a - b)) };
+}
+
+function lookUpWell(rawWell: string, format: PlateFormat): WellLookup {
+  if (rawWell.trim() === "") return { error: "well is missing" };
+  const pos = parseWellName(rawWell);
+  if (!pos) return { error: `${quoteCell(rawWell.trim())} is not a well name` };
+  if (!fitsFormat(pos, format)) return { error: `${quoteCell(rawWell.trim())} is not a well of a ${format}-well plate` };
+  return { name: wellName(pos), idx: wellIndex(pos, 1536), row: pos.row, column: pos.column };
 }
 
 // ---------------------------------------------------------------- plate grids
