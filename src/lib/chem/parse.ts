@@ -33,7 +33,7 @@ export interface ParseOptions {
 
 export interface ParsedStructure {
   ok: true;
-  /** The normalised parent molecule (with 2D coordinates). */
+  /** The normalised parent molecule. It may have no 2D coordinates (see parseSmiles); svg.ts adds them. */
   molecule: Molecule;
   format: StructureFormat;
   /** Canonical SMILES of the components removed in step 3, largest first. Empty when none. */
@@ -122,6 +122,37 @@ function valenceProblem(mol: Molecule): string | undefined {
   return undefined;
 }
 
+/**
+ * Conservative, coordinate-free test for a possible stereo element: a tetrahedral stereo centre
+ * (openchemlib's topological count), a non-aromatic double bond outside rings smaller than 8
+ * whose two atoms both carry another neighbour (E/Z, also allenes), or a biaryl axis of the
+ * BINAP type. False positives only cost time.
+ */
+export function mayHaveStereo(mol: Molecule): boolean {
+  if (mol.getStereoCenterCount() > 0) return true;
+  mol.ensureHelperArrays(Molecule.cHelperRings);
+  for (let b = 0; b < mol.getBonds(); b++) {
+    if (mol.isBINAPChiralityBond(b)) return true;
+    if (mol.getBondOrder(b) !== 2 || mol.isAromaticBond(b)) continue;
+    const ring = mol.getBondRingSize(b);
+    if (ring > 0 && ring < 8) continue;
+    const a1 = mol.getBondAtom(0, b);
+    const a2 = mol.getBondAtom(1, b);
+    if (mol.getConnAtoms(a1) > 1 && mol.getConnAtoms(a2) > 1) return true;
+  }
+  return false;
+}
+
+/** Whether any atom or bond is a stereo element, as openchemlib perceives it (needs coordinates). */
+export function hasStereoFeature(mol: Molecule): boolean {
+  mol.ensureHelperArrays(Molecule.cHelperParities);
+  for (let a = 0; a < mol.getAtoms(); a++) {
+    if (mol.isAtomStereoCenter(a) || mol.getAtomParity(a) !== Molecule.cAtomParityNone) return true;
+  }
+  for (let b = 0; b < mol.getBonds(); b++) if (mol.getBondParity(b) !== Molecule.cBondParityNone) return true;
+  return false;
+}
+
 function heavyAtomCount(mol: Molecule): number {
   let n = 0;
   for (let a = 0; a < mol.getAllAtoms(); a++) if (mol.getAtomicNo(a) > 1) n++;
@@ -145,7 +176,9 @@ function normalise(
   const warnings: string[] = [];
   let parent = mol;
   const removedComponents: string[] = [];
-  const components = mol.getFragments();
+  // Counting first is ~10× cheaper than getFragments(), which copies every component.
+  const componentCount = mol.getFragmentNumbers(new Array<number>(mol.getAllAtoms()).fill(0), false, false);
+  const components = componentCount > 1 ? mol.getFragments() : [mol];
   if (components.length > 1) {
     if (options.multiComponent === "reject") {
       return {
@@ -169,7 +202,9 @@ function normalise(
       `Kept the largest of ${components.length} components as the parent structure; removed: ${removedComponents.join(", ")}. Record the salt or solvate on the batch.`,
     );
   }
-  parent.removeExplicitHydrogens();
+  let hasHydrogen = false;
+  for (let a = 0; a < parent.getAllAtoms() && !hasHydrogen; a++) hasHydrogen = parent.getAtomicNo(a) === 1;
+  if (hasHydrogen) parent.removeExplicitHydrogens();
   parent.normalizeAmbiguousBonds();
   parent.canonizeCharge(true);
   if (heavyAtomCount(parent) === 0) {
@@ -194,7 +229,14 @@ export function parseSmiles(input: string, options: ParseOptions = {}): ParseRes
   if (lexical) return { ok: false, format: "smiles", error: `${label} could not be read: ${lexical}.` };
   let mol: Molecule;
   try {
-    mol = Molecule.fromSmiles(smiles);
+    // Coordinates cost most of the parse time, and openchemlib needs them only to settle stereo
+    // (without them it loses @ / \\ marks, and later steps even give an unspecified double bond a
+    // geometry). So: parse without coordinates, and parse again with them when the SMILES has
+    // stereo marks or the molecule could have a stereo element (mayHaveStereo, conservative). Most screening compounds have none. The tests
+    // check the structure key against openchemlib's plain path. Depictions invent coordinates
+    // when they need them (svg.ts).
+    mol = Molecule.fromSmiles(smiles, { noCoordinates: true });
+    if (/[@/\\]/.test(smiles) || mayHaveStereo(mol)) mol = Molecule.fromSmiles(smiles);
   } catch (err) {
     return {
       ok: false,

@@ -1,4 +1,7 @@
+import { CanonizerUtil, Molecule } from "openchemlib";
 import { describe, expect, it } from "vitest";
+import { demoCompounds } from "./demo-compounds";
+import { PUBLIC_MOLECULES } from "./fingerprint.test";
 import { parseSmiles } from "./parse";
 import { computeProperties, flatKey, structureKey, toHillFormula } from "./properties";
 
@@ -133,5 +136,37 @@ describe("toHillFormula (Hill order: C, H, then alphabetical; common practice)",
     ["C9H8O4", "C9H8O4"],
   ])("%s → %s", (input, hill) => {
     expect(toHillFormula(input)).toBe(hill);
+  });
+});
+
+describe("speed shortcuts give the same keys as openchemlib's plain path (openchemlib is the reference)", () => {
+  const inputs = [
+    ...PUBLIC_MOLECULES,
+    ...demoCompounds().map((c) => c.smiles),
+    "CC(C)Cc1ccc(cc1)C(C)C(O)=O",
+    "CC=CC",
+    "C/C=C/C",
+    "CC(O)C(C)O",
+    "C[C@H](O)[C@@H](C)O",
+    "OC1CCC(O)CC1",
+    "CC(=NO)c1ccccc1",
+    "C1=CCCCCCC1",
+    "CC=C=CC",
+    "CC(N)C=CC(C)O",
+  ];
+
+  it("parsing without coordinates (SMILES with no @ / \\ marks) gives the key of Molecule.fromSmiles", () => {
+    for (const s of inputs) {
+      const reference = Molecule.fromSmiles(s);
+      reference.canonizeCharge(true);
+      expect(structureKey(mol(s)), s).toBe(reference.getIDCode());
+    }
+  });
+
+  it("flatKey's shortcut equals CanonizerUtil NOSTEREO", () => {
+    for (const s of inputs) {
+      const m = mol(s);
+      expect(flatKey(m), s).toBe(CanonizerUtil.getIDCode(m, CanonizerUtil.NOSTEREO));
+    }
   });
 });

@@ -24,6 +24,7 @@
  * - `rotatableBonds`: openchemlib's count.
  */
 import { CanonizerUtil, Molecule, MoleculeProperties } from "openchemlib";
+import { hasStereoFeature } from "./parse";
 
 export interface CompoundProperties {
   structureKey: string;
@@ -77,9 +78,14 @@ export function structureKey(mol: Molecule): string {
   return mol.getIDCode();
 }
 
-/** The stereo-free key: equal for all stereo forms of one constitution. */
+/**
+ * The stereo-free key: equal for all stereo forms of one constitution. For a molecule with no
+ * stereo centre, stereo bond or parity it equals the structure key (the stereo-free ID code
+ * costs several times a normal one, so it is only computed when it can differ; tests check the
+ * shortcut against openchemlib's NOSTEREO code).
+ */
 export function flatKey(mol: Molecule): string {
-  return CanonizerUtil.getIDCode(mol, CanonizerUtil.NOSTEREO);
+  return hasStereoFeature(mol) ? CanonizerUtil.getIDCode(mol, CanonizerUtil.NOSTEREO) : mol.getIDCode();
 }
 
 function countUndefinedStereo(mol: Molecule): { centres: number; undefinedStereo: number } {

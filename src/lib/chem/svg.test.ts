@@ -37,6 +37,14 @@ describe("structureSvg", () => {
     expect(structureSvg(mol(ibuprofen), { stereoLabels: true })).toContain(">abs<");
   });
 
+  it("draws a molecule parsed without coordinates with real bond lengths", () => {
+    const svg = structureSvg(mol("CCO"));
+    const line = /<line x1="([\d.]+)" y1="([\d.]+)" x2="([\d.]+)" y2="([\d.]+)"/.exec(svg);
+    expect(line).not.toBeNull();
+    const [, x1, y1, x2, y2] = (line ?? []).map(Number);
+    expect(Math.hypot((x2 ?? 0) - (x1 ?? 0), (y2 ?? 0) - (y1 ?? 0))).toBeGreaterThan(5);
+  });
+
   it("clamps silly sizes and ignores an unsafe id prefix", () => {
     const svg = structureSvg(mol("CCO"), { width: 1e9, height: -5, idPrefix: '"><script>' });
     expect(svg).toContain('width="2000px" height="16px"');

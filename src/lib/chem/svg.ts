@@ -77,6 +77,13 @@ export function assertSafeSvg(svg: string): string {
   return svg;
 }
 
+/** False for a molecule parsed without coordinates (all atoms at the origin). */
+function hasCoordinates(mol: Molecule): boolean {
+  if (mol.getAllAtoms() < 2) return true;
+  for (let a = 0; a < mol.getAllAtoms(); a++) if (mol.getAtomX(a) !== 0 || mol.getAtomY(a) !== 0) return true;
+  return false;
+}
+
 function clampSize(value: number | undefined, fallback: number): number {
   const v = value ?? fallback;
   if (!Number.isFinite(v)) return fallback;
@@ -91,7 +98,11 @@ export function structureSvg(structure: Molecule | string, options: SvgOptions =
   const width = clampSize(options.width, 160);
   const height = clampSize(options.height, 120);
   const prefix = /^[A-Za-z][\w-]{0,31}$/.test(options.idPrefix ?? "") ? (options.idPrefix as string) : "mol-";
-  const mol = typeof structure === "string" ? Molecule.fromIDCode(structure, true) : structure;
+  let mol = typeof structure === "string" ? Molecule.fromIDCode(structure, true) : structure;
+  if (!hasCoordinates(mol)) {
+    mol = mol.getCompactCopy();
+    mol.inventCoordinates();
+  }
   const id = `${prefix}${shortHash(typeof structure === "string" ? structure : mol.getIDCode())}`;
   const stereo = options.stereoLabels === true;
   const raw = mol.toSVG(width, height, id, {
