@@ -255,16 +255,13 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
     const rawWell = row.cells[h.well] ?? "";
     const rawValue = row.cells[h.value] ?? "";
     const rawTime = time ? (row.cells[time.col] ?? "") : "";
-    let bad = false;
-    let inj = formulaInjectionMessage(rawWell);
-    if (inj) (issues.at(row, h.well, undefined, inj), (bad = true));
-    inj = formulaInjectionMessage(rawValue);
-    if (inj) (issues.at(row, h.value, undefined, inj), (bad = true));
-    if (time) {
-      inj = formulaInjectionMessage(rawTime);
-      if (inj) (issues.at(row, time.col, undefined, inj), (bad = true));
-    }
-    if (bad) continue;
+    const injWell = formulaInjectionMessage(rawWell);
+    const injValue = formulaInjectionMessage(rawValue);
+    const injTime = time ? formulaInjectionMessage(rawTime) : undefined;
+    if (injWell) issues.at(row, h.well, undefined, injWell);
+    if (injValue) issues.at(row, h.value, undefined, injValue);
+    if (injTime && time) issues.at(row, time.col, undefined, injTime);
+    if (injWell || injValue || injTime) continue;
     let found = lookup.get(rawWell);
     if (!found) {
       found = lookUpWell(rawWell, limitFormat);
