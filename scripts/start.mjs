@@ -6,6 +6,7 @@ import fs from "node:fs";
 import path from "node:path";
 
 const dev = process.argv.includes("--dev");
+const startedAt = Date.now();
 const log = (...a) => console.log("[inhibitrack]", ...a);
 
 // Dependencies first: the rest of this script imports them.
@@ -103,7 +104,7 @@ try {
   }
   await waitForHttp(`${appUrl}/api/health`, 120_000);
   console.log(`
-  Inhibitrack is running.
+  Inhibitrack is running (ready ${((Date.now() - startedAt) / 1000).toFixed(0)} s after \`npm start\`).
 
     App          ${appUrl}
     Health       ${appUrl}/api/health
