@@ -13,6 +13,7 @@ import {
   INHIBITION_MODELS,
   TableInputError,
   fitLogistic4,
+  finiteOrNull,
   fitMechanism,
   readDoseResponseCsv,
   readMechanismCsv,
@@ -81,13 +82,13 @@ function modelView(m: MechanismModelFit) {
 function mechanismCommand(text: string, options: Record<string, string>): string {
   const weighting = options.weighting ?? "none";
   if (weighting !== "none" && weighting !== "relative") throw new UsageError(`--weighting must be none or relative (got ${JSON.stringify(weighting)})`);
-  const points = readMechanismCsv(text);
+  const rows = readMechanismCsv(text);
   if (weighting === "relative") {
-    // Locate a non-positive rate at S > 0 before the engine refuses it, to name the line.
-    const bad = points.findIndex((p) => p.substrate > 0 && !(p.rate > 0));
-    if (bad >= 0) throw new UsageError(`relative weighting needs positive rates; data row ${bad + 1} has rate ${points[bad]!.rate}`);
+    // Find a non-positive rate at S > 0 before the engine refuses it, so the message names the line.
+    const bad = rows.find((p) => p.substrate > 0 && !(p.rate > 0));
+    if (bad) throw new TableInputError(bad.line, "rate", `relative weighting needs a positive rate (got ${bad.rate})`);
   }
-  const r = fitMechanism(points, { weighting });
+  const r = fitMechanism(rows.map(({ substrate, inhibitor, rate }) => ({ substrate, inhibitor, rate })), { weighting });
   const models = Object.fromEntries(INHIBITION_MODELS.map((m) => [m, modelView(r.models[m])]));
   return toJson({ best: r.best, label: r.label, models }, 2) + "\n";
 }
@@ -99,7 +100,16 @@ function doseResponseCommand(text: string, options: Record<string, string>): str
   const series = readDoseResponseCsv(text, free + 1, Math.max(3, free));
   const lines = series.map((s) => {
     const f = fitLogistic4(s.concentration, s.response, { fixedTop, fixedBottom });
-    return toJson({ compound: s.compound, ic50: f.ic50, hill: f.hill, top: f.top, bottom: f.bottom, ic50Ci95: f.ic50Ci95, flags: f.flags });
+    // Every number passes finiteOrNull, so the plain (fast) JSON.stringify cannot meet NaN.
+    return JSON.stringify({
+      compound: s.compound,
+      ic50: finiteOrNull(f.ic50),
+      hill: finiteOrNull(f.hill),
+      top: finiteOrNull(f.top),
+      bottom: finiteOrNull(f.bottom),
+      ic50Ci95: [finiteOrNull(f.ic50Ci95[0]), finiteOrNull(f.ic50Ci95[1])],
+      flags: f.flags,
+    });
   });
   return "[\n" + lines.join(",\n") + "\n]\n";
 }

@@ -51,13 +51,59 @@ export interface LeastSquaresResult {
   converged: boolean;
   /** How it stopped, for diagnostics. */
   reason: "ftol" | "xtol" | "gtol" | "max-iterations" | "zero-residual" | "non-finite";
-  /** Unscaled covariance inverse(JᵀJ) at the solution, or null when JᵀJ is singular. */
-  inverseJtJ: Float64Array | null;
+  /** Unscaled covariance inverse(JᵀJ) at the solution (row-major), or null when JᵀJ is singular. */
+  inverseJtJ: number[] | null;
   /** Indices of parameters that ended on a bound. */
   atBound: number[];
 }
 
 const DEFAULTS = { maxIterations: 200, ftol: 1e-12, xtol: 1e-12, gtol: 1e-12 };
+
+interface Workspace {
+  n: number;
+  p: number;
+  r: Float64Array;
+  jac: Float64Array;
+  rTrial: Float64Array;
+  jacTrial: Float64Array;
+  thetaTrial: Float64Array;
+  a: Float64Array;
+  g: Float64Array;
+  m: Float64Array;
+  delta: Float64Array;
+  rhs: Float64Array;
+  free: Int32Array;
+}
+
+// Scratch arrays reused between calls of the same size: batch fitting allocates (and garbage
+// collects) far less this way. Safe because a solve never re-enters itself (JS is single-threaded
+// and evaluate() must not call the solver); nothing from here is returned to the caller.
+const workspaces = new Map<number, Workspace>();
+
+function workspace(n: number, p: number): Workspace {
+  const key = n * 16 + p;
+  let w = workspaces.get(key);
+  if (!w) {
+    w = {
+      n,
+      p,
+      r: new Float64Array(n),
+      jac: new Float64Array(n * p),
+      rTrial: new Float64Array(n),
+      jacTrial: new Float64Array(n * p),
+      thetaTrial: new Float64Array(p),
+      a: new Float64Array(p * p),
+      g: new Float64Array(p),
+      m: new Float64Array(p * p),
+      delta: new Float64Array(p),
+      rhs: new Float64Array(p),
+      free: new Int32Array(p),
+    };
+    if (workspaces.size > 64) workspaces.clear();
+    workspaces.set(key, w);
+  }
+  return w;
+}
 
 function sumSquares(r: Float64Array, n: number): number {
   let s = 0;
@@ -101,16 +147,14 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
     if (upper && v > upper[j]!) v = upper[j]!;
     theta[j] = v;
   }
-  const r = new Float64Array(n);
-  const jac = new Float64Array(n * p);
-  const rTrial = new Float64Array(n);
-  const thetaTrial = new Float64Array(p);
-  const a = new Float64Array(p * p);
-  const g = new Float64Array(p);
-  const m = new Float64Array(p * p);
-  const delta = new Float64Array(p);
-  const rhs = new Float64Array(p);
-  const free = new Int32Array(p);
+  const ws = workspace(n, p);
+  const { thetaTrial, a, g, m, delta, rhs, free } = ws;
+  // Residuals and Jacobian are evaluated together at each trial point; on acceptance the trial
+  // buffers become the current ones (a swap), so no point is evaluated twice.
+  let r = ws.r;
+  let jac = ws.jac;
+  let rTrial = ws.rTrial;
+  let jacTrial = ws.jacTrial;
 
   problem.evaluate(theta, r, jac);
   let rss = sumSquares(r, n);
@@ -209,15 +253,16 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
       dad += delta[j]! * ad;
     }
     const predicted = dg - 0.5 * dad;
-    problem.evaluate(thetaTrial, rTrial, null);
+    problem.evaluate(thetaTrial, rTrial, jacTrial);
     const rssTrial = sumSquares(rTrial, n);
     const actual = 0.5 * (rss - rssTrial);
     const rho = predicted > 0 ? actual / predicted : -1;
     if (Number.isFinite(rssTrial) && actual > 0 && rho > 0) {
       const oldRss = rss;
       theta.set(thetaTrial);
-      problem.evaluate(theta, r, jac);
-      rss = sumSquares(r, n);
+      [r, rTrial] = [rTrial, r];
+      [jac, jacTrial] = [jacTrial, jac];
+      rss = rssTrial;
       normalEquations(jac, r, n, p, a, g);
       for (let j = 0; j < p; j++) maxDiag = Math.max(maxDiag, a[j * p + j]!);
       const f = 2 * rho - 1;
@@ -265,11 +310,9 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
  * (Bates & Watts, Nonlinear Regression Analysis and Its Applications, 1988, §2.3).
  * Returns the covariance matrix (row-major) or null when it cannot be formed.
  */
-export function parameterCovariance(result: LeastSquaresResult, nObs: number, nParams: number): Float64Array | null {
+export function parameterCovariance(result: LeastSquaresResult, nObs: number, nParams: number): number[] | null {
   const dof = nObs - nParams;
   if (dof <= 0 || result.inverseJtJ === null) return null;
   const s2 = result.rss / dof;
-  const cov = new Float64Array(nParams * nParams);
-  for (let i = 0; i < cov.length; i++) cov[i] = result.inverseJtJ[i]! * s2;
-  return cov;
+  return result.inverseJtJ.map((v) => v * s2);
 }

@@ -180,7 +180,7 @@ function gridStart(model: Exclude<InhibitionModel, "mixed">, d: Data, km0: numbe
 interface RawFit {
   theta: Float64Array;
   rss: number;
-  cov: Float64Array | null;
+  cov: number[] | null;
   converged: boolean;
 }
 
@@ -277,7 +277,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
 
   let syy = 0;
   for (let k = 0; k < d.n; k++) syy += (d.w[k]! * d.y[k]!) ** 2;
-  const rssFloor = 1e-16 * syy;
+  const rssFloor = Math.max(1e-16 * syy, Number.MIN_VALUE); // > 0 even if every rate is 0
   const effRss = (m: InhibitionModel): number => Math.max(raw[m].rss, rssFloor);
 
   const aiccs = INHIBITION_MODELS.map((m) => aicc(effRss(m), d.n, MODEL_PARAMETER_COUNT[m]));

@@ -97,11 +97,11 @@ export function fitMorrison(i: ArrayLike<number>, v: ArrayLike<number>, e: numbe
   const hi = Math.log(10 * Math.max(imax, e));
   let bestRss = Infinity;
   let start: number[] = p === 2 ? [1, e] : [e];
+  const ms = new Float64Array(n);
   for (let s = 0; s <= 30; s++) {
     const k = Math.exp(lo + ((hi - lo) * s) / 30);
     let smm = 0;
     let smv = 0;
-    const ms = new Float64Array(n);
     for (let j = 0; j < n; j++) {
       ms[j] = morrisonFractionalActivity(i[j]!, e, k);
       smm += ms[j]! * ms[j]!;

@@ -38,25 +38,31 @@ export function choleskySolveInPlace(l: Float64Array, p: number, b: Float64Array
   }
 }
 
-/** Inverse of a symmetric positive-definite p×p matrix, or null when it is singular. The input
- * is not modified. Relative conditioning guard: a pivot below 1e-14 of its diagonal counts as
- * singular, because the resulting variances would be meaningless. */
-export function symmetricPositiveDefiniteInverse(a: Float64Array, p: number): Float64Array | null {
+// Scratch for the inverse (p ≤ 16), so batch fits do not allocate typed arrays per call.
+const scratchScale = new Float64Array(16);
+const scratchL = new Float64Array(256);
+const scratchCol = new Float64Array(16);
+
+/** Inverse of a symmetric positive-definite p×p matrix (row-major, as a plain array), or null
+ * when it is singular. The input is not modified. Relative conditioning guard: a pivot below
+ * 1e-14 of its diagonal counts as singular, because the resulting variances would be meaningless. */
+export function symmetricPositiveDefiniteInverse(a: ArrayLike<number>, p: number): number[] | null {
+  const big = p > 16;
+  const scale = big ? new Float64Array(p) : scratchScale;
+  const l = big ? new Float64Array(p * p) : scratchL;
+  const col = big ? new Float64Array(p) : scratchCol;
   // Scale to unit diagonal first (Jacobi preconditioning) so the singularity test is relative.
-  const scale = new Float64Array(p);
   for (let i = 0; i < p; i++) {
     const d = a[i * p + i]!;
     if (!(d > 0) || !Number.isFinite(d)) return null;
     scale[i] = 1 / Math.sqrt(d);
   }
-  const l = new Float64Array(p * p);
   for (let i = 0; i < p; i++) for (let j = 0; j < p; j++) l[i * p + j] = a[i * p + j]! * scale[i]! * scale[j]!;
   if (!choleskyInPlace(l, p)) return null;
   for (let i = 0; i < p; i++) if (l[i * p + i]! < 1e-7) return null; // pivot² < 1e-14
-  const inv = new Float64Array(p * p);
-  const col = new Float64Array(p);
+  const inv: number[] = new Array<number>(p * p).fill(0);
   for (let j = 0; j < p; j++) {
-    col.fill(0);
+    col.fill(0, 0, p);
     col[j] = 1;
     choleskySolveInPlace(l, p, col);
     for (let i = 0; i < p; i++) inv[i * p + j] = col[i]! * scale[i]! * scale[j]!;

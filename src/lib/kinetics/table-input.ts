@@ -31,8 +31,12 @@ interface CsvRow {
 
 /** Splits CSV text into rows of cells, keeping each row's 1-based line number. */
 export function parseCsv(text: string): CsvRow[] {
+  return parseCsvQuoted(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+}
+
+function parseCsvQuoted(text: string): CsvRow[] {
   const rows: CsvRow[] = [];
-  let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  let i = 0;
   let line = 1;
   const n = text.length;
   while (i < n) {
@@ -92,69 +96,162 @@ function headerKey(raw: string): { name: string; unit: string | null } {
   return { name: t.toLowerCase(), unit: null };
 }
 
-interface Located {
-  header: CsvRow;
-  data: CsvRow[];
+/** One data row as the readers see it: its line, its cell count and its cells by index. */
+interface RowCursor {
+  line: number;
+  count: number;
+  cell(k: number): string;
+}
+
+/**
+ * Calls `onHeader` with the first non-blank row and `onRow` with every later non-blank row.
+ * Files without quotes take a single-pass scan that records cell boundaries instead of building
+ * arrays (batch files have 10⁵ rows); files with quotes go through parseCsv.
+ */
+function forEachRow(text: string, onHeader: (cells: string[], line: number) => void, onRow: (row: RowCursor) => void): void {
+  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  if (body.includes('"') || /\r(?!\n)/.test(body)) {
+    const rows = parseCsv(body);
+    if (rows.length === 0) return;
+    onHeader(rows[0]!.cells, rows[0]!.line);
+    const cursor = { line: 0, count: 0, cells: [] as string[], cell(k: number) { return this.cells[k]!; } };
+    for (let r = 1; r < rows.length; r++) {
+      cursor.line = rows[r]!.line;
+      cursor.cells = rows[r]!.cells;
+      cursor.count = cursor.cells.length;
+      onRow(cursor);
+    }
+    return;
+  }
+  const len = body.length;
+  let starts = new Int32Array(16);
+  let ends = new Int32Array(16);
+  const cursor: RowCursor = { line: 0, count: 0, cell: (k) => body.slice(starts[k]!, ends[k]!) };
+  let pos = 0;
+  let line = 0;
+  let seenHeader = false;
+  while (pos < len) {
+    line++;
+    let end = body.indexOf("\n", pos);
+    if (end === -1) end = len;
+    const stop = end > pos && body.charCodeAt(end - 1) === 13 ? end - 1 : end;
+    let count = 0;
+    let cellStart = pos;
+    let blank = true;
+    for (let i = pos; i <= stop; i++) {
+      const ch = i < stop ? body.charCodeAt(i) : 44; // a virtual comma closes the last cell
+      if (ch === 44) {
+        if (count === starts.length) {
+          const grow = (a: Int32Array) => {
+            const b = new Int32Array(a.length * 2);
+            b.set(a);
+            return b;
+          };
+          starts = grow(starts);
+          ends = grow(ends);
+        }
+        starts[count] = cellStart;
+        ends[count] = i;
+        count++;
+        cellStart = i + 1;
+      } else if (ch !== 32 && ch !== 9) blank = false;
+    }
+    pos = end + 1;
+    if (blank && count === 1) continue;
+    cursor.line = line;
+    cursor.count = count;
+    if (!seenHeader) {
+      seenHeader = true;
+      const cells: string[] = [];
+      for (let k = 0; k < count; k++) cells.push(cursor.cell(k));
+      onHeader(cells, line);
+    } else onRow(cursor);
+  }
+}
+
+interface Columns {
+  headerLine: number;
+  headerCount: number;
   index: Record<string, number>;
   units: Record<string, string | null>;
 }
 
-function locateColumns(text: string, required: readonly string[]): Located {
-  const rows = parseCsv(text);
-  const header = rows[0];
-  if (!header) throw new TableInputError(1, null, `the file is empty; expected a header with columns ${required.join(", ")}`);
+function matchHeader(cells: string[], line: number, required: readonly string[]): Columns {
   const index: Record<string, number> = {};
   const units: Record<string, string | null> = {};
-  header.cells.forEach((raw, k) => {
+  cells.forEach((raw, k) => {
     const { name, unit } = headerKey(raw);
     if (required.includes(name)) {
-      if (index[name] !== undefined) throw new TableInputError(header.line, name, "this column appears twice");
+      if (index[name] !== undefined) throw new TableInputError(line, name, "this column appears twice");
       index[name] = k;
       units[name] = unit;
     }
   });
   for (const name of required) {
     if (index[name] === undefined) {
-      const found = header.cells.map((c) => c.trim()).filter(Boolean).join(", ") || "nothing";
-      throw new TableInputError(header.line, name, `missing column (expected ${required.join(", ")}; found ${found})`);
+      const found = cells.map((c) => c.trim()).filter(Boolean).join(", ") || "nothing";
+      throw new TableInputError(line, name, `missing column (expected ${required.join(", ")}; found ${found})`);
     }
   }
-  const data = rows.slice(1);
-  for (const row of data) {
-    if (row.cells.length !== header.cells.length) {
-      throw new TableInputError(row.line, null, `${row.cells.length} cells, but the header has ${header.cells.length}`);
-    }
-  }
-  if (data.length === 0) throw new TableInputError(header.line + 1, null, "no data rows after the header");
-  return { header, data, index, units };
+  return { headerLine: line, headerCount: cells.length, index, units };
 }
 
-function numberCell(row: CsvRow, index: Record<string, number>, column: string, kind: "concentration" | "value"): number {
-  const raw = row.cells[index[column]!]!.trim();
-  if (raw === "") throw new TableInputError(row.line, column, "empty cell; a number is needed");
-  if (!NUMBER.test(raw)) throw new TableInputError(row.line, column, `"${raw}" is not a number`);
+/** Reads the header and hands each checked data row to `onRow`. Returns the columns and the
+ * last data line. */
+function readTable(text: string, required: readonly string[], onRow: (row: RowCursor, cols: Columns) => void): { cols: Columns; lastLine: number } {
+  let cols: Columns | null = null;
+  let lastLine = 0;
+  forEachRow(
+    text,
+    (cells, line) => {
+      cols = matchHeader(cells, line, required);
+    },
+    (row) => {
+      const c = cols!;
+      if (row.count !== c.headerCount) throw new TableInputError(row.line, null, `${row.count} cells, but the header has ${c.headerCount}`);
+      lastLine = row.line;
+      onRow(row, c);
+    },
+  );
+  if (cols === null) throw new TableInputError(1, null, `the file is empty; expected a header with columns ${required.join(", ")}`);
+  const found: Columns = cols;
+  if (lastLine === 0) throw new TableInputError(found.headerLine + 1, null, "no data rows after the header");
+  return { cols: found, lastLine };
+}
+
+function numberCell(row: RowCursor, cols: Columns, column: string, kind: "concentration" | "value"): number {
+  const raw = row.cell(cols.index[column]!).trim();
   const v = Number(raw);
-  if (!Number.isFinite(v)) throw new TableInputError(row.line, column, `"${raw}" is out of range`);
+  // Number() alone would accept "", "0x1f", "Infinity" and " 1 "; the pattern admits decimals only.
+  if (raw === "" || !Number.isFinite(v) || !NUMBER.test(raw)) {
+    if (raw === "") throw new TableInputError(row.line, column, "empty cell; a number is needed");
+    if (!NUMBER.test(raw)) throw new TableInputError(row.line, column, `"${raw}" is not a number`);
+    throw new TableInputError(row.line, column, `"${raw}" is out of range`);
+  }
   if (kind === "concentration" && v < 0) throw new TableInputError(row.line, column, `negative concentration ${raw}`);
   return v;
 }
 
-/** Reads `substrate,inhibitor,rate` rows (any column order; other columns ignored). */
-export function readMechanismCsv(text: string): MechanismPoint[] {
-  const { header, data, index, units } = locateColumns(text, ["substrate", "inhibitor", "rate"]);
-  if (units.substrate && units.inhibitor && units.substrate !== units.inhibitor) {
-    throw new TableInputError(header.line, "inhibitor", `unit "${units.inhibitor}" differs from the substrate's "${units.substrate}"; use one concentration unit`);
+/** Reads `substrate,inhibitor,rate` rows (any column order; other columns ignored). Each point
+ * keeps its file line, for messages about it. */
+export function readMechanismCsv(text: string): (MechanismPoint & { line: number })[] {
+  const points: (MechanismPoint & { line: number })[] = [];
+  const { cols, lastLine } = readTable(text, ["substrate", "inhibitor", "rate"], (row, c) => {
+    points.push({
+      substrate: numberCell(row, c, "substrate", "concentration"),
+      inhibitor: numberCell(row, c, "inhibitor", "concentration"),
+      rate: numberCell(row, c, "rate", "value"),
+      line: row.line,
+    });
+  });
+  const { substrate, inhibitor } = cols.units;
+  if (substrate && inhibitor && substrate !== inhibitor) {
+    throw new TableInputError(cols.headerLine, "inhibitor", `unit "${inhibitor}" differs from the substrate's "${substrate}"; use one concentration unit`);
   }
-  const points = data.map((row) => ({
-    substrate: numberCell(row, index, "substrate", "concentration"),
-    inhibitor: numberCell(row, index, "inhibitor", "concentration"),
-    rate: numberCell(row, index, "rate", "value"),
-  }));
   const problem = mechanismDataProblem(points);
   if (problem) {
-    const last = data[data.length - 1]!.line;
     const column = /inhibitor/.test(problem) ? "inhibitor" : /substrate/.test(problem) ? "substrate" : "rate";
-    throw new TableInputError(last, column, `too few points: ${problem}`);
+    throw new TableInputError(lastLine, column, `too few points: ${problem}`);
   }
   return points;
 }
@@ -176,13 +273,12 @@ export const MIN_DOSE_RESPONSE_CONCENTRATIONS = 4;
  * appearance. `minPoints`/`minConcentrations` default to what a 4-parameter fit needs.
  */
 export function readDoseResponseCsv(text: string, minPoints = MIN_DOSE_RESPONSE_POINTS, minConcentrations = MIN_DOSE_RESPONSE_CONCENTRATIONS): DoseResponseSeries[] {
-  const { data, index } = locateColumns(text, ["compound", "concentration", "response"]);
   const byName = new Map<string, DoseResponseSeries>();
-  for (const row of data) {
-    const compound = row.cells[index.compound!]!.trim();
+  readTable(text, ["compound", "concentration", "response"], (row, c) => {
+    const compound = row.cell(c.index.compound!).trim();
     if (compound === "") throw new TableInputError(row.line, "compound", "empty compound name");
-    const concentration = numberCell(row, index, "concentration", "concentration");
-    const response = numberCell(row, index, "response", "value");
+    const concentration = numberCell(row, c, "concentration", "concentration");
+    const response = numberCell(row, c, "response", "value");
     let s = byName.get(compound);
     if (!s) {
       s = { compound, concentration: [], response: [], lines: [] };
@@ -191,7 +287,7 @@ export function readDoseResponseCsv(text: string, minPoints = MIN_DOSE_RESPONSE_
     s.concentration.push(concentration);
     s.response.push(response);
     s.lines.push(row.line);
-  }
+  });
   const series = [...byName.values()];
   for (const s of series) {
     const last = s.lines[s.lines.length - 1]!;
