@@ -17,6 +17,15 @@ import * as authActions from "@/app/(auth)/actions";
 import * as settingsActions from "@/app/(workspace)/settings/actions";
 import * as campaignActions from "@/app/(workspace)/campaigns/actions";
 import * as teamActions from "@/app/(workspace)/campaigns/[campaignId]/team/actions";
+import * as plateMapsRoute from "@/app/api/campaigns/[campaignId]/plate-maps/route";
+import * as plateRunsRoute from "@/app/api/campaigns/[campaignId]/plate-runs/route";
+import * as plateRunPreview from "@/app/api/campaigns/[campaignId]/plate-runs/preview/route";
+import * as plateRunRoute from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/route";
+import * as plateRunFile from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/file/route";
+import * as plateActions from "@/app/(workspace)/campaigns/[campaignId]/plates/actions";
+import { platesWorld, smallExport, smallMap } from "@/test/plates";
+import { maskWell } from "@/server/services/plates";
+import { plateMapToCsv } from "@/lib/plates";
 
 type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
 
@@ -62,6 +71,59 @@ const invokers: Record<string, Invoke> = {
     deniedAction(
       await callAction(teamActions.updateThresholdsAction, { campaignId: w.campaignId, qcMinZPrime: "0.5", qcMaxCvPct: "20", hitThresholdPct: "50" }, userOf(w, actor)),
     ),
+  // Plates: allowed callers get 200/201 (or 409 for a repeat), refused ones 401/403/404.
+  "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#GET": async (actor, w) =>
+    deniedRoute((await callRoute(plateMapsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-maps`, params: { campaignId: w.campaignId } })).status),
+  "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#POST": async (actor, w) => {
+    const form = new FormData();
+    form.append("name", `Matrix import ${actor}`);
+    form.append("format", "96");
+    form.append("file", new File([plateMapToCsv(smallMap())], "map.csv", { type: "text/csv" }));
+    return deniedRoute((await callRoute(plateMapsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/plate-maps`, params: { campaignId: w.campaignId }, body: form })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-runs/route.ts#GET": async (actor, w) =>
+    deniedRoute((await callRoute(plateRunsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs`, params: { campaignId: w.campaignId } })).status),
+  "src/app/api/campaigns/[campaignId]/plate-runs/route.ts#POST": async (actor, w) => {
+    const { mapId } = await platesWorld(w);
+    const form = new FormData();
+    form.append("plateMapId", mapId);
+    form.append("file", new File([smallExport(1000 + actor.length)], `matrix-${actor}.csv`, { type: "text/csv" }));
+    return deniedRoute((await callRoute(plateRunsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/plate-runs`, params: { campaignId: w.campaignId }, body: form })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-runs/preview/route.ts#POST": async (actor, w) => {
+    const { mapId } = await platesWorld(w);
+    const form = new FormData();
+    form.append("plateMapId", mapId);
+    form.append("file", new File([smallExport(2000)], "preview.csv", { type: "text/csv" }));
+    return deniedRoute((await callRoute(plateRunPreview.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/plate-runs/preview`, params: { campaignId: w.campaignId }, body: form })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/route.ts#GET": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    return deniedRoute((await callRoute(plateRunRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}`, params: { campaignId: w.campaignId, runId } })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/file/route.ts#GET": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    return deniedRoute((await callRoute(plateRunFile.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}/file`, params: { campaignId: w.campaignId, runId } })).status);
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#savePlateMapAction": async (actor, w) => {
+    const m = smallMap();
+    const mapJson = JSON.stringify({ format: 96, wells: m.wells.filter((x) => x.role !== "empty") });
+    return deniedAction(await callAction(plateActions.savePlateMapAction, { campaignId: w.campaignId, name: `Matrix editor ${actor}`, signalDirection: "falls", mapJson }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#maskWellAction": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    return deniedAction(await callAction(plateActions.maskWellAction, { campaignId: w.campaignId, runId, well: `C${2 + actor.length}`, reason: "bubble seen in well" }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#unmaskWellAction": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    const well = `D${1 + actor.length}`;
+    await maskWell(w.people.assay, w.campaignId, runId, well, "set-up for the unmask check").catch(() => undefined);
+    return deniedAction(await callAction(plateActions.unmaskWellAction, { campaignId: w.campaignId, runId, well, reason: "reading is fine after review" }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#decideRunAction": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    return deniedAction(await callAction(plateActions.decideRunAction, { campaignId: w.campaignId, runId, decision: "rejected", reason: "role-matrix check" }, userOf(w, actor)));
+  },
 };
 
 function walk(dir: string, out: string[] = []): string[] {

@@ -36,6 +36,18 @@ export const registry: RegistryEntry[] = [
   { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#changeRoleAction", what: "change a member's role", allow: ["admin"] },
   { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#removeMemberAction", what: "remove a member", allow: ["admin"] },
   { id: "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#updateThresholdsAction", what: "set QC and hit thresholds", allow: ["lead", "admin"] },
+  // Plates (issue 6): members read; assay scientists and admins write
+  { id: "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#GET", what: "list plate maps", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#POST", what: "import a plate map from CSV", allow: ["assay", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/plate-runs/route.ts#GET", what: "list plate runs with QC", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/plate-runs/route.ts#POST", what: "upload a reader export", allow: ["assay", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/plate-runs/preview/route.ts#POST", what: "preview a reader export (nothing stored)", allow: ["assay", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/route.ts#GET", what: "a plate run with QC and well readings", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/file/route.ts#GET", what: "download a run's raw file", allow: members },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#savePlateMapAction", what: "save a plate map from the editor", allow: ["assay", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#maskWellAction", what: "mask a well with a reason", allow: ["assay", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#unmaskWellAction", what: "unmask a well with a reason", allow: ["assay", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#decideRunAction", what: "accept or reject a run's QC", allow: ["assay", "admin"] },
 ];
 
 export const registryGroups = { everyone, signedIn, members };

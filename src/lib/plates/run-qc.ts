@@ -22,7 +22,7 @@ import { plateQuality, summarizeControls, type ControlSummary } from "../kinetic
 import { isEdgeWell, parseWellName, plateDimensions, wellIndex } from "./geometry";
 import { issue, MAX_ISSUES, type PlateIssue } from "./issues";
 import type { PlateMap, WellRole } from "./plate-map";
-import type { ReaderExport } from "./reader-export";
+import type { KineticExport, ReaderExport } from "./reader-export";
 
 export type SignalDirection = "falls" | "rises";
 export type Readout = "endpoint" | "kinetic";
@@ -61,7 +61,6 @@ export function buildReadings(map: PlateMap, exp: ReaderExport): BuildReadingsRe
   if (exp.format !== map.format) {
     return { ok: false, issues: [issue({ file: exp.fileName }, `the export is a ${exp.format}-well plate but the plate map is ${map.format}-well`)] };
   }
-  const kinetic = exp.shape === "long-kinetic" || exp.shape === "grid-kinetic";
   for (const w of map.wells) {
     if (w.role !== "empty" && !exp.wells.has(w.well)) add(w.well, `the plate map has a ${roleWord(w.role)} well here but the export has no reading for it`);
   }
@@ -82,7 +81,7 @@ export function buildReadings(map: PlateMap, exp: ReaderExport): BuildReadingsRe
       isEdge: isEdgeWell(pos, map.format),
     };
   };
-  if (exp.shape === "long-endpoint" || exp.shape === "grid-endpoint") {
+  if (!isKinetic(exp)) {
     for (const [well, value] of exp.wells) readings.push({ ...baseOf(well), value, rate: null, series: null, signal: value });
   } else {
     for (const [well, pts] of exp.wells) {
@@ -110,7 +109,11 @@ export function buildReadings(map: PlateMap, exp: ReaderExport): BuildReadingsRe
   }
   if (issues.length > 0) return { ok: false, issues };
   readings.sort((a, b) => a.wellIndex - b.wellIndex);
-  return { ok: true, readout: kinetic ? "kinetic" : "endpoint", readings };
+  return { ok: true, readout: isKinetic(exp) ? "kinetic" : "endpoint", readings };
+}
+
+function isKinetic(exp: ReaderExport): exp is KineticExport {
+  return exp.shape === "long-kinetic" || exp.shape === "grid-kinetic";
 }
 
 function roleWord(role: WellRole): string {
