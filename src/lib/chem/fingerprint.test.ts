@@ -41,6 +41,9 @@ export const PUBLIC_MOLECULES = [
   "CC1(C)S[C@@H]2[C@H](NC(=O)Cc3ccccc3)C(=O)N2[C@H]1C(O)=O", // penicillin G
   "NS(=O)(=O)c1cc(C(O)=O)c(NCc2ccco2)cc1Cl", // furosemide
   "CCOC(=O)C1=C(C)NC(C)=C(C1c1cccc(c1)[N+]([O-])=O)C(=O)OC", // nitrendipine
+  "N#Cc1ccc(cc1)C(O)=O", // 4-cyanobenzoic acid
+  "C#CCO", // propargyl alcohol
+  "CC(C)(C#N)c1ccccc1", // 2-methyl-2-phenylpropanenitrile
 ];
 
 const FRAGMENTS = [
@@ -69,6 +72,10 @@ const FRAGMENTS = [
   "OCC(O)C",
   "c1ccc2ccccc2c1",
   "CCOC(=O)",
+  "C#N",
+  "C#C",
+  "C~N",
+  "N#Cc1ccccc1",
 ];
 
 describe("fingerprint soundness against openchemlib's exact matcher (the outside reference)", () => {

@@ -14,12 +14,14 @@
  *   lexicographically smaller direction;
  * - every simple cycle of 3–7 atoms, labelled by atomic numbers, canonical over rotation and
  *   reflection;
- * - "at least k atoms of element Z" for k = 2..8.
+ * - "at least k atoms of element Z" for k = 2..8;
+ * - each triple bond with its two elements (a plain triple bond in a fragment matches only a
+ *   triple bond).
  * Each feature string is hashed (FNV-1a, 32 bit) to one of 1024 bits.
  *
  * Soundness: a substructure match maps fragment atoms injectively onto molecule atoms of the same
  * element and fragment bonds onto molecule bonds, so every fragment path, cycle and element count
- * exists in the molecule. Bond orders and aromaticity are deliberately not encoded, because
+ * exists in the molecule. Other bond orders and aromaticity are deliberately not encoded, because
  * openchemlib's matcher lets e.g. a Kekulé double bond match an aromatic bond. Query atoms that are
  * not one plain element (atom lists, `*`, `[!#6]`) and bridge bonds are left out of the fragment's
  * features (they can only make the fragment's bit set smaller, never unsound).
@@ -106,6 +108,15 @@ export function fingerprint(mol: Molecule, isQuery: boolean = mol.isFragment()):
     if ((labels[a1] ?? -1) < 0 || (labels[a2] ?? -1) < 0) continue;
     adj[a1]?.push(a2);
     adj[a2]?.push(a1);
+  }
+
+  // Triple bonds: a plain fragment triple bond only ever matches a triple bond (openchemlib),
+  // so this feature is sound; it separates nitriles and alkynes from every C–N / C–C.
+  for (let b = 0; b < mol.getAllBonds(); b++) {
+    if (mol.getBondOrder(b) !== 3 || (isQuery && mol.getBondQueryFeatures(b) !== 0)) continue;
+    const z1 = labels[mol.getBondAtom(0, b)] ?? -1;
+    const z2 = labels[mol.getBondAtom(1, b)] ?? -1;
+    if (z1 > 0 && z2 > 0) setFeature(fp, `T${Math.min(z1, z2)}.${Math.max(z1, z2)}`);
   }
 
   const counts = new Map<number, number>();

@@ -126,10 +126,22 @@ function valenceProblem(mol: Molecule): string | undefined {
  * Conservative, coordinate-free test for a possible stereo element: a tetrahedral stereo centre
  * (openchemlib's topological count), a non-aromatic double bond outside rings smaller than 8
  * whose two atoms both carry another neighbour (E/Z, also allenes), or a biaryl axis of the
- * BINAP type. False positives only cost time.
+ * BINAP type. False positives only cost time. openchemlib's stereo-centre count is the slow part
+ * (about 1 ms), so it only runs when some atom could be a centre at all: a non-aromatic atom
+ * with at least three non-hydrogen neighbours and no π bond, or an S, P or Se with three or more
+ * (sulfoxides, phosphine oxides). Results are cached per molecule object.
  */
 export function mayHaveStereo(mol: Molecule): boolean {
-  if (mol.getStereoCenterCount() > 0) return true;
+  const cached = stereoCache.get(mol);
+  if (cached !== undefined) return cached;
+  const result = computeMayHaveStereo(mol);
+  stereoCache.set(mol, result);
+  return result;
+}
+
+const stereoCache = new WeakMap<Molecule, boolean>();
+
+function computeMayHaveStereo(mol: Molecule): boolean {
   mol.ensureHelperArrays(Molecule.cHelperRings);
   for (let b = 0; b < mol.getBonds(); b++) {
     if (mol.isBINAPChiralityBond(b)) return true;
@@ -140,17 +152,13 @@ export function mayHaveStereo(mol: Molecule): boolean {
     const a2 = mol.getBondAtom(1, b);
     if (mol.getConnAtoms(a1) > 1 && mol.getConnAtoms(a2) > 1) return true;
   }
-  return false;
-}
-
-/** Whether any atom or bond is a stereo element, as openchemlib perceives it (needs coordinates). */
-export function hasStereoFeature(mol: Molecule): boolean {
-  mol.ensureHelperArrays(Molecule.cHelperParities);
-  for (let a = 0; a < mol.getAtoms(); a++) {
-    if (mol.isAtomStereoCenter(a) || mol.getAtomParity(a) !== Molecule.cAtomParityNone) return true;
+  let candidate = false;
+  for (let a = 0; a < mol.getAtoms() && !candidate; a++) {
+    if (mol.getConnAtoms(a) < 3 || mol.isAromaticAtom(a)) continue;
+    const z = mol.getAtomicNo(a);
+    candidate = z === 15 || z === 16 || z === 34 || mol.getAtomPi(a) === 0;
   }
-  for (let b = 0; b < mol.getBonds(); b++) if (mol.getBondParity(b) !== Molecule.cBondParityNone) return true;
-  return false;
+  return candidate && mol.getStereoCenterCount() > 0;
 }
 
 function heavyAtomCount(mol: Molecule): number {
@@ -207,6 +215,7 @@ function normalise(
   if (hasHydrogen) parent.removeExplicitHydrogens();
   parent.normalizeAmbiguousBonds();
   parent.canonizeCharge(true);
+  stereoCache.delete(parent); // bond orders may have changed
   if (heavyAtomCount(parent) === 0) {
     return { ok: false, format, error: `${label} contains no heavy atoms (only hydrogen).` };
   }
@@ -235,7 +244,7 @@ export function parseSmiles(input: string, options: ParseOptions = {}): ParseRes
     // stereo marks or the molecule could have a stereo element (mayHaveStereo, conservative). Most screening compounds have none. The tests
     // check the structure key against openchemlib's plain path. Depictions invent coordinates
     // when they need them (svg.ts).
-    mol = Molecule.fromSmiles(smiles, { noCoordinates: true });
+    mol = Molecule.fromSmiles(smiles, { noCoordinates: true, noStereo: true });
     if (/[@/\\]/.test(smiles) || mayHaveStereo(mol)) mol = Molecule.fromSmiles(smiles);
   } catch (err) {
     return {

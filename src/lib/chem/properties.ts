@@ -24,7 +24,7 @@
  * - `rotatableBonds`: openchemlib's count.
  */
 import { CanonizerUtil, Molecule, MoleculeProperties } from "openchemlib";
-import { hasStereoFeature } from "./parse";
+import { mayHaveStereo } from "./parse";
 
 export interface CompoundProperties {
   structureKey: string;
@@ -79,16 +79,17 @@ export function structureKey(mol: Molecule): string {
 }
 
 /**
- * The stereo-free key: equal for all stereo forms of one constitution. For a molecule with no
- * stereo centre, stereo bond or parity it equals the structure key (the stereo-free ID code
+ * The stereo-free key: equal for all stereo forms of one constitution. For a molecule that cannot
+ * have a stereo element (parse.ts `mayHaveStereo`) it equals the structure key (the stereo-free ID code
  * costs several times a normal one, so it is only computed when it can differ; tests check the
  * shortcut against openchemlib's NOSTEREO code).
  */
 export function flatKey(mol: Molecule): string {
-  return hasStereoFeature(mol) ? CanonizerUtil.getIDCode(mol, CanonizerUtil.NOSTEREO) : mol.getIDCode();
+  return mayHaveStereo(mol) ? CanonizerUtil.getIDCode(mol, CanonizerUtil.NOSTEREO) : mol.getIDCode();
 }
 
 function countUndefinedStereo(mol: Molecule): { centres: number; undefinedStereo: number } {
+  if (!mayHaveStereo(mol)) return { centres: 0, undefinedStereo: 0 };
   mol.ensureHelperArrays(Molecule.cHelperParities);
   let centres = 0;
   let undef = 0;

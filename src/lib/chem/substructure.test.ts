@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { parseSmiles } from "./parse";
 import { structureKey } from "./properties";
-import { createSubstructureMatcher, isSubstructure, parseFragmentQuery } from "./substructure";
+import { createSubstructureMatcher, exactSearchPage, isSubstructure, parseFragmentQuery } from "./substructure";
 
 function mol(smiles: string) {
   const r = parseSmiles(smiles);
@@ -57,5 +57,28 @@ describe("parseFragmentQuery errors", () => {
   it("reports openchemlib's reading of the query", () => {
     const q = parseFragmentQuery("[F,Cl,Br,I]c1ccccc1");
     expect(q.ok && q.understoodAs).toBe("[F,Cl,Br,I;A]c1ccccc1");
+  });
+});
+
+describe("exactSearchPage", () => {
+  const library = ["Cc1ccccc1", "CCO", "c1ccccc1O", "C1CCCCC1", "c1ccccc1N", "c1ccccc1Cl"].map((s, i) => ({
+    id: i + 1,
+    structureKey: structureKey(mol(s)),
+  }));
+  const q = parseFragmentQuery("c1ccccc1");
+  if (!q.ok) throw new Error(q.error);
+
+  it("pages through matches in the given order and stops when the page is full", () => {
+    const first = exactSearchPage(q, library, { limit: 2 });
+    expect(first.items.map((x) => x.id)).toEqual([1, 3]);
+    expect(first.complete).toBe(false);
+    const second = exactSearchPage(q, library, { offset: 2, limit: 2, countAll: true });
+    expect(second.items.map((x) => x.id)).toEqual([5, 6]);
+    expect(second).toMatchObject({ matched: 4, checked: 6, complete: true, timedOut: false });
+  });
+
+  it("honours the time budget", () => {
+    const page = exactSearchPage(q, library, { timeBudgetMs: -1 });
+    expect(page).toMatchObject({ items: [], checked: 0, complete: false, timedOut: true });
   });
 });

@@ -99,3 +99,59 @@ export function isSubstructure(fragment: FragmentQuery | string, molecule: Molec
   if (!query.ok) throw new Error(query.error);
   return createSubstructureMatcher(query)(molecule);
 }
+
+export interface SearchPageOptions {
+  /** Matches to skip (paging). Default 0. */
+  offset?: number;
+  /** Matches to return. Default 50. */
+  limit?: number;
+  /** Keep checking after the page is full, to count every match. Default false. */
+  countAll?: boolean;
+  /** Stop after this much time in the exact check, in ms. Default 800. */
+  timeBudgetMs?: number;
+}
+
+export interface SearchPage<T> {
+  items: T[];
+  /** Matches found so far (the total when `complete`). */
+  matched: number;
+  /** Candidates given the exact check. */
+  checked: number;
+  /** True when every candidate was checked, so `matched` is the exact total. */
+  complete: boolean;
+  /** True when the time budget ran out. */
+  timedOut: boolean;
+}
+
+/**
+ * Exact check over the candidates the fingerprint prefilter returned, in the order given (the
+ * server decides the ranking, e.g. fewest fingerprint bits first so smaller, closer molecules
+ * lead). Stops as soon as the page is full unless `countAll`, and always at the time budget, so a
+ * common fragment (benzene matches most of a library) still answers quickly; the caller shows
+ * "more than N" when `complete` is false.
+ */
+export function exactSearchPage<T extends { structureKey: string }>(
+  query: FragmentQuery,
+  candidates: Iterable<T>,
+  options: SearchPageOptions = {},
+): SearchPage<T> {
+  const offset = Math.max(0, Math.floor(options.offset ?? 0));
+  const limit = Math.max(0, Math.floor(options.limit ?? 50));
+  const budget = options.timeBudgetMs ?? 800;
+  const match = createSubstructureMatcher(query);
+  const start = performance.now();
+  const items: T[] = [];
+  let matched = 0;
+  let checked = 0;
+  for (const c of candidates) {
+    if (!options.countAll && matched >= offset + limit) return { items, matched, checked, complete: false, timedOut: false };
+    if ((checked & 31) === 0 && performance.now() - start > budget) {
+      return { items, matched, checked, complete: false, timedOut: true };
+    }
+    checked++;
+    if (!match(c.structureKey)) continue;
+    if (matched >= offset && items.length < limit) items.push(c);
+    matched++;
+  }
+  return { items, matched, checked, complete: true, timedOut: false };
+}
