@@ -14,3 +14,4 @@ export * from "./import-table";
 export * from "./import-sdf";
 export * from "./import-prepare";
 export * from "./demo-compounds";
+export * from "./cautions";
