@@ -42,9 +42,9 @@ function log(msg) {
 }
 
 // --- bundles ---------------------------------------------------------------------------------
-const cliBundle = join(OUT, "analyze.mjs");
+const cliBundle = join(OUT, "analyze.cjs"); // CommonJS: Node loads it a little faster than ESM
 const libBundle = join(OUT, "kinetics-lib.mjs");
-await build({ entryPoints: [join(ROOT, "src/cli/analyze.ts")], bundle: true, platform: "node", format: "esm", target: "node20", outfile: cliBundle, logLevel: "warning" });
+await build({ entryPoints: [join(ROOT, "src/cli/analyze.ts")], bundle: true, platform: "node", format: "cjs", target: "node20", outfile: cliBundle, logLevel: "warning" });
 await build({
   stdin: {
     contents: 'export * from "./src/lib/kinetics/index.ts"; export * from "./src/lib/kinetics/testdata/synthetic.ts";',

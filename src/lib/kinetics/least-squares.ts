@@ -127,8 +127,89 @@ function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: numbe
   for (let j = 0; j < p; j++) for (let k = j + 1; k < p; k++) a[j * p + k] = a[k * p + j]!;
 }
 
+/** True when the gradient is negligible for every parameter not held at a bound (MINPACK gtol). */
+function gradientSmall(a: Float64Array, g: Float64Array, theta: Float64Array, p: number, rss: number, gtol: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): boolean {
+  if (rss === 0) return true;
+  const rnorm = Math.sqrt(rss);
+  for (let j = 0; j < p; j++) {
+    const d = a[j * p + j]!;
+    if (d === 0) continue;
+    const atLower = lower !== undefined && theta[j] === lower[j] && g[j]! < 0;
+    const atUpper = upper !== undefined && theta[j] === upper[j] && g[j]! > 0;
+    if (atLower || atUpper) continue;
+    if (Math.abs(g[j]!) / (Math.sqrt(d) * rnorm) > gtol) return false;
+  }
+  return true;
+}
+
+/**
+ * Damped Gauss–Newton step on the free parameters (those not held at a bound by an outward
+ * gradient): solves (A_ff + λ·diag(A_ff))·δ_f = g_f into `delta` (zero elsewhere). Returns the
+ * number of free parameters, or −1 when the damped matrix is not positive definite.
+ */
+function dampedStep(ws: Workspace, theta: Float64Array, lambda: number, maxDiag: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): number {
+  const { a, g, m, rhs, delta, free, p } = ws;
+  let nf = 0;
+  for (let j = 0; j < p; j++) {
+    const blockedLow = lower !== undefined && theta[j]! <= lower[j]! && g[j]! <= 0;
+    const blockedHigh = upper !== undefined && theta[j]! >= upper[j]! && g[j]! >= 0;
+    if (!blockedLow && !blockedHigh) free[nf++] = j;
+  }
+  if (nf === 0) return 0;
+  for (let s = 0; s < nf; s++) {
+    const js = free[s]!;
+    for (let t = 0; t < nf; t++) m[s * nf + t] = a[js * p + free[t]!]!;
+    const d = Math.max(a[js * p + js]!, 1e-12 * maxDiag, 1e-300);
+    m[s * nf + s] = m[s * nf + s]! + lambda * d;
+    rhs[s] = g[js]!;
+  }
+  if (!choleskyInPlace(m, nf)) return -1;
+  choleskySolveInPlace(m, nf, rhs);
+  delta.fill(0);
+  for (let s = 0; s < nf; s++) delta[free[s]!] = rhs[s]!;
+  return nf;
+}
+
+/** θ_trial = clip(θ + δ) into the box; δ becomes the actual (clipped) step. Returns true when
+ * every component of the step is below xtol relative to its parameter. */
+function projectTrial(ws: Workspace, theta: Float64Array, xtol: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): boolean {
+  const { delta, thetaTrial, p } = ws;
+  let stepSmall = true;
+  for (let j = 0; j < p; j++) {
+    let v = theta[j]! + delta[j]!;
+    if (lower && v < lower[j]!) v = lower[j]!;
+    if (upper && v > upper[j]!) v = upper[j]!;
+    thetaTrial[j] = v;
+    delta[j] = v - theta[j]!;
+    if (Math.abs(delta[j]!) > xtol * (Math.abs(theta[j]!) + xtol)) stepSmall = false;
+  }
+  return stepSmall;
+}
+
+/** Predicted reduction of ½‖r‖² for step δ under the quadratic model: δᵀg − ½δᵀAδ. */
+function predictedReduction(ws: Workspace): number {
+  const { delta, g, a, p } = ws;
+  let dg = 0;
+  let dad = 0;
+  for (let j = 0; j < p; j++) {
+    dg += delta[j]! * g[j]!;
+    let ad = 0;
+    for (let k = 0; k < p; k++) ad += a[j * p + k]! * delta[k]!;
+    dad += delta[j]! * ad;
+  }
+  return dg - 0.5 * dad;
+}
+
+function largestDiagonal(a: Float64Array, p: number, previous: number): number {
+  let m = previous;
+  for (let j = 0; j < p; j++) m = Math.max(m, a[j * p + j]!);
+  return m;
+}
+
 /**
  * Solves min ½‖r(θ)‖² from `start` by bounded Levenberg–Marquardt (see the file comment).
+ * The loop body lives in small helpers: V8 optimises small functions after a few calls, while a
+ * large function stays interpreted for about a thousand fits — which dominated batch runs.
  */
 export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLike<number>, options: LeastSquaresOptions = {}): LeastSquaresResult {
   const maxIterations = options.maxIterations ?? DEFAULTS.maxIterations;
@@ -148,7 +229,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
     theta[j] = v;
   }
   const ws = workspace(n, p);
-  const { thetaTrial, a, g, m, delta, rhs, free } = ws;
+  const { thetaTrial, a, g } = ws;
   // Residuals and Jacobian are evaluated together at each trial point; on acceptance the trial
   // buffers become the current ones (a swap), so no point is evaluated twice.
   let r = ws.r;
@@ -162,60 +243,30 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
     return { theta, rss, iterations: 0, converged: false, reason: "non-finite", inverseJtJ: null, atBound: [] };
   }
   normalEquations(jac, r, n, p, a, g);
-
-  let maxDiag = 0;
-  for (let j = 0; j < p; j++) maxDiag = Math.max(maxDiag, a[j * p + j]!);
+  let maxDiag = largestDiagonal(a, p, 0);
   let lambda = 1e-3;
   let nu = 2;
   let iterations = 0;
   let reason: LeastSquaresResult["reason"] = "max-iterations";
   let converged = false;
 
-  const gradientSmall = (): boolean => {
-    if (rss === 0) return true;
-    const rnorm = Math.sqrt(rss);
-    for (let j = 0; j < p; j++) {
-      const d = a[j * p + j]!;
-      if (d === 0) continue;
-      const atLower = lower !== undefined && theta[j] === lower[j] && g[j]! < 0;
-      const atUpper = upper !== undefined && theta[j] === upper[j] && g[j]! > 0;
-      if (atLower || atUpper) continue;
-      if (Math.abs(g[j]!) / (Math.sqrt(d) * rnorm) > gtol) return false;
-    }
-    return true;
-  };
-
   if (rss === 0) {
     reason = "zero-residual";
     converged = true;
-  } else if (gradientSmall()) {
+  } else if (gradientSmall(a, g, theta, p, rss, gtol, lower, upper)) {
     reason = "gtol";
     converged = true;
   }
 
   while (!converged && iterations < maxIterations) {
     iterations++;
-    // Active set: parameters on a bound whose descent direction (+g) points out of the box.
-    let nf = 0;
-    for (let j = 0; j < p; j++) {
-      const blockedLow = lower !== undefined && theta[j]! <= lower[j]! && g[j]! <= 0;
-      const blockedHigh = upper !== undefined && theta[j]! >= upper[j]! && g[j]! >= 0;
-      if (!blockedLow && !blockedHigh) free[nf++] = j;
-    }
+    const nf = dampedStep(ws, theta, lambda, maxDiag, lower, upper);
     if (nf === 0) {
       reason = "gtol";
       converged = true;
       break;
     }
-    // Damped, reduced normal equations on the free parameters.
-    for (let s = 0; s < nf; s++) {
-      const js = free[s]!;
-      for (let t = 0; t < nf; t++) m[s * nf + t] = a[js * p + free[t]!]!;
-      const d = Math.max(a[js * p + js]!, 1e-12 * maxDiag, 1e-300);
-      m[s * nf + s] = m[s * nf + s]! + lambda * d;
-      rhs[s] = g[js]!;
-    }
-    if (!choleskyInPlace(m, nf)) {
+    if (nf < 0) {
       lambda *= nu;
       nu *= 2;
       if (!Number.isFinite(lambda) || lambda > 1e300) {
@@ -224,35 +275,12 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
       }
       continue;
     }
-    choleskySolveInPlace(m, nf, rhs);
-    delta.fill(0);
-    for (let s = 0; s < nf; s++) delta[free[s]!] = rhs[s]!;
-
-    // Projected trial point; the actual step may be shorter than δ where a bound clips it.
-    let stepSmall = true;
-    for (let j = 0; j < p; j++) {
-      let v = theta[j]! + delta[j]!;
-      if (lower && v < lower[j]!) v = lower[j]!;
-      if (upper && v > upper[j]!) v = upper[j]!;
-      thetaTrial[j] = v;
-      delta[j] = v - theta[j]!;
-      if (Math.abs(delta[j]!) > xtol * (Math.abs(theta[j]!) + xtol)) stepSmall = false;
-    }
-    if (stepSmall) {
+    if (projectTrial(ws, theta, xtol, lower, upper)) {
       reason = "xtol";
       converged = true;
       break;
     }
-    // Predicted reduction of ½‖r‖² for the actual step: δᵀg − ½δᵀAδ.
-    let dg = 0;
-    let dad = 0;
-    for (let j = 0; j < p; j++) {
-      dg += delta[j]! * g[j]!;
-      let ad = 0;
-      for (let k = 0; k < p; k++) ad += a[j * p + k]! * delta[k]!;
-      dad += delta[j]! * ad;
-    }
-    const predicted = dg - 0.5 * dad;
+    const predicted = predictedReduction(ws);
     problem.evaluate(thetaTrial, rTrial, jacTrial);
     const rssTrial = sumSquares(rTrial, n);
     const actual = 0.5 * (rss - rssTrial);
@@ -260,11 +288,15 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
     if (Number.isFinite(rssTrial) && actual > 0 && rho > 0) {
       const oldRss = rss;
       theta.set(thetaTrial);
-      [r, rTrial] = [rTrial, r];
-      [jac, jacTrial] = [jacTrial, jac];
+      const rSwap = r;
+      r = rTrial;
+      rTrial = rSwap;
+      const jSwap = jac;
+      jac = jacTrial;
+      jacTrial = jSwap;
       rss = rssTrial;
       normalEquations(jac, r, n, p, a, g);
-      for (let j = 0; j < p; j++) maxDiag = Math.max(maxDiag, a[j * p + j]!);
+      maxDiag = largestDiagonal(a, p, maxDiag);
       const f = 2 * rho - 1;
       lambda *= Math.max(1 / 3, 1 - f * f * f);
       nu = 2;
@@ -274,7 +306,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
       } else if (2 * actual <= ftol * oldRss && 2 * predicted <= ftol * oldRss) {
         reason = "ftol";
         converged = true;
-      } else if (gradientSmall()) {
+      } else if (gradientSmall(a, g, theta, p, rss, gtol, lower, upper)) {
         reason = "gtol";
         converged = true;
       }
@@ -289,11 +321,26 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
       }
     }
   }
+  return finish(theta, rss, iterations, converged, reason, a, p, lower, upper);
+}
+
+function finish(
+  theta: Float64Array,
+  rss: number,
+  iterations: number,
+  converged: boolean,
+  reason: LeastSquaresResult["reason"],
+  a: Float64Array,
+  p: number,
+  lower: ArrayLike<number> | undefined,
+  upper: ArrayLike<number> | undefined,
+): LeastSquaresResult {
   const atBound: number[] = [];
+  let finite = Number.isFinite(rss);
   for (let j = 0; j < p; j++) {
+    if (!Number.isFinite(theta[j]!)) finite = false;
     if ((lower && theta[j] === lower[j]) || (upper && theta[j] === upper[j])) atBound.push(j);
   }
-  const finite = Number.isFinite(rss) && theta.every(Number.isFinite);
   return {
     theta,
     rss,

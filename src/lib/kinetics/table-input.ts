@@ -124,8 +124,8 @@ function forEachRow(text: string, onHeader: (cells: string[], line: number) => v
     return;
   }
   const len = body.length;
-  let starts = new Int32Array(16);
-  let ends = new Int32Array(16);
+  let starts: Int32Array = new Int32Array(16);
+  let ends: Int32Array = new Int32Array(16);
   const cursor: RowCursor = { line: 0, count: 0, cell: (k) => body.slice(starts[k]!, ends[k]!) };
   let pos = 0;
   let line = 0;
@@ -135,29 +135,28 @@ function forEachRow(text: string, onHeader: (cells: string[], line: number) => v
     let end = body.indexOf("\n", pos);
     if (end === -1) end = len;
     const stop = end > pos && body.charCodeAt(end - 1) === 13 ? end - 1 : end;
+    // Cell boundaries from the commas of this line (indexOf runs natively).
     let count = 0;
     let cellStart = pos;
-    let blank = true;
-    for (let i = pos; i <= stop; i++) {
-      const ch = i < stop ? body.charCodeAt(i) : 44; // a virtual comma closes the last cell
-      if (ch === 44) {
-        if (count === starts.length) {
-          const grow = (a: Int32Array) => {
-            const b = new Int32Array(a.length * 2);
-            b.set(a);
-            return b;
-          };
-          starts = grow(starts);
-          ends = grow(ends);
-        }
-        starts[count] = cellStart;
-        ends[count] = i;
+    for (;;) {
+      if (count === starts.length) {
+        starts = growInt32(starts);
+        ends = growInt32(ends);
+      }
+      const comma = body.indexOf(",", cellStart);
+      starts[count] = cellStart;
+      if (comma === -1 || comma >= stop) {
+        ends[count] = stop;
         count++;
-        cellStart = i + 1;
-      } else if (ch !== 32 && ch !== 9) blank = false;
+        break;
+      }
+      ends[count] = comma;
+      count++;
+      cellStart = comma + 1;
     }
+    const lineStart = pos;
     pos = end + 1;
-    if (blank && count === 1) continue;
+    if (count === 1 && body.slice(lineStart, stop).trim() === "") continue; // blank line
     cursor.line = line;
     cursor.count = count;
     if (!seenHeader) {
@@ -167,6 +166,12 @@ function forEachRow(text: string, onHeader: (cells: string[], line: number) => v
       onHeader(cells, line);
     } else onRow(cursor);
   }
+}
+
+function growInt32(a: Int32Array): Int32Array {
+  const b = new Int32Array(a.length * 2);
+  b.set(a);
+  return b;
 }
 
 interface Columns {
@@ -220,7 +225,13 @@ function readTable(text: string, required: readonly string[], onRow: (row: RowCu
 }
 
 function numberCell(row: RowCursor, cols: Columns, column: string, kind: "concentration" | "value"): number {
-  const raw = row.cell(cols.index[column]!).trim();
+  return numberAt(row, cols.index[column]!, column, kind);
+}
+
+function numberAt(row: RowCursor, index: number, column: string, kind: "concentration" | "value"): number {
+  let raw = row.cell(index);
+  const last = raw.length - 1;
+  if (last >= 0 && (raw.charCodeAt(0) <= 32 || raw.charCodeAt(last) <= 32)) raw = raw.trim();
   const v = Number(raw);
   // Number() alone would accept "", "0x1f", "Infinity" and " 1 "; the pattern admits decimals only.
   if (raw === "" || !Number.isFinite(v) || !NUMBER.test(raw)) {
@@ -274,16 +285,27 @@ export const MIN_DOSE_RESPONSE_CONCENTRATIONS = 4;
  */
 export function readDoseResponseCsv(text: string, minPoints = MIN_DOSE_RESPONSE_POINTS, minConcentrations = MIN_DOSE_RESPONSE_CONCENTRATIONS): DoseResponseSeries[] {
   const byName = new Map<string, DoseResponseSeries>();
+  let current: DoseResponseSeries | null = null;
+  let ci = -1;
+  let xi = -1;
+  let yi = -1;
   readTable(text, ["compound", "concentration", "response"], (row, c) => {
-    const compound = row.cell(c.index.compound!).trim();
+    if (ci < 0) {
+      ci = c.index.compound!;
+      xi = c.index.concentration!;
+      yi = c.index.response!;
+    }
+    const compound = row.cell(ci).trim();
     if (compound === "") throw new TableInputError(row.line, "compound", "empty compound name");
-    const concentration = numberCell(row, c, "concentration", "concentration");
-    const response = numberCell(row, c, "response", "value");
-    let s = byName.get(compound);
+    const concentration = numberAt(row, xi, "concentration", "concentration");
+    const response = numberAt(row, yi, "response", "value");
+    // Rows of one compound are usually consecutive: skip the map lookup then.
+    let s = current !== null && current.compound === compound ? current : byName.get(compound);
     if (!s) {
       s = { compound, concentration: [], response: [], lines: [] };
       byName.set(compound, s);
     }
+    current = s;
     s.concentration.push(concentration);
     s.response.push(response);
     s.lines.push(row.line);
