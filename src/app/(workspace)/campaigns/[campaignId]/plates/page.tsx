@@ -1,15 +1,146 @@
+import Link from "next/link";
 import { pageCampaign } from "@/server/auth/page-guard";
 import { EmptyState } from "@/components/ui/empty-state";
+import { listPlateMaps, listRuns } from "@/server/services/plates";
+import { can } from "@/lib/roles";
+import { ZPrimeTrend } from "@/components/plots/z-prime-trend";
+import { DecisionChip, VerdictChip, fmtDate, fmtNum } from "./_components/status";
 
 export const metadata = { title: "Plates" };
 
 export default async function PlatesPage({ params }: { params: Promise<{ campaignId: string }> }) {
   const { campaignId } = await params;
-  await pageCampaign(campaignId);
+  const { user, role, campaign } = await pageCampaign(campaignId);
+  const writer = can(user.globalRole, role, "plate:write");
+  const [maps, runs] = await Promise.all([listPlateMaps(campaignId), listRuns(campaignId)]);
+  const base = `/campaigns/${campaignId}/plates`;
+  const passed = runs.filter((r) => r.qcVerdict === "pass").length;
+  const accepted = runs.filter((r) => r.decision === "accepted").length;
+  const trend = [...runs]
+    .sort((a, b) => a.uploadedAt.getTime() - b.uploadedAt.getTime() || a.fileName.localeCompare(b.fileName))
+    .map((r) => ({ id: r.id, label: r.barcode ?? r.fileName, at: r.uploadedAt.toISOString(), zPrime: r.zPrime, verdict: r.qcVerdict, decision: r.decision }));
   return (
-    <div className="flex flex-col gap-4">
-      <h1>Plates</h1>
-      <EmptyState title="No plate maps or plate runs yet.">Plate maps describe what is in each well (96, 384 or 1536). Reader exports uploaded against a plate map are stored, checksummed, parsed and checked (Z′, S/B, control CV) before their numbers count.</EmptyState>
+    <div className="flex flex-col gap-5">
+      <div className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <h1>Plates</h1>
+          <p className="text-sm text-ink-muted">
+            {runs.length} plate runs · {passed} pass QC · {accepted} accepted · {maps.length} plate maps · QC: Z′ ≥ <span className="num">{campaign.qcMinZPrime}</span>, control CV ≤{" "}
+            <span className="num">{campaign.qcMaxCvPct}</span> %
+          </p>
+        </div>
+        {writer ? (
+          <div className="flex gap-2">
+            <Link className="btn-quiet" href={`${base}/maps/new`}>
+              New plate map
+            </Link>
+            <Link className="btn-primary" href={`${base}/upload`}>
+              Upload reader exports
+            </Link>
+          </div>
+        ) : null}
+      </div>
+
+      {runs.length === 0 ? (
+        <EmptyState title="No plate runs yet.">
+          Reader exports uploaded against a plate map are stored, checksummed, parsed and checked (Z′, S/B, control CV) before their numbers count.
+        </EmptyState>
+      ) : (
+        <>
+          <section className="card px-3 py-2">
+            <h3 className="mb-1">Z′ over time</h3>
+            <ZPrimeTrend points={trend} minZPrime={campaign.qcMinZPrime} runHref={`${base}/runs`} />
+          </section>
+          <section>
+            <h3 className="mb-2">Plate runs ({runs.length})</h3>
+            <div className="card overflow-x-auto">
+              <table className="table-dense">
+                <thead>
+                  <tr>
+                    <th>File / barcode</th>
+                    <th>Plate map</th>
+                    <th>Readout</th>
+                    <th className="text-right">Wells</th>
+                    <th className="text-right">Reads</th>
+                    <th className="text-right">Z′</th>
+                    <th className="text-right">CV neutral (%)</th>
+                    <th className="text-right">CV full (%)</th>
+                    <th>QC</th>
+                    <th>Decision</th>
+                    <th>Uploaded (UTC)</th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {runs.map((r) => (
+                    <tr key={r.id}>
+                      <td>
+                        <Link href={`${base}/runs/${r.id}`}>{r.fileName}</Link>
+                        {r.barcode ? <span className="ml-1 text-2xs text-ink-muted">{r.barcode}</span> : null}
+                      </td>
+                      <td className="text-ink-soft">{r.plateMapName}</td>
+                      <td className="text-ink-soft">{r.readout}</td>
+                      <td className="num text-right">{r.wellCount}</td>
+                      <td className="num text-right">{r.reads}</td>
+                      <td className="num text-right">{fmtNum(r.zPrime, 3)}</td>
+                      <td className="num text-right">{fmtNum(r.qc.cvNeutralPct, 1)}</td>
+                      <td className="num text-right">{fmtNum(r.qc.cvFullPct, 1)}</td>
+                      <td>
+                        <VerdictChip verdict={r.qcVerdict} />
+                        {r.qc.edge?.flagged ? <span className="chip ml-1 bg-warn-soft text-warn">edge</span> : null}
+                      </td>
+                      <td>
+                        <DecisionChip decision={r.decision} />
+                      </td>
+                      <td className="num whitespace-nowrap text-ink-muted">{fmtDate(r.uploadedAt)}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          </section>
+        </>
+      )}
+
+      <section>
+        <h3 className="mb-2">Plate maps ({maps.length})</h3>
+        {maps.length === 0 ? (
+          <p className="text-sm text-ink-muted">No plate maps yet.{writer ? " Start one with “New plate map”, or import a CSV there." : ""}</p>
+        ) : (
+          <div className="card overflow-x-auto">
+            <table className="table-dense">
+              <thead>
+                <tr>
+                  <th>Name</th>
+                  <th className="text-right">Format (wells)</th>
+                  <th className="text-right">Samples</th>
+                  <th className="text-right">Neutral</th>
+                  <th className="text-right">Full inhibition</th>
+                  <th>Signal with inhibition</th>
+                  <th className="text-right">Runs</th>
+                  <th>Created by</th>
+                </tr>
+              </thead>
+              <tbody>
+                {maps.map((m) => (
+                  <tr key={m.id}>
+                    <td>
+                      <Link href={`${base}/maps/${m.id}`}>{m.name}</Link>
+                      {m.isTemplate ? <span className="chip ml-1 bg-info-soft text-info">template</span> : null}
+                    </td>
+                    <td className="num text-right">{m.format}</td>
+                    <td className="num text-right">{m.sampleWells}</td>
+                    <td className="num text-right">{m.neutralWells}</td>
+                    <td className="num text-right">{m.fullWells}</td>
+                    <td className="text-ink-soft">{m.signalDirection}</td>
+                    <td className="num text-right">{m.runs}</td>
+                    <td className="text-ink-muted">{m.createdBy ?? "—"}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        )}
+      </section>
     </div>
   );
 }
