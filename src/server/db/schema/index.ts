@@ -2,3 +2,4 @@ export * from "./auth";
 export * from "./audit";
 export * from "./plates";
 export * from "./analyses";
+export * from "./compounds";
