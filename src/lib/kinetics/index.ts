@@ -5,7 +5,7 @@
 export { ENGINE_VERSION } from "./version";
 export { regularizedIncompleteBeta, inverseRegularizedIncompleteBeta, studentTCdf, studentTQuantile, tCritical95, fCdf, fSurvival } from "./distributions";
 export { levenbergMarquardt, parameterCovariance, type LeastSquaresProblem, type LeastSquaresOptions, type LeastSquaresResult } from "./least-squares";
-export { summarizeControls, plateQuality, zPrimeFromMoments, signalWindowFromMoments, MAD_TO_SD, type ControlSummary, type PlateQuality } from "./plate-statistics";
+export { summarizeControls, plateQuality, zFactor, zPrimeFromMoments, signalWindowFromMoments, MAD_TO_SD, type ControlSummary, type PlateQuality } from "./plate-statistics";
 export { percentInhibition, percentActivity } from "./normalization";
 export { callHits, type HitRule, type HitCall } from "./hit-calling";
 export { initialRate, type InitialRate, type InitialRateOptions, type ProgressShape } from "./initial-rate";

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { plateQuality, summarizeControls } from "./plate-statistics";
+import { plateQuality, summarizeControls, zFactor } from "./plate-statistics";
 import { percentInhibition, percentActivity } from "./normalization";
 import { callHits } from "./hit-calling";
 
@@ -43,6 +43,11 @@ describe("plate statistics (Zhang, Chung & Oldenburg 1999 definitions; science.m
     const spoiled = plateQuality([...neutral, 300], full);
     expect(spoiled.zPrime!).toBeLessThan(0.5);
     expect(spoiled.robustZPrime!).toBeGreaterThan(0.8);
+  });
+
+  it("Z (samples vs a control) uses the same formula as Z′ (Zhang, Chung & Oldenburg 1999)", () => {
+    expect(zFactor(neutral, full)).toBeCloseTo(0.87102, 5);
+    expect(zFactor([1], full)).toBeNull();
   });
 
   it("rejects empty or single-well control groups with a clear message", () => {

@@ -74,6 +74,18 @@ export function signalWindowFromMoments(mean1: number, sd1: number, mean2: numbe
   return sdMax > 0 ? (Math.abs(mean1 - mean2) - 3 * (sdMax + sdMin)) / sdMax : null;
 }
 
+/**
+ * Z-factor of sample wells against a control group: Z = 1 − 3(σs + σc)/|μs − μc| (Zhang, Chung &
+ * Oldenburg 1999 — Z′ uses two control groups, Z uses the samples). Null when the means are equal
+ * or a group has fewer than 2 wells.
+ */
+export function zFactor(samples: readonly number[], control: readonly number[]): number | null {
+  const s = summarizeControls(samples);
+  const c = summarizeControls(control);
+  if (s.sd === null || c.sd === null) return null;
+  return zPrimeFromMoments(s.mean, s.sd, c.mean, c.sd);
+}
+
 export interface PlateQuality {
   neutral: ControlSummary;
   fullInhibition: ControlSummary;
