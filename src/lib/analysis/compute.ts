@@ -1,0 +1,342 @@
+/**
+ * From well readings of accepted plate runs to per-compound results: the pure part of the
+ * analysis pipeline (no I/O). The server loads readings, calls these, and stores the results.
+ *
+ * - Single-dose: % inhibition of each compound pooled over its wells on every plate (mean, SD,
+ *   n), hit call by the campaign's rule (kinetics/hit-calling).
+ * - Dose-response: a four-parameter logistic fit of % inhibition against concentration, pooled
+ *   over plates (kinetics/logistic4), with the engine's flags plus partial inhibition and
+ *   tight binding (Morrison fit when the enzyme concentration is known).
+ * - Mechanism: the four-model global fit of initial rates against [S] and [I]
+ *   (kinetics/mechanism-fit), Ki of the chosen model with its 95 % CI.
+ * Concentrations are µM throughout. Results are for research use and need review by a
+ * qualified scientist.
+ */
+import {
+  callHits,
+  fitLogistic4,
+  fitMechanism,
+  fitMorrison,
+  type HitRule,
+  type InhibitionModel,
+  type Logistic4Fit,
+  type MechanismModelFit,
+  type MechanismResult,
+} from "@/lib/kinetics";
+
+export type AnalysisReading = {
+  runId: string;
+  well: string;
+  role: "sample" | "neutral" | "full" | "blank" | "empty";
+  compoundId: string | null;
+  concentrationUm: number | null;
+  substrateUm: number | null;
+  /** endpoint value, or initial rate for kinetic runs */
+  signal: number | null;
+  inhibitionPct: number | null;
+  masked: boolean;
+};
+
+export type CompoundResult = {
+  compoundId: string;
+  nPoints: number;
+  pctInhibition?: number | null;
+  pctInhibitionSd?: number | null;
+  hit?: boolean | null;
+  ic50Um?: number | null;
+  ic50LoUm?: number | null;
+  ic50HiUm?: number | null;
+  /** ">" or "<" when the IC50 lies outside the tested range (reported as the range end). */
+  ic50Qualifier?: ">" | "<" | null;
+  hill?: number | null;
+  mechanism?: InhibitionModel | null;
+  mechanismLabel?: "clear" | "ambiguous" | null;
+  kiUm?: number | null;
+  kiLoUm?: number | null;
+  kiHiUm?: number | null;
+  kicUm?: number | null;
+  kiuUm?: number | null;
+  alpha?: number | null;
+  flags: string[];
+  detail: Record<string, unknown>;
+};
+
+const round = (x: number | null | undefined, digits = 10): number | null =>
+  x === null || x === undefined || !Number.isFinite(x) ? null : Number(x.toPrecision(digits));
+
+function meanSd(xs: number[]): { mean: number; sd: number | null } {
+  const n = xs.length;
+  const mean = xs.reduce((a, b) => a + b, 0) / n;
+  if (n < 2) return { mean, sd: null };
+  const v = xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (n - 1);
+  return { mean, sd: Math.sqrt(v) };
+}
+
+/** Sample wells of each compound, unmasked, in a stable order (compound, run, well). */
+function byCompound(readings: readonly AnalysisReading[]): Map<string, AnalysisReading[]> {
+  const m = new Map<string, AnalysisReading[]>();
+  for (const r of readings) {
+    if (r.role !== "sample" || r.masked || !r.compoundId) continue;
+    const list = m.get(r.compoundId) ?? [];
+    list.push(r);
+    m.set(r.compoundId, list);
+  }
+  for (const list of m.values()) list.sort((a, b) => (a.runId === b.runId ? a.well.localeCompare(b.well) : a.runId.localeCompare(b.runId)));
+  return new Map([...m.entries()].sort(([a], [b]) => a.localeCompare(b)));
+}
+
+// ---------------------------------------------------------------------------------------------
+// Single-dose
+
+export function analyseSingleDose(readings: readonly AnalysisReading[], rule: HitRule): { results: CompoundResult[]; threshold: number | null } {
+  const groups = byCompound(readings);
+  const neutralPct = readings.filter((r) => r.role === "neutral" && !r.masked && r.inhibitionPct !== null).map((r) => r.inhibitionPct!);
+  const rows: { id: string; mean: number; sd: number | null; n: number; concs: number[] }[] = [];
+  for (const [id, list] of groups) {
+    const values = list.map((r) => r.inhibitionPct).filter((x): x is number => x !== null && Number.isFinite(x));
+    if (values.length === 0) continue;
+    const { mean, sd } = meanSd(values);
+    rows.push({ id, mean, sd, n: values.length, concs: [...new Set(list.map((r) => r.concentrationUm ?? NaN))] });
+  }
+  let threshold: number | null = null;
+  let hits: boolean[] = rows.map(() => false);
+  if (rows.length > 0) {
+    const usable = rule.kind === "percent" || neutralPct.length >= 2;
+    const effective: HitRule = usable ? rule : { kind: "percent", thresholdPercent: 50 };
+    const call = callHits(
+      rows.map((r) => r.mean),
+      effective,
+      neutralPct,
+    );
+    threshold = call.threshold;
+    hits = call.isHit;
+  }
+  const results = rows.map((r, k): CompoundResult => {
+    const flags: string[] = [];
+    if (r.n < 2) flags.push("single-well");
+    if (r.sd !== null && r.sd > 20) flags.push("replicates-disagree");
+    return {
+      compoundId: r.id,
+      nPoints: r.n,
+      pctInhibition: round(r.mean),
+      pctInhibitionSd: round(r.sd),
+      hit: hits[k] ?? false,
+      flags,
+      detail: { thresholdPct: round(threshold), rule, concentrationsUm: r.concs.filter(Number.isFinite) },
+    };
+  });
+  return { results, threshold };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Dose-response
+
+export type DoseResponseOptions = {
+  fixTopPct?: number | null;
+  fixBottomPct?: number | null;
+  /** Enzyme concentration in the assay, µM; enables the tight-binding check and Morrison fit. */
+  enzymeUm?: number | null;
+};
+
+function ic50Summary(fit: Logistic4Fit, xs: number[]) {
+  const positive = xs.filter((x) => x > 0);
+  const lo = Math.min(...positive);
+  const hi = Math.max(...positive);
+  let qualifier: ">" | "<" | null = null;
+  let ic50 = fit.ic50;
+  if (fit.flags.includes("ic50-above-range")) {
+    qualifier = ">";
+    ic50 = hi;
+  } else if (fit.flags.includes("ic50-below-range")) {
+    qualifier = "<";
+    ic50 = lo;
+  }
+  return { ic50, qualifier, rangeUm: [lo, hi] as [number, number] };
+}
+
+export function analyseDoseResponse(readings: readonly AnalysisReading[], opts: DoseResponseOptions = {}): CompoundResult[] {
+  const out: CompoundResult[] = [];
+  for (const [id, list] of byCompound(readings)) {
+    const pts = list.filter((r) => r.concentrationUm !== null && r.inhibitionPct !== null && Number.isFinite(r.inhibitionPct));
+    const x = pts.map((r) => r.concentrationUm!);
+    const y = pts.map((r) => r.inhibitionPct!);
+    const distinct = new Set(x.filter((c) => c > 0)).size;
+    if (distinct < 4 || pts.length < 5) {
+      out.push({ compoundId: id, nPoints: pts.length, flags: ["too-few-points"], detail: { points: pts.map((r) => [r.concentrationUm, r.inhibitionPct, r.runId, r.well]) } });
+      continue;
+    }
+    const fit = fitLogistic4(x, y, {
+      ...(opts.fixTopPct !== null && opts.fixTopPct !== undefined ? { fixedTop: opts.fixTopPct } : {}),
+      ...(opts.fixBottomPct !== null && opts.fixBottomPct !== undefined ? { fixedBottom: opts.fixBottomPct } : {}),
+    });
+    const flags: string[] = [...fit.flags];
+    const s = ic50Summary(fit, x);
+    // % inhibition rises with concentration: the upper plateau is the maximum inhibition.
+    if (fit.direction === "falling") flags.push("activation-not-inhibition");
+    if (fit.top !== null && fit.direction === "rising" && fit.top < 80 && !fit.flags.includes("plateau-not-reached") && s.qualifier === null) flags.push("partial-inhibition");
+    if (fit.bottom !== null && Math.abs(fit.bottom) > 20) flags.push("baseline-offset");
+    let morrison: Record<string, unknown> | null = null;
+    const e = opts.enzymeUm ?? null;
+    if (e && e > 0 && fit.ic50 !== null) {
+      const steep = fit.hill !== null && fit.hill > 2;
+      if (fit.ic50 < 10 * e || steep) {
+        flags.push("tight-binding-suspected");
+        const v = y.map((p) => 1 - p / 100);
+        try {
+          const m = fitMorrison(x, v, e, { fixedV0: 1 });
+          morrison = {
+            enzymeUm: e,
+            kAppUm: round(m.kApp),
+            kAppCi95Um: [round(m.kAppCi95[0]), round(m.kAppCi95[1])],
+            ic50Um: round(m.ic50),
+            rss: round(m.rss),
+            converged: m.converged,
+          };
+        } catch (err) {
+          morrison = { error: err instanceof Error ? err.message : String(err) };
+        }
+      }
+    }
+    out.push({
+      compoundId: id,
+      nPoints: pts.length,
+      ic50Um: round(s.ic50),
+      ic50LoUm: s.qualifier ? null : round(fit.ic50Ci95[0]),
+      ic50HiUm: s.qualifier ? null : round(fit.ic50Ci95[1]),
+      ic50Qualifier: s.qualifier,
+      hill: round(fit.hill),
+      flags: [...new Set(flags)],
+      detail: {
+        fit: {
+          ic50Um: round(fit.ic50),
+          log10Ic50: round(fit.log10Ic50),
+          log10Ic50Se: round(fit.log10Ic50Se),
+          ic50Ci95Um: [round(fit.ic50Ci95[0]), round(fit.ic50Ci95[1])],
+          hill: round(fit.hill),
+          hillSe: round(fit.hillSe),
+          direction: fit.direction,
+          topPct: round(fit.top),
+          bottomPct: round(fit.bottom),
+          rss: round(fit.rss),
+          rSquared: round(fit.rSquared),
+          dof: fit.dof,
+          converged: fit.converged,
+        },
+        testedRangeUm: s.rangeUm,
+        fixed: { topPct: opts.fixTopPct ?? null, bottomPct: opts.fixBottomPct ?? null },
+        morrison,
+        points: pts.map((r) => [r.concentrationUm, round(r.inhibitionPct), r.runId, r.well]),
+      },
+    });
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Mechanism
+
+export type MechanismAnalysisOptions = { weighting?: "none" | "relative" };
+
+/** The headline constant of a model: Kic for competitive and mixed, Kiu for uncompetitive, Ki for noncompetitive. */
+export function headlineKi(m: MechanismModelFit): { ki: number | null; ci: [number | null, number | null] } {
+  if (m.model === "uncompetitive") return { ki: m.kiu, ci: [m.ci95.kiu[0], m.ci95.kiu[1]] };
+  return { ki: m.kic, ci: [m.ci95.kic[0], m.ci95.kic[1]] };
+}
+
+function modelSummary(m: MechanismModelFit) {
+  return {
+    vmax: round(m.vmax),
+    kmUm: round(m.km),
+    kicUm: round(m.kic),
+    kiuUm: round(m.kiu),
+    alpha: round(m.alpha),
+    se: Object.fromEntries(Object.entries(m.se).map(([k, v]) => [k, round(v)])),
+    ci95: Object.fromEntries(Object.entries(m.ci95).map(([k, v]) => [k, [round(v[0]), round(v[1])]])),
+    rss: round(m.rss),
+    aicc: round(m.aicc),
+    deltaAicc: round(m.deltaAicc),
+    akaikeWeight: round(m.akaikeWeight),
+    fTestVsMixedP: round(m.fTestVsMixed?.p ?? null),
+    dof: m.dof,
+    converged: m.converged,
+  };
+}
+
+export function summariseMechanism(fit: MechanismResult, chosen: InhibitionModel = fit.best) {
+  const m = fit.models[chosen];
+  const { ki, ci } = headlineKi(m);
+  return {
+    mechanism: chosen,
+    label: fit.label,
+    kiUm: round(ki),
+    kiCi95Um: [round(ci[0]), round(ci[1])] as [number | null, number | null],
+    kicUm: round(m.kic),
+    kiuUm: round(m.kiu),
+    alpha: round(m.alpha),
+    vmax: round(m.vmax),
+    kmUm: round(m.km),
+  };
+}
+
+export function analyseMechanism(readings: readonly AnalysisReading[], opts: MechanismAnalysisOptions = {}): CompoundResult[] {
+  // Background: the mean rate of blank wells on each run, when there are any.
+  const blanks = new Map<string, number[]>();
+  for (const r of readings) if (r.role === "blank" && !r.masked && r.signal !== null) blanks.set(r.runId, [...(blanks.get(r.runId) ?? []), r.signal]);
+  const background = new Map([...blanks.entries()].map(([k, v]) => [k, v.reduce((a, b) => a + b, 0) / v.length]));
+
+  const out: CompoundResult[] = [];
+  for (const [id, list] of byCompound(readings)) {
+    const pts = list
+      .filter((r) => r.substrateUm !== null && r.signal !== null && Number.isFinite(r.signal))
+      .map((r) => ({ substrate: r.substrateUm!, inhibitor: r.concentrationUm ?? 0, rate: r.signal! - (background.get(r.runId) ?? 0), runId: r.runId, well: r.well }));
+    const levelsS = new Set(pts.map((p) => p.substrate)).size;
+    const levelsI = new Set(pts.map((p) => p.inhibitor)).size;
+    if (pts.length < 6 || levelsS < 3 || levelsI < 2) {
+      out.push({
+        compoundId: id,
+        nPoints: pts.length,
+        flags: ["too-few-points"],
+        detail: { reason: `needs at least 3 substrate and 2 inhibitor concentrations (has ${levelsS} and ${levelsI})`, points: pts },
+      });
+      continue;
+    }
+    let fit: MechanismResult;
+    try {
+      fit = fitMechanism(pts, { weighting: opts.weighting ?? "none" });
+    } catch (e) {
+      out.push({ compoundId: id, nPoints: pts.length, flags: ["fit-failed"], detail: { error: e instanceof Error ? e.message : String(e), points: pts } });
+      continue;
+    }
+    const s = summariseMechanism(fit);
+    const flags: string[] = [];
+    if (fit.label === "ambiguous") flags.push("ambiguous-mechanism");
+    if (!fit.models[fit.best].converged) flags.push("not-converged");
+    if (s.kiCi95Um[0] !== null && s.kiCi95Um[1] !== null && s.kiCi95Um[1] / Math.max(s.kiCi95Um[0], 1e-300) > 10) flags.push("ki-ci-wider-than-10-fold");
+    if (s.kiCi95Um[1] === null) flags.push("ki-ci-unbounded");
+    const maxI = Math.max(...pts.map((p) => p.inhibitor));
+    if (s.kiUm !== null && s.kiUm > 3 * maxI) flags.push("ki-above-tested-range");
+    out.push({
+      compoundId: id,
+      nPoints: pts.length,
+      mechanism: s.mechanism,
+      mechanismLabel: s.label,
+      kiUm: s.kiUm,
+      kiLoUm: s.kiCi95Um[0],
+      kiHiUm: s.kiCi95Um[1],
+      kicUm: s.kicUm,
+      kiuUm: s.kiuUm,
+      alpha: s.alpha,
+      flags,
+      detail: {
+        best: fit.best,
+        label: fit.label,
+        n: fit.n,
+        weighting: fit.weighting,
+        models: Object.fromEntries(Object.entries(fit.models).map(([k, m]) => [k, modelSummary(m)])),
+        points: pts.map((p) => [p.substrate, p.inhibitor, round(p.rate), p.runId, p.well]),
+        backgroundSubtracted: background.size > 0,
+      },
+    });
+  }
+  return out;
+}

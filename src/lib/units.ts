@@ -1,0 +1,23 @@
+/** Concentration unit conversions for values stored with their unit (campaign Km, [E]). */
+const toUm: Record<string, number> = { pM: 1e-6, nM: 1e-3, µM: 1, uM: 1, mM: 1e3, M: 1e6 };
+
+export function toMicromolar(value: number, unit: string): number {
+  const f = toUm[unit];
+  if (f === undefined) throw new RangeError(`unknown concentration unit "${unit}"`);
+  return value * f;
+}
+
+export function toNanomolar(value: number, unit: string): number {
+  return toMicromolar(value, unit) * 1000;
+}
+
+/** A concentration in µM written with a readable unit: 0.0042 µM → "4.2 nM". */
+export function formatConcentration(um: number | null | undefined, digits = 3): string {
+  if (um === null || um === undefined || !Number.isFinite(um)) return "—";
+  const abs = Math.abs(um);
+  if (abs === 0) return "0 µM";
+  if (abs < 1e-3) return `${Number((um * 1e6).toPrecision(digits))} pM`;
+  if (abs < 1) return `${Number((um * 1e3).toPrecision(digits))} nM`;
+  if (abs < 1000) return `${Number(um.toPrecision(digits))} µM`;
+  return `${Number((um / 1000).toPrecision(digits))} mM`;
+}
