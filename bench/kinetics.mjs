@@ -5,7 +5,7 @@
  * 1. 10,000 ten-point dose-response curves (seeded, invented) written to one CSV; the whole
  *    `analyze dose-response` process (bundled with esbuild into .local/) vs a SciPy curve_fit loop
  *    over the same CSV (bench/scipy_dose_response.py), each a separate process, wall time, median
- *    of --runs (default 3). Goal ≥ 10×. SciPy is run plain and again with an analytic Jacobian.
+ *    of --runs (default 5, interleaved); each process's CPU time is reported too. Goal ≥ 10×. SciPy is run plain and again with an analytic Jacobian.
  * 2. Four-model mechanism fits (fitMechanism, bench/engine-mechanism.mjs) vs
  *    scipy.optimize.least_squares (bench/scipy_mechanism.py) on the same data sets: each run a
  *    fresh process on both sides, fitting loop timed (engine cold, JIT compilation included).
@@ -13,11 +13,11 @@
  * 3. For the record: in-process 4PL fits per second of the engine's solver and of
  *    ml-levenberg-marquardt 5.1 (the package the stack suggests), on the same curves.
  *
- * usage: node bench/kinetics.mjs [--curves=10000] [--mechanism=1000] [--runs=3]
+ * usage: node bench/kinetics.mjs [--curves=10000] [--mechanism=1000] [--runs=5]
  * Prints a markdown table; writes its files under .local/bench/ (git-ignored).
  */
 import { spawnSync } from "node:child_process";
-import { closeSync, mkdirSync, openSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { cpus } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
@@ -34,7 +34,7 @@ const arg = (name, fallback) => {
 };
 const N_CURVES = arg("curves", 10_000);
 const N_MECH = arg("mechanism", 1_000);
-const RUNS = arg("runs", 3);
+const RUNS = arg("runs", 5);
 const N_ML = Math.min(2_000, N_CURVES);
 
 function log(msg) {
@@ -75,14 +75,11 @@ writeFileSync(mechPath, JSON.stringify(mechSets.map((d) => ({ id: d.id, points: 
 log(`wrote ${N_CURVES} curves (${csvLines.length - 1} rows) and ${N_MECH} mechanism data sets`);
 
 // --- helpers ---------------------------------------------------------------------------------
+/** Runs a command (stdout to outFile) through bench/_timed.py: wall time and the child's CPU time. */
 function timeProcess(cmd, args, outFile) {
-  const fd = openSync(outFile, "w");
-  const t0 = performance.now();
-  const r = spawnSync(cmd, args, { cwd: ROOT, stdio: ["ignore", fd, "pipe"], encoding: "utf8", maxBuffer: 64 * 1024 * 1024 });
-  const seconds = (performance.now() - t0) / 1000;
-  closeSync(fd);
+  const r = spawnSync("python3", [join(ROOT, "bench/_timed.py"), outFile, cmd, ...args], { cwd: ROOT, encoding: "utf8" });
   if (r.status !== 0) throw new Error(`${cmd} ${args.join(" ")} failed (${r.status}): ${r.stderr}`);
-  return seconds;
+  return JSON.parse(r.stdout);
 }
 const median = (v) => [...v].sort((a, b) => a - b)[v.length >> 1];
 const fmt = (s) => (s < 10 ? s.toFixed(2) : s.toFixed(1));
@@ -93,21 +90,18 @@ const [scipyVersion, numpyVersion, pythonVersion] = versions.stdout.trim().split
 // --- 1. whole process, dose-response ---------------------------------------------------------
 const engineOut = join(OUT, "engine-dose-response.json");
 const scipyOut = join(OUT, "scipy-dose-response.json");
-const engineTimes = [];
-const scipyTimes = [];
+const engineRuns = [];
+const scipyRuns = [];
+const scipyJacRuns = [];
+// Interleaved runs, so a burst of load on the shared machine hits every side alike.
 for (let r = 0; r < RUNS; r++) {
-  engineTimes.push(timeProcess(process.execPath, [cliBundle, "dose-response", csvPath], engineOut));
-  scipyTimes.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), csvPath], scipyOut));
-  log(`dose-response run ${r + 1}: engine ${fmt(engineTimes[r])} s, SciPy ${fmt(scipyTimes[r])} s`);
+  engineRuns.push(timeProcess(process.execPath, [cliBundle, "dose-response", csvPath], engineOut));
+  scipyRuns.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), csvPath], scipyOut));
+  // SciPy again with the analytic Jacobian, to show the comparison does not hinge on finite differences.
+  scipyJacRuns.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), "--analytic-jacobian", csvPath], join(OUT, "scipy-dose-response-jac.json")));
+  log(`dose-response run ${r + 1}: engine ${fmt(engineRuns[r].wall)} s (CPU ${fmt(engineRuns[r].cpu)} s), SciPy ${fmt(scipyRuns[r].wall)} s (CPU ${fmt(scipyRuns[r].cpu)} s), SciPy with analytic Jacobian ${fmt(scipyJacRuns[r].wall)} s`);
 }
-// SciPy again with the analytic Jacobian, to show the comparison does not hinge on finite differences.
-const scipyJacTimes = [];
-for (let r = 0; r < RUNS; r++) {
-  scipyJacTimes.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), "--analytic-jacobian", csvPath], join(OUT, "scipy-dose-response-jac.json")));
-  log(`dose-response run ${r + 1}: SciPy with analytic Jacobian ${fmt(scipyJacTimes[r])} s`);
-}
-const doseScipyJac = median(scipyJacTimes);
-const tsxTime = timeProcess(join(ROOT, "node_modules/.bin/tsx"), [join(ROOT, "src/cli/analyze.ts"), "dose-response", csvPath], join(OUT, "engine-dose-response-tsx.json"));
+const tsxTime = timeProcess(join(ROOT, "node_modules/.bin/tsx"), [join(ROOT, "src/cli/analyze.ts"), "dose-response", csvPath], join(OUT, "engine-dose-response-tsx.json")).wall;
 const engineRes = JSON.parse(readFileSync(engineOut, "utf8"));
 const scipyRes = JSON.parse(readFileSync(scipyOut, "utf8"));
 let agree = 0;
@@ -115,8 +109,11 @@ engineRes.forEach((e, k) => {
   const s = scipyRes[k];
   if (e.ic50 !== null && s.ic50 !== null && Math.abs(e.ic50 - s.ic50) / s.ic50 < 0.005) agree++;
 });
-const doseEngine = median(engineTimes);
-const doseScipy = median(scipyTimes);
+const doseEngine = median(engineRuns.map((t) => t.wall));
+const doseScipy = median(scipyRuns.map((t) => t.wall));
+const doseScipyJac = median(scipyJacRuns.map((t) => t.wall));
+const doseEngineCpu = median(engineRuns.map((t) => t.cpu));
+const doseScipyCpu = median(scipyRuns.map((t) => t.cpu));
 
 // --- 2. mechanism, fitting loop (each run a fresh process on both sides) ----------------------
 function timedFits(cmd, args) {
@@ -174,7 +171,8 @@ const lines = [
   "",
   "| task | Inhibitrack engine | SciPy | ratio | goal |",
   "|---|---:|---:|---:|---:|",
-  `| ${N_CURVES.toLocaleString("en-US")} ten-point dose-response curves, whole process (\`analyze dose-response\` bundled vs \`curve_fit\` loop over the same CSV) | ${fmt(doseEngine)} s | ${fmt(doseScipy)} s | **${(doseScipy / doseEngine).toFixed(1)}×** | ≥ 10× |`,
+  `| ${N_CURVES.toLocaleString("en-US")} ten-point dose-response curves, whole process (\`analyze dose-response\` bundled vs \`curve_fit\` loop over the same CSV), wall time | ${fmt(doseEngine)} s | ${fmt(doseScipy)} s | **${(doseScipy / doseEngine).toFixed(1)}×** | ≥ 10× |`,
+  `| the same, CPU time of each process | ${fmt(doseEngineCpu)} s | ${fmt(doseScipyCpu)} s | ${(doseScipyCpu / doseEngineCpu).toFixed(1)}× | — |`,
   `| the same, SciPy given the analytic Jacobian (\`curve_fit(..., jac=...)\`) | ${fmt(doseEngine)} s | ${fmt(doseScipyJac)} s | ${(doseScipyJac / doseEngine).toFixed(1)}× | — |`,
   `| ${N_MECH.toLocaleString("en-US")} mechanism data sets × 4 models (fitting loop in a fresh process, \`fitMechanism\` vs \`least_squares\` with analytic Jacobian) | ${fmt(mechEngine)} s | ${fmt(mechScipy)} s | **${(mechScipy / mechEngine).toFixed(1)}×** | ≥ 5× |`,
   "",

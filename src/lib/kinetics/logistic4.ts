@@ -101,7 +101,13 @@ function makeProblem(lx: readonly number[], y: readonly number[], fixedTop: numb
     nObs: n,
     unpack,
     evaluate(theta, residuals, jac) {
-      const [b, t, l, h] = unpack(theta);
+      // Direct reads (no array from unpack): this runs for every iteration of every fit.
+      const kTop = freeBottom ? 1 : 0;
+      const kL = kTop + (freeTop ? 1 : 0);
+      const b = freeBottom ? theta[0]! : fixedBottom!;
+      const t = freeTop ? theta[kTop]! : fixedTop!;
+      const l = theta[kL]!;
+      const h = theta[kL + 1]!;
       const span = t - b;
       for (let i = 0; i < n; i++) {
         const xi = lx[i]!;

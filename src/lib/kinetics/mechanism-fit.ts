@@ -110,7 +110,11 @@ function makeProblem(model: InhibitionModel, d: Data): LeastSquaresProblem {
     nObs: n,
     lower,
     evaluate(theta, r, jac) {
-      const [vmax, km, a, b] = unpack(model, theta);
+      // Direct reads (no array from unpack): this runs for every iteration of every fit.
+      const vmax = theta[0]!;
+      const km = theta[1]!;
+      const a = model === "uncompetitive" ? 0 : theta[2]!;
+      const b = model === "competitive" ? 0 : model === "mixed" ? theta[3]! : theta[2]!;
       for (let k = 0; k < n; k++) {
         const sk = s[k]!;
         const ik = inh[k]!;
