@@ -78,8 +78,8 @@ export function PlateHeatmap({
         ygap: 1,
         colorbar: { title: { text: unit, side: "right" }, thickness: 10, len: 0.9 },
       },
-      { type: "scatter", mode: "markers", name: "neutral control", x: marks.neutral.x, y: marks.neutral.y, hoverinfo: "skip", marker: { symbol: "circle-open", size: markerSize, color: "#ffffff", line: { width: 1.5 } } },
-      { type: "scatter", mode: "markers", name: "full-inhibition control", x: marks.full.x, y: marks.full.y, hoverinfo: "skip", marker: { symbol: "square-open", size: markerSize, color: "#1d2630", line: { width: 1.5 } } },
+      { type: "scatter", mode: "markers", name: "neutral control", x: marks.neutral.x, y: marks.neutral.y, hoverinfo: "skip", marker: { symbol: "circle-open", size: markerSize, color: "#1d2630", line: { width: 1.5 } } },
+      { type: "scatter", mode: "markers", name: "full-inhibition control", x: marks.full.x, y: marks.full.y, hoverinfo: "skip", marker: { symbol: "square-open", size: markerSize, color: "#ffffff", line: { width: 1.5 } } },
       { type: "scatter", mode: "markers", name: "masked", x: marks.masked.x, y: marks.masked.y, hoverinfo: "skip", marker: { symbol: "x-thin-open", size: markerSize + 2, color: "#b42318", line: { width: 2.5 } } },
     ];
     const sel = selected ? /^([A-Z]{1,2})(\d+)$/.exec(selected) : null;
@@ -87,8 +87,8 @@ export function PlateHeatmap({
       ...baseLayout,
       title: { text: title, font: { size: 12 }, x: 0, xanchor: "left" },
       height,
-      showlegend: true,
-      legend: { orientation: "h", y: -0.12, font: { size: 10 } },
+      // The symbols are explained in words beside the chart (a white square vanishes in a legend).
+      showlegend: false,
       xaxis: { side: "top", tickmode: "array", tickvals: x.filter((c) => columns <= 24 || c % 4 === 0 || c === 1), ticks: "", showgrid: false, fixedrange: true },
       yaxis: { autorange: "reversed", tickmode: "array", tickvals: y.filter((_, i) => rows <= 16 || i % 2 === 0), ticks: "", showgrid: false, fixedrange: true },
       shapes: sel

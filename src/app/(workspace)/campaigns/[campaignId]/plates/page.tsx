@@ -73,7 +73,7 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
                 <tbody>
                   {runs.map((r) => (
                     <tr key={r.id}>
-                      <td>
+                      <td className="whitespace-nowrap">
                         <Link href={`${base}/runs/${r.id}`}>{r.fileName}</Link>
                         {r.barcode ? <span className="ml-1 text-2xs text-ink-muted">{r.barcode}</span> : null}
                       </td>
@@ -83,7 +83,10 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
                       <td className="num text-right">{r.reads}</td>
                       <td className="num text-right">{fmtNum(r.zPrime, 3)}</td>
                       <td className="num text-right">{fmtNum(r.qc.cvNeutralPct, 1)}</td>
-                      <td className="num text-right">{fmtNum(r.qc.cvFullPct, 1)}</td>
+                      <td className={`num text-right ${r.qc.full?.cvApplies === false ? "text-ink-faint" : ""}`} title={r.qc.full?.cvApplies === false ? "Mean within 3 SD of zero (e.g. a no-enzyme rate): the CV limit is not applied." : undefined}>
+                        {fmtNum(r.qc.cvFullPct, 1)}
+                        {r.qc.full?.cvApplies === false ? "*" : ""}
+                      </td>
                       <td>
                         <VerdictChip verdict={r.qcVerdict} />
                         {r.qc.edge?.flagged ? <span className="chip ml-1 bg-warn-soft text-warn">edge</span> : null}
@@ -97,6 +100,7 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
                 </tbody>
               </table>
             </div>
+            <p className="mt-1 text-2xs text-ink-muted">* Mean within 3 SD of zero (e.g. the no-enzyme rate of a kinetic run): the CV limit is not applied.</p>
           </section>
         </>
       )}

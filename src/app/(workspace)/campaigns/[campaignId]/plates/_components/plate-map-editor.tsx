@@ -19,10 +19,11 @@ const roleClass: Record<WellRole, string> = {
   empty: "bg-paper-raised",
 };
 
-function sampleColour(conc: number | undefined, logMin: number, logMax: number): string {
-  if (conc === undefined || conc <= 0) return "hsl(174 30% 88%)";
-  const f = logMax > logMin ? (Math.log10(conc) - logMin) / (logMax - logMin) : 1;
-  return `hsl(174 55% ${Math.round(86 - 56 * f)}%)`;
+function sampleStyle(conc: number | undefined, logMin: number, logMax: number): React.CSSProperties {
+  if (conc === undefined || conc <= 0) return { background: "hsl(174 30% 88%)", color: "#1d2630" };
+  const f = logMax > logMin ? (Math.log10(conc) - logMin) / (logMax - logMin) : 0.5;
+  const lightness = Math.round(86 - 56 * f);
+  return { background: `hsl(174 55% ${lightness}%)`, color: lightness < 58 ? "#ffffff" : "#1d2630" };
 }
 
 type Props = {
@@ -220,7 +221,7 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
         <div
           ref={gridRef}
           className="relative select-none rounded border border-rule bg-paper-sunk p-1"
-          style={{ display: "grid", gridTemplateColumns: `1.6rem repeat(${dims.columns}, minmax(0, 1fr))`, gap: dims.columns > 24 ? 1 : 2 }}
+          style={{ maxWidth: dims.columns === 12 ? "34rem" : dims.columns === 24 ? "52rem" : undefined, display: "grid", gridTemplateColumns: `1.6rem repeat(${dims.columns}, minmax(0, 1fr))`, gap: dims.columns > 24 ? 1 : 2 }}
           onPointerDown={(e) => {
             const i = cellAt(e.target);
             if (i === null) return;
@@ -244,8 +245,8 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
           }}
           data-testid="plate-map-grid"
         >
-          <button type="button" className="text-2xs text-ink-faint" onClick={() => selectIdx(map.wells.map((_, i) => i), false)} title="Select all wells">
-            ⌗
+          <button type="button" className="text-[9px] text-ink-faint hover:text-accent" onClick={() => selectIdx(map.wells.map((_, i) => i), false)} title="Select all wells">
+            all
           </button>
           {Array.from({ length: dims.columns }, (_, c) => (
             <button
@@ -267,7 +268,7 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
               {roleLabel[r]}: <span className="num">{counts[r]}</span>
             </span>
           ))}
-          <span className="text-ink-faint">Sample shade: darker = higher concentration (log scale).</span>
+          <span className="text-ink-faint">Sample shade: darker = higher inhibitor concentration (log scale){cellText ? "; numbers in wells: inhibitor concentration in µM" : ""}.</span>
         </div>
         {issues.length > 0 ? (
           <div className="rounded border border-warn/40 bg-warn-soft px-2 py-1 text-xs text-ink-soft">
@@ -474,8 +475,8 @@ const Cells = memo(function Cells({
           key={i}
           data-i={i}
           title={title}
-          className={`aspect-square rounded-[2px] ${roleClass[w.role]} ${selected ? "outline outline-2 -outline-offset-1 outline-ink" : "border border-rule"} flex items-center justify-center overflow-hidden text-[9px] leading-none text-ink`}
-          style={w.role === "sample" ? { background: sampleColour(w.concentrationUm, logMin, logMax) } : undefined}
+          className={`aspect-square rounded-[2px] ${roleClass[w.role]} ${selected ? "outline outline-2 -outline-offset-1 outline-ink" : "border border-rule"} flex items-center justify-center overflow-hidden text-[9px] leading-none`}
+          style={w.role === "sample" ? sampleStyle(w.concentrationUm, logMin, logMax) : undefined}
         >
           {cellText && w.role === "sample" && w.concentrationUm !== undefined ? Number(w.concentrationUm.toPrecision(2)) : null}
         </div>,

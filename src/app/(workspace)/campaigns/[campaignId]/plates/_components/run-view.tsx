@@ -65,12 +65,20 @@ export function RunView({
     [wells],
   );
   const sel = selected ? byName.get(selected) : undefined;
+  const controlS = new Set(wells.filter((w) => w.role === "neutral" || w.role === "full").map((w) => w.substrateUm));
+  const mixedSubstrate = wells.some((w) => w.role === "sample" && w.substrateUm !== null && !controlS.has(w.substrateUm));
   const height = rows > 16 ? 420 : rows > 8 ? 330 : 260;
   return (
     <div className="flex min-w-0 flex-col gap-3">
       <p className="text-xs text-ink-muted">
-        Click a well to inspect it{canWrite ? " or mask it" : ""}. Rings mark neutral controls, open squares full-inhibition controls, red crosses masked wells.
+        Click a well to inspect it{canWrite ? " or mask it" : ""}. Dark rings mark neutral controls, white squares full-inhibition controls, red crosses masked wells.
       </p>
+      {mixedSubstrate ? (
+        <p className="rounded border border-info/30 bg-info-soft px-2 py-1 text-xs text-ink-soft">
+          Samples on this plate run at substrate concentrations other than the controls&rsquo; (a mechanism study), so their % inhibition against the controls is not a
+          measure of potency; the mechanism analysis uses the initial rates against [S] and [I].
+        </p>
+      ) : null}
       <div className="grid gap-3 2xl:grid-cols-2">
         <div className="card px-2 pt-1" data-testid="heatmap-raw">
           <PlateHeatmap rows={rows} columns={columns} wells={raw} title={readout === "kinetic" ? "Initial rate (signal units/s)" : "Raw signal (signal units)"} unit={signalUnit} selected={selected} onSelect={setSelected} height={height} />
