@@ -75,6 +75,7 @@ const invokers: Record<string, Invoke> = {
   "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#GET": async (actor, w) =>
     deniedRoute((await callRoute(plateMapsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-maps`, params: { campaignId: w.campaignId } })).status),
   "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#POST": async (actor, w) => {
+    await platesWorld(w); // registers the compounds the map names
     const form = new FormData();
     form.append("name", `Matrix import ${actor}`);
     form.append("format", "96");
@@ -106,6 +107,7 @@ const invokers: Record<string, Invoke> = {
     return deniedRoute((await callRoute(plateRunFile.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}/file`, params: { campaignId: w.campaignId, runId } })).status);
   },
   "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#savePlateMapAction": async (actor, w) => {
+    await platesWorld(w);
     const m = smallMap();
     const mapJson = JSON.stringify({ format: 96, wells: m.wells.filter((x) => x.role !== "empty") });
     return deniedAction(await callAction(plateActions.savePlateMapAction, { campaignId: w.campaignId, name: `Matrix editor ${actor}`, signalDirection: "falls", mapJson }, userOf(w, actor)));

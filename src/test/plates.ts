@@ -6,6 +6,10 @@ import { campaigns } from "@/server/db/schema";
 import { eq } from "drizzle-orm";
 import { plateMapFromWells, type PlateMapWell } from "@/lib/plates";
 import type { World } from "./harness";
+import { ensureCompoundsRegistered } from "./compounds";
+
+/** Registry IDs INH-000001 … INH-<n> (invented demo structures registered by the compounds helper). */
+export const registryIds = (n: number) => Array.from({ length: n }, (_, i) => `INH-${String(i + 1).padStart(6, "0")}`);
 
 export const NEUTRAL = [950, 1010, 1040, 980, 1020, 1000];
 export const FULL = [90, 110, 95, 105, 100, 100];
@@ -39,6 +43,7 @@ export function platesWorld(w: World): Promise<{ mapId: string; runId: string }>
   let p = cache.get(w.tag);
   if (!p) {
     p = (async () => {
+      await ensureCompoundsRegistered(registryIds(12));
       const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, { name: `Matrix map ${w.tag}`, map: smallMap() });
       const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: `matrix-${w.tag}.csv`, contentType: "text/csv", bytes: smallExport(Number.parseInt(w.tag, 16)) });
       return { mapId, runId: run.id };

@@ -7,11 +7,14 @@ import { db } from "@/server/db/client";
 import { plateRuns } from "@/server/db/schema";
 import { seedAccounts } from "./accounts";
 import { seedPlates } from "./plates";
+import { ensureCompoundsRegistered } from "@/test/compounds";
+import { registryIds } from "@/test/plates";
 
 describe("demo plates seed", () => {
   it("stores every demo plate with QC and accepts the ones that pass", async () => {
     const t0 = Date.now();
     const ctx = await seedAccounts(db);
+    await ensureCompoundsRegistered(registryIds(300)); // the compounds step of the real seed registers these
     const r = await seedPlates(db, ctx);
     const ms = Date.now() - t0;
     const runs = await db.select().from(plateRuns).where(eq(plateRuns.campaignId, ctx.mainCampaignId));

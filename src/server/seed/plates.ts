@@ -1,7 +1,7 @@
 import "server-only";
-import { eq } from "drizzle-orm";
 import type { Db } from "@/server/db/client";
-import { campaigns, plateRuns, users } from "@/server/db/schema";
+import { eq, inArray } from "drizzle-orm";
+import { campaigns, compounds, plateRuns, users } from "@/server/db/schema";
 import { demoCampaignPlates } from "@/lib/plates/demo-campaign";
 import { createPlateMap, decideRun, uploadRun } from "@/server/services/plates";
 
@@ -21,6 +21,13 @@ export async function seedPlates(db: Db, ctx: { mainCampaignId: string; userIds:
   const [assay] = await db.select({ id: users.id, email: users.email }).from(users).where(eq(users.id, assayId));
   const [campaign] = await db.select().from(campaigns).where(eq(campaigns.id, ctx.mainCampaignId));
   const demo = demoCampaignPlates(DEMO_PLATES_SEED);
+  // Plate maps name registered compounds only: the compounds step of the seed runs first.
+  const ids = demo.compounds.map((c) => c.id);
+  const registered = await db.select({ id: compounds.registryId }).from(compounds).where(inArray(compounds.registryId, ids));
+  if (registered.length < ids.length) {
+    console.log(`[seed] demo plates skipped: ${ids.length - registered.length} of the ${ids.length} demo compounds are not registered (the compounds step loads them).`);
+    return { runs: 0, accepted: 0 };
+  }
   const now = Date.now();
   const day = 24 * 3600 * 1000;
   let accepted = 0;

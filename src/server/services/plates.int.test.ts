@@ -10,7 +10,8 @@ import fs from "node:fs";
 import { execFileSync } from "node:child_process";
 import { and, eq, sql } from "drizzle-orm";
 import { makeWorld, callRoute, type World } from "@/test/harness";
-import { campaignRow, smallExport, smallMap } from "@/test/plates";
+import { campaignRow, registryIds, smallExport, smallMap } from "@/test/plates";
+import { ensureCompoundsRegistered } from "@/test/compounds";
 import { db } from "@/server/db/client";
 import { auditLog, plateMaps, plateRuns, plateWellMasks, wellReadings } from "@/server/db/schema";
 import { getObject } from "@/server/storage/s3";
@@ -33,6 +34,8 @@ const truth = JSON.parse(fs.readFileSync(`${dir}/truth.json`, "utf8")) as Truth;
 let w: World;
 beforeAll(async () => {
   w = await makeWorld();
+  // The fixture plate maps used here name INH-000001 … INH-000064.
+  await ensureCompoundsRegistered(registryIds(64));
 });
 
 const sha = (b: Uint8Array) => crypto.createHash("sha256").update(b).digest("hex");
@@ -119,6 +122,15 @@ describe("plate maps", () => {
     const r = await postMap("Bad compound", 96, new TextEncoder().encode(csv));
     expect(r.status).toBe(400);
     expect(r.json).toMatchObject({ error: 'well C5: compound "ABC-5" is not a registry ID (expected e.g. INH-000123)', details: [{ well: "C5" }] });
+    expect(await counts()).toEqual(before);
+  });
+
+  it("refuses a compound that is not in the compound registry, naming the first well that uses it", async () => {
+    const csv = plateMapToCsv(smallMap()).replace("C5,sample,INH-000005", "C5,sample,INH-987654").replace("C6,sample,INH-000006", "C6,sample,INH-987654");
+    const before = await counts();
+    const r = await postMap("Unregistered compound", 96, new TextEncoder().encode(csv));
+    expect(r.status).toBe(400);
+    expect(r.json).toMatchObject({ error: "well C5: compound INH-987654 is not in the compound registry; register it first", details: [{ well: "C5" }] });
     expect(await counts()).toEqual(before);
   });
 

@@ -1,8 +1,8 @@
 import "server-only";
 import crypto from "node:crypto";
-import { and, asc, desc, eq, isNull, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { db, type Tx } from "@/server/db/client";
-import { campaigns, plateMaps, plateRuns, plateWellMasks, users, wellReadings } from "@/server/db/schema";
+import { campaigns, compounds, plateMaps, plateRuns, plateWellMasks, users, wellReadings } from "@/server/db/schema";
 import { AppError, type ErrorDetail } from "@/server/errors";
 import { deleteObject, getObject, putObject } from "@/server/storage/s3";
 import { env } from "@/env";
@@ -45,13 +45,25 @@ const escapeRe = (s: string) => s.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
 /** Registry IDs as the compound registry writes them: the prefix and six digits (INH-000123). */
 export const registryIdRe = new RegExp(`^${escapeRe(env.REGISTRY_PREFIX)}\\d{6}$`);
 
-function compoundIssues(map: PlateMap): PlateIssue[] {
+/**
+ * Every compound on a plate map must be a registry ID (format) of a registered compound
+ * (the compounds table of the registry). Problems name the well; an ID missing from the registry
+ * is reported once per ID with the first well that uses it.
+ */
+async function compoundIssues(map: PlateMap): Promise<PlateIssue[]> {
   const out: PlateIssue[] = [];
+  const firstWell = new Map<string, string>();
   for (const w of map.wells) {
     if (w.compound === undefined) continue;
     if (!registryIdRe.test(w.compound)) out.push(issue({ well: w.well }, `compound "${w.compound.slice(0, 40)}" is not a registry ID (expected e.g. ${env.REGISTRY_PREFIX}000123)`));
+    else if (!firstWell.has(w.compound)) firstWell.set(w.compound, w.well);
   }
-  return out;
+  if (firstWell.size > 0) {
+    const ids = [...firstWell.keys()];
+    const found = new Set((await db.select({ id: compounds.registryId }).from(compounds).where(inArray(compounds.registryId, ids))).map((r) => r.id));
+    for (const id of ids) if (!found.has(id)) out.push(issue({ well: firstWell.get(id)! }, `compound ${id} is not in the compound registry; register it first`));
+  }
+  return out.slice(0, 50);
 }
 
 // ---------------------------------------------------------------- plate maps
@@ -79,7 +91,7 @@ function checkName(name: string): string {
 /** Save a new plate map (already validated by the plate library); compound IDs are checked here. */
 export async function createPlateMap(actor: Actor, campaignId: string, input: PlateMapInput): Promise<{ id: string }> {
   const name = checkName(input.name);
-  const bad = compoundIssues(input.map);
+  const bad = await compoundIssues(input.map);
   if (bad.length > 0) throw issuesError(bad);
   const counts = countRoles(input.map);
   try {
@@ -112,7 +124,7 @@ export async function createPlateMap(actor: Actor, campaignId: string, input: Pl
 /** Change a plate map that no run has used yet (a used map is kept as it was: save a copy instead). */
 export async function updatePlateMap(actor: Actor, campaignId: string, mapId: string, input: PlateMapInput): Promise<{ id: string }> {
   const name = checkName(input.name);
-  const bad = compoundIssues(input.map);
+  const bad = await compoundIssues(input.map);
   if (bad.length > 0) throw issuesError(bad);
   const counts = countRoles(input.map);
   try {
