@@ -2,7 +2,7 @@
 // each is called here as every kind of person (signed out, non-member, each role, admin).
 // Reference: the roles table in the product design (docs/product.md); "not a member → 404,
 // not 403" from the accounts issue.
-import { describe, it, expect, beforeAll } from "vitest";
+import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import fs from "node:fs";
 import path from "node:path";
 import { registry, allActors, type RegistryActor } from "./registry";
@@ -26,6 +26,22 @@ import * as plateActions from "@/app/(workspace)/campaigns/[campaignId]/plates/a
 import { platesWorld, smallExport, smallMap } from "@/test/plates";
 import { maskWell } from "@/server/services/plates";
 import { plateMapToCsv } from "@/lib/plates";
+import * as compoundsRoute from "@/app/api/compounds/route";
+import * as compoundRoute from "@/app/api/compounds/[registryId]/route";
+import * as compoundImportsRoute from "@/app/api/compound-imports/route";
+import * as compoundImportRoute from "@/app/api/compound-imports/[importId]/route";
+import * as compoundImportCommit from "@/app/api/compound-imports/[importId]/commit/route";
+import * as compoundImportReport from "@/app/api/compound-imports/[importId]/report/route";
+import * as compoundActions from "@/app/(workspace)/compounds/actions";
+import { compoundsWorld, importFile, uniqueSmiles } from "@/test/compounds";
+import { addToLibrary } from "@/server/services/compounds";
+import * as experimentsRoute from "@/app/api/campaigns/[campaignId]/experiments/route";
+import * as analysesRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/route";
+import * as analysisRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route";
+import * as resultsRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route";
+import * as analysisActions from "@/app/(workspace)/campaigns/[campaignId]/analyses/actions";
+import { analysesWorld } from "@/test/analyses";
+import { stopBoss } from "@/server/jobs/boss";
 
 type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
 
@@ -126,6 +142,99 @@ const invokers: Record<string, Invoke> = {
     const { runId } = await platesWorld(w);
     return deniedAction(await callAction(plateActions.decideRunAction, { campaignId: w.campaignId, runId, decision: "rejected", reason: "role-matrix check" }, userOf(w, actor)));
   },
+  // Compounds: allowed callers get 200/201/202 (or 409 for a repeat), refused ones 401/403.
+  "src/app/api/compounds/route.ts#GET": route(compoundsRoute.GET, "/api/compounds?q=INH&limit=5"),
+  "src/app/api/compounds/route.ts#POST": async (actor, w) =>
+    deniedRoute((await callRoute(compoundsRoute.POST, { user: userOf(w, actor), method: "POST", path: "/api/compounds", body: { smiles: uniqueSmiles(), name: `Matrix ${actor}` } })).status),
+  "src/app/api/compounds/[registryId]/route.ts#GET": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    return deniedRoute((await callRoute(compoundRoute.GET, { user: userOf(w, actor), path: `/api/compounds/${registryId}`, params: { registryId } })).status);
+  },
+  "src/app/api/compound-imports/route.ts#POST": async (actor, w) => {
+    const form = new FormData();
+    form.append("file", new File([`smiles,name\n${uniqueSmiles()},M-${actor}\n`], `matrix-${actor}.csv`, { type: "text/csv" }));
+    return deniedRoute((await callRoute(compoundImportsRoute.POST, { user: userOf(w, actor), method: "POST", path: "/api/compound-imports", body: form })).status);
+  },
+  "src/app/api/compound-imports/[importId]/route.ts#GET": async (actor, w) => {
+    const { importId } = await compoundsWorld(w);
+    return deniedRoute((await callRoute(compoundImportRoute.GET, { user: userOf(w, actor), path: `/api/compound-imports/${importId}`, params: { importId } })).status);
+  },
+  "src/app/api/compound-imports/[importId]/commit/route.ts#POST": async (actor, w) => {
+    const importId = await importFile(w, `commit-${actor}.csv`, `smiles,name\n${uniqueSmiles()},C-${actor}\n`);
+    return deniedRoute((await callRoute(compoundImportCommit.POST, { user: userOf(w, actor), method: "POST", path: `/api/compound-imports/${importId}/commit`, params: { importId }, body: { mode: "valid_only" } })).status);
+  },
+  "src/app/api/compound-imports/[importId]/report/route.ts#GET": async (actor, w) => {
+    const { importId } = await compoundsWorld(w);
+    return deniedRoute((await callRoute(compoundImportReport.GET, { user: userOf(w, actor), path: `/api/compound-imports/${importId}/report`, params: { importId } })).status);
+  },
+  "src/app/(workspace)/compounds/actions.ts#registerCompoundAction": async (actor, w) =>
+    deniedAction(await callAction(compoundActions.registerCompoundAction, { smiles: uniqueSmiles(), name: `Matrix form ${actor}`, "batch.supplier": "Invented Supplier" }, userOf(w, actor))),
+  "src/app/(workspace)/compounds/actions.ts#addBatchAction": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    return deniedAction(await callAction(compoundActions.addBatchAction, { registryId, "batch.supplier": `Supplier ${actor}`, "batch.purityPct": "97" }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/compounds/actions.ts#addStockAction": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    return deniedAction(await callAction(compoundActions.addStockAction, { registryId, batchNumber: "1", "stock.concentrationMm": "10", "stock.solvent": "DMSO" }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/compounds/actions.ts#editCompoundAction": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    return deniedAction(await callAction(compoundActions.editCompoundAction, { registryId, name: `Renamed by ${actor} (invented)` }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/compounds/actions.ts#createLibraryAction": async (actor, w) =>
+    deniedAction(await callAction(compoundActions.createLibraryAction, { name: `Matrix library ${actor} ${w.tag}` }, userOf(w, actor))),
+  "src/app/(workspace)/compounds/actions.ts#addToLibraryAction": async (actor, w) => {
+    const { registryId, libraryId } = await compoundsWorld(w);
+    return deniedAction(await callAction(compoundActions.addToLibraryAction, { libraryId, ids: registryId }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/compounds/actions.ts#removeFromLibraryAction": async (actor, w) => {
+    const { registryId, libraryId } = await compoundsWorld(w);
+    await addToLibrary(w.people.admin, libraryId, registryId);
+    return deniedAction(await callAction(compoundActions.removeFromLibraryAction, { libraryId, registryId }, userOf(w, actor)));
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/route.ts#GET": async (actor, w) =>
+    deniedRoute((await callRoute(experimentsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/experiments`, params: { campaignId: w.campaignId } })).status),
+  "src/app/api/campaigns/[campaignId]/experiments/route.ts#POST": async (actor, w) => {
+    const { runId } = await analysesWorld(w);
+    const r = await callRoute(experimentsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/experiments`, params: { campaignId: w.campaignId }, body: { name: `E ${actor}`, kind: "single-dose", runIds: [runId] } });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/route.ts#POST": async (actor, w) => {
+    const { experimentId } = await analysesWorld(w);
+    const r = await callRoute(analysesRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}/analyses`, params: { campaignId: w.campaignId, experimentId } });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route.ts#GET": async (actor, w) => {
+    const { experimentId, analysisId } = await analysesWorld(w);
+    const path = `/api/campaigns/${w.campaignId}/experiments/${experimentId}/analyses/${analysisId}`;
+    return deniedRoute((await callRoute(analysisRoute.GET, { user: userOf(w, actor), path, params: { campaignId: w.campaignId, experimentId, analysisId } })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route.ts#GET": async (actor, w) => {
+    const { experimentId } = await analysesWorld(w);
+    const path = `/api/campaigns/${w.campaignId}/experiments/${experimentId}/results`;
+    return deniedRoute((await callRoute(resultsRoute.GET, { user: userOf(w, actor), path, params: { campaignId: w.campaignId, experimentId } })).status);
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#createExperimentAction": async (actor, w) => {
+    const { runId } = await analysesWorld(w);
+    return deniedAction(await callAction(analysisActions.createExperimentAction, { campaignId: w.campaignId, name: `Form ${actor}`, kind: "single-dose", runIds: runId }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#startAnalysisAction": async (actor, w) => {
+    const { experimentId } = await analysesWorld(w);
+    return deniedAction(await callAction(analysisActions.startAnalysisAction, { campaignId: w.campaignId, experimentId }, userOf(w, actor)));
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#overrideMechanismAction": async (actor, w) => {
+    // A single-dose experiment has no model choice: allowed callers reach that check (400).
+    const { experimentId } = await analysesWorld(w);
+    return deniedAction(
+      await callAction(analysisActions.overrideMechanismAction, { campaignId: w.campaignId, experimentId, compoundId: "INH-000001", model: "mixed", reason: "matrix test reason" }, userOf(w, actor)),
+    );
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#planMechanismPlateAction": async (actor, w) => {
+    await analysesWorld(w);
+    return deniedAction(
+      await callAction(analysisActions.planMechanismPlateAction, { campaignId: w.campaignId, compoundId: "INH-000001", ic50Um: "2", kmUm: "20", format: "384", name: `Plan ${actor} ${w.tag}` }, userOf(w, actor)),
+    );
+  },
 };
 
 function walk(dir: string, out: string[] = []): string[] {
@@ -165,6 +274,7 @@ describe("route and action registry", () => {
 });
 
 describe("role matrix", () => {
+  afterAll(() => stopBoss());
   let world: World;
   beforeAll(async () => {
     world = await makeWorld();

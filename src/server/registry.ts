@@ -48,6 +48,31 @@ export const registry: RegistryEntry[] = [
   { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#maskWellAction", what: "mask a well with a reason", allow: ["assay", "admin"] },
   { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#unmaskWellAction", what: "unmask a well with a reason", allow: ["assay", "admin"] },
   { id: "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#decideRunAction", what: "accept or reject a run's QC", allow: ["assay", "admin"] },
+  // Compounds (issue 5): not campaign-scoped; everyone signed in reads, chemists (in any campaign) and admins write
+  { id: "src/app/api/compounds/route.ts#GET", what: "search compounds (ID, name, alias, substructure)", allow: signedIn },
+  { id: "src/app/api/compounds/route.ts#POST", what: "register a compound", allow: ["chemist", "admin"] },
+  { id: "src/app/api/compounds/[registryId]/route.ts#GET", what: "a compound with batches, stocks, libraries", allow: signedIn },
+  { id: "src/app/api/compound-imports/route.ts#POST", what: "upload a bulk-import file (stored, then prepared)", allow: ["chemist", "admin"] },
+  { id: "src/app/api/compound-imports/[importId]/route.ts#GET", what: "an import's progress and preview", allow: signedIn },
+  { id: "src/app/api/compound-imports/[importId]/commit/route.ts#POST", what: "register an import (chosen mode, one transaction)", allow: ["chemist", "admin"] },
+  { id: "src/app/api/compound-imports/[importId]/report/route.ts#GET", what: "download an import's report (CSV)", allow: signedIn },
+  { id: "src/app/(workspace)/compounds/actions.ts#registerCompoundAction", what: "register a compound from the form", allow: ["chemist", "admin"] },
+  { id: "src/app/(workspace)/compounds/actions.ts#addBatchAction", what: "add a batch to a compound", allow: ["chemist", "admin"] },
+  { id: "src/app/(workspace)/compounds/actions.ts#addStockAction", what: "record a stock solution", allow: ["chemist", "admin"] },
+  { id: "src/app/(workspace)/compounds/actions.ts#editCompoundAction", what: "edit names or the structure (audited)", allow: ["chemist", "admin"] },
+  { id: "src/app/(workspace)/compounds/actions.ts#createLibraryAction", what: "create a library (optionally from pasted IDs)", allow: ["chemist", "admin"] },
+  { id: "src/app/(workspace)/compounds/actions.ts#addToLibraryAction", what: "add compounds to a library by ID", allow: ["chemist", "admin"] },
+  { id: "src/app/(workspace)/compounds/actions.ts#removeFromLibraryAction", what: "remove a compound from a library", allow: ["chemist", "admin"] },
+  // Analyses (issue 7): members read; assay scientists, leads and admins run analyses
+  { id: "src/app/api/campaigns/[campaignId]/experiments/route.ts#GET", what: "list experiments with their latest analysis", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/experiments/route.ts#POST", what: "create an experiment from plate runs", allow: ["assay", "lead", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/route.ts#POST", what: "start an analysis (background)", allow: ["assay", "lead", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route.ts#GET", what: "an analysis's status, progress and provenance", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route.ts#GET", what: "current results, one per compound", allow: members },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#createExperimentAction", what: "create an experiment from the form", allow: ["assay", "lead", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#startAnalysisAction", what: "start an analysis from the page", allow: ["assay", "lead", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#overrideMechanismAction", what: "override a mechanism call with a reason (audited)", allow: ["assay", "lead", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#planMechanismPlateAction", what: "turn a mechanism-study plan into a plate map", allow: ["assay", "admin"] },
 ];
 
 export const registryGroups = { everyone, signedIn, members };

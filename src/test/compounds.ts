@@ -2,7 +2,12 @@
 // import per world, stored through the real services. The structures are small INVENTED
 // variations (alkyl chains on a phenol ether) chosen only to be distinct; they are not reference data.
 import crypto from "node:crypto";
-import { registerCompound, createLibrary } from "@/server/services/compounds";
+import { eq, inArray, sql } from "drizzle-orm";
+import { db } from "@/server/db/client";
+import { compounds } from "@/server/db/schema";
+import { env } from "@/env";
+import { demoCompounds } from "@/lib/chem/demo-compounds";
+import { registerCompound, createLibrary, formatRegistryId, insertCompounds, prepareStructure, type PreparedCompound } from "@/server/services/compounds";
 import { startImport } from "@/server/services/compound-imports";
 import type { World } from "./harness";
 
@@ -38,4 +43,44 @@ export async function importFile(w: World, name: string, text: string): Promise<
   const { job, done } = await startImport(w.people.admin, { fileName: name, contentType: "text/csv", bytes: new TextEncoder().encode(text) });
   await done;
   return job.id;
+}
+
+/**
+ * Makes sure the given registry IDs (`INH-000001`…, as plate maps in other tests use them) exist,
+ * registering INVENTED demo structures (src/lib/chem/demo-compounds.ts) through the registry's
+ * own sequence until the highest wanted number is reached. A number the sequence skipped (a
+ * rolled-back registration) is filled directly, which is safe because the sequence is past it.
+ */
+export async function ensureCompoundsRegistered(ids: string[]): Promise<void> {
+  const prefix = env.REGISTRY_PREFIX;
+  const wanted = [...new Set(ids)].map((id) => {
+    if (!id.startsWith(prefix)) throw new Error(`ensureCompoundsRegistered: ${id} does not start with ${prefix}`);
+    return Number(id.slice(prefix.length));
+  });
+  if (wanted.length === 0) return;
+  const max = Math.max(...wanted);
+  await db.transaction(async (tx) => {
+    // One at a time across test files: the sequence and the unique structure keys are shared.
+    await tx.execute(sql`select pg_advisory_xact_lock(5005)`);
+    const seqRow = await tx.execute<{ last_value: string; is_called: boolean }>(sql`select last_value, is_called from compound_number_seq`);
+    const last = seqRow[0]!.is_called ? Number(seqRow[0]!.last_value) : 0;
+    const taken = new Set((await tx.select({ key: compounds.structureKey }).from(compounds)).map((r) => r.key));
+    const pool: PreparedCompound[] = [];
+    for (const d of demoCompounds()) {
+      if (pool.length >= max) break;
+      const p = prepareStructure({ smiles: d.smiles });
+      if (taken.has(p.properties.structureKey)) continue;
+      taken.add(p.properties.structureKey);
+      pool.push({ properties: p.properties, fingerprintBits: p.fingerprintBits, name: `${d.name} (invented, test)`, aliases: [], batches: [], stocks: [] });
+    }
+    if (max > last) await insertCompounds(tx, null, pool.splice(0, max - last));
+    const present = new Set((await tx.select({ n: compounds.registryNumber }).from(compounds).where(inArray(compounds.registryNumber, wanted))).map((r) => r.n));
+    for (const n of wanted.filter((x) => !present.has(x))) {
+      const p = pool.shift();
+      if (!p) throw new Error("ensureCompoundsRegistered: ran out of invented structures");
+      const [row] = await insertCompounds(tx, null, [p]);
+      // Renumber the row just made to the skipped number.
+      await tx.update(compounds).set({ registryNumber: n, registryId: formatRegistryId(n) }).where(eq(compounds.id, row!.id));
+    }
+  });
 }

@@ -1,0 +1,1 @@
+export { importIdParam } from "../schema";

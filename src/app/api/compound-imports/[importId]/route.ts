@@ -1,0 +1,13 @@
+import { requireUser } from "@/server/auth/guard";
+import { json, route } from "@/server/http";
+import { getImport, importView } from "@/server/services/compound-imports";
+import { importIdParam } from "./schema";
+
+export const dynamic = "force-dynamic";
+
+/** An import job: status, progress, preview (per-record issues) and, once committed, the outcome. */
+export const GET = route<{ importId: string }>(async (_req, params) => {
+  await requireUser();
+  const { importId } = importIdParam.parse(params);
+  return json(importView(await getImport(importId)));
+});
