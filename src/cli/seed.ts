@@ -4,6 +4,7 @@ import { sql } from "drizzle-orm";
 import { db, sqlClient } from "@/server/db/client";
 import { env } from "@/env";
 import { seedAccounts } from "@/server/seed/accounts";
+import { seedCompounds } from "@/server/seed/compounds";
 import { seedPlates } from "@/server/seed/plates";
 
 const ifEmpty = process.argv.includes("--if-empty");
@@ -28,6 +29,9 @@ async function main() {
   const t0 = Date.now();
   const ctx = await seedAccounts(db);
   console.log(`[seed] invented demo accounts and 2 campaigns loaded (${Date.now() - t0} ms)`);
+  const tc = Date.now();
+  const comp = await seedCompounds(db, ctx);
+  console.log(`[seed] invented demo compounds: ${comp.compounds} registered with ${comp.batches} batches and ${comp.stocks} stock solutions (${Date.now() - tc} ms)`);
   const t1 = Date.now();
   const plates = await seedPlates(db, ctx);
   console.log(`[seed] invented demo plates: ${plates.runs} runs stored with QC, ${plates.accepted} accepted (${Date.now() - t1} ms)`);
