@@ -56,6 +56,7 @@ export function RunView({
   canWrite: boolean;
 }) {
   const [selected, setSelected] = useState<string | null>(null);
+  const [goError, setGoError] = useState<string | null>(null);
   const byName = useMemo(() => new Map(wells.map((w) => [w.well, w])), [wells]);
   const label = (w: RunWell) => (w.compound ? `${w.compound}${w.concentrationUm !== null ? ` @ ${w.concentrationUm} µM` : ""}` : "");
   const signalUnit = readout === "kinetic" ? "signal/s" : "signal";
@@ -87,6 +88,22 @@ export function RunView({
           <PlateHeatmap rows={rows} columns={columns} wells={inh} title="Inhibition (%), against this run's controls" unit="%" colorscale={inhibitionScale} zmin={-50} zmax={150} selected={selected} onSelect={setSelected} height={height} />
         </div>
       </div>
+      <form
+        className="flex items-center gap-2 text-xs"
+        onSubmit={(e) => {
+          e.preventDefault();
+          const v = String(new FormData(e.currentTarget).get("go") ?? "").trim().toUpperCase().replace(/^([A-Z]+)0+(\d)/, "$1$2");
+          setSelected(byName.has(v) ? v : null);
+          setGoError(byName.has(v) ? null : `${v.slice(0, 6) || "That"} is not a well read on this plate.`);
+        }}
+      >
+        <label htmlFor="go-well" className="text-ink-muted">
+          Well
+        </label>
+        <input id="go-well" name="go" className="input w-20 py-0.5 font-mono" placeholder="B3" maxLength={6} />
+        <button className="btn-quiet py-0.5">Inspect</button>
+        {goError ? <span className="text-fail">{goError}</span> : null}
+      </form>
       <section className="card px-3 py-2" aria-label="Well inspector">
         {sel ? <WellInspector key={sel.well} w={sel} readout={readout} campaignId={campaignId} runId={runId} maskReason={openMasks[sel.well]} canWrite={canWrite} /> : <p className="text-sm text-ink-muted">No well selected.</p>}
       </section>
