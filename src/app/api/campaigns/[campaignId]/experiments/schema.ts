@@ -1,0 +1,1 @@
+export { createExperimentSchema as postBody } from "@/lib/validation/experiments";

@@ -1,0 +1,29 @@
+import { z } from "zod";
+
+const pos = z.number().finite().positive();
+export const experimentSettingsSchema = z
+  .object({
+    hitRule: z
+      .discriminatedUnion("kind", [
+        z.object({ kind: z.literal("threshold"), thresholdPct: z.number().min(0).max(100) }),
+        z.object({ kind: z.literal("sd"), k: z.number().min(0).max(10) }),
+        z.object({ kind: z.literal("robust"), k: z.number().min(0).max(10) }),
+      ])
+      .optional(),
+    weighting: z.enum(["none", "relative"]).optional(),
+    fixTopPct: z.number().finite().nullable().optional(),
+    fixBottomPct: z.number().finite().nullable().optional(),
+    substrateUm: pos.nullable().optional(),
+    kmUm: pos.nullable().optional(),
+    enzymeNm: pos.nullable().optional(),
+  })
+  .strict();
+
+export const experimentKinds = ["single-dose", "dose-response", "mechanism"] as const;
+
+export const createExperimentSchema = z.object({
+  name: z.string().trim().min(1, "Name the experiment.").max(120),
+  kind: z.enum(experimentKinds),
+  runIds: z.array(z.string().uuid("Each run id must be a UUID.")).min(1, "Choose at least one plate run.").max(2000),
+  settings: experimentSettingsSchema.optional(),
+});
