@@ -88,7 +88,15 @@ const ports = { pg: 54339 + slot * 100, s3: 4579 + slot * 100, mail: 4035 + slot
 const appPort = Number(process.env.TEST_APP_PORT ?? 3100 + slot * 100);
 let stack;
 let app;
+let worker;
 async function cleanup() {
+  if (worker && worker.exitCode === null) {
+    worker.kill("SIGTERM");
+    await new Promise((r) => {
+      const t = setTimeout(() => (worker.kill("SIGKILL"), r()), 8000);
+      worker.once("exit", () => (clearTimeout(t), r()));
+    });
+  }
   if (app && app.exitCode === null) {
     app.kill("SIGTERM");
     await new Promise((r) => {
@@ -140,6 +148,12 @@ try {
       app = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(appPort)], {
         cwd: root,
         env: { ...env, NODE_ENV: "production", DEMO_DATA: "1" },
+        stdio: ["ignore", "inherit", "inherit"],
+      });
+      // The background worker runs analyses started from the UI, as under `npm start`.
+      worker = spawn(process.execPath, ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", "src/cli/worker.ts"], {
+        cwd: root,
+        env: { ...env, NODE_ENV: "production" },
         stdio: ["ignore", "inherit", "inherit"],
       });
       await waitForHttp(`${appUrl}/api/health`, 90_000);

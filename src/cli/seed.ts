@@ -6,6 +6,7 @@ import { env } from "@/env";
 import { seedAccounts } from "@/server/seed/accounts";
 import { seedCompounds } from "@/server/seed/compounds";
 import { seedPlates } from "@/server/seed/plates";
+import { seedAnalyses } from "@/server/seed/analyses";
 
 const ifEmpty = process.argv.includes("--if-empty");
 
@@ -35,6 +36,9 @@ async function main() {
   const t1 = Date.now();
   const plates = await seedPlates(db, ctx);
   console.log(`[seed] invented demo plates: ${plates.runs} runs stored with QC, ${plates.accepted} accepted (${Date.now() - t1} ms)`);
+  const t2 = Date.now();
+  const an = await seedAnalyses(db, ctx);
+  console.log(`[seed] invented demo analyses: ${an.experiments} experiments, ${an.results} compound results (${Date.now() - t2} ms)`);
 }
 
 main()
