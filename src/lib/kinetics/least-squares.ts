@@ -72,6 +72,7 @@ interface Workspace {
   m: Float64Array;
   delta: Float64Array;
   rhs: Float64Array;
+  scale: Float64Array;
   free: Int32Array;
 }
 
@@ -97,6 +98,7 @@ function workspace(n: number, p: number): Workspace {
       m: new Float64Array(p * p),
       delta: new Float64Array(p),
       rhs: new Float64Array(p),
+      scale: new Float64Array(p),
       free: new Int32Array(p),
     };
     if (workspaces.size > 64) workspaces.clear();
@@ -144,11 +146,13 @@ function gradientSmall(a: Float64Array, g: Float64Array, theta: Float64Array, p:
 
 /**
  * Damped Gauss–Newton step on the free parameters (those not held at a bound by an outward
- * gradient): solves (A_ff + λ·diag(A_ff))·δ_f = g_f into `delta` (zero elsewhere). Returns the
+ * gradient): solves (A_ff + λ·diag(A_ff))·δ_f = g_f into `delta` (zero elsewhere). The system is
+ * solved in Jacobi-scaled variables (unit diagonal), so parameters whose curvatures differ by many
+ * orders of magnitude — concentrations in M next to rates in µM/s — are treated alike. Returns the
  * number of free parameters, or −1 when the damped matrix is not positive definite.
  */
-function dampedStep(ws: Workspace, theta: Float64Array, lambda: number, maxDiag: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): number {
-  const { a, g, m, rhs, delta, free, p } = ws;
+function dampedStep(ws: Workspace, theta: Float64Array, lambda: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): number {
+  const { a, g, m, rhs, delta, free, scale, p } = ws;
   let nf = 0;
   for (let j = 0; j < p; j++) {
     const blockedLow = lower !== undefined && theta[j]! <= lower[j]! && g[j]! <= 0;
@@ -157,16 +161,22 @@ function dampedStep(ws: Workspace, theta: Float64Array, lambda: number, maxDiag:
   }
   if (nf === 0) return 0;
   for (let s = 0; s < nf; s++) {
+    const d = a[free[s]! * p + free[s]!]!;
+    // A parameter with no effect (zero column) keeps scale 1: its step is then 0 (g = 0).
+    scale[s] = d > 0 && Number.isFinite(d) ? 1 / Math.sqrt(d) : 1;
+  }
+  for (let s = 0; s < nf; s++) {
     const js = free[s]!;
-    for (let t = 0; t < nf; t++) m[s * nf + t] = a[js * p + free[t]!]!;
-    const d = Math.max(a[js * p + js]!, 1e-12 * maxDiag, 1e-300);
-    m[s * nf + s] = m[s * nf + s]! + lambda * d;
-    rhs[s] = g[js]!;
+    for (let t = 0; t < nf; t++) m[s * nf + t] = a[js * p + free[t]!]! * scale[s]! * scale[t]!;
+    const d = a[js * p + js]!;
+    // Scaled diagonal is 1 (or 0 for a dead parameter): Marquardt damping adds λ, at least λ·1e-12.
+    m[s * nf + s] = m[s * nf + s]! + lambda * (d > 0 ? 1 : 1e-12) + (d > 0 ? 0 : 1e-300);
+    rhs[s] = g[js]! * scale[s]!;
   }
   if (!choleskyInPlace(m, nf)) return -1;
   choleskySolveInPlace(m, nf, rhs);
   delta.fill(0);
-  for (let s = 0; s < nf; s++) delta[free[s]!] = rhs[s]!;
+  for (let s = 0; s < nf; s++) delta[free[s]!] = rhs[s]! * scale[s]!;
   return nf;
 }
 
@@ -198,12 +208,6 @@ function predictedReduction(ws: Workspace): number {
     dad += delta[j]! * ad;
   }
   return dg - 0.5 * dad;
-}
-
-function largestDiagonal(a: Float64Array, p: number, previous: number): number {
-  let m = previous;
-  for (let j = 0; j < p; j++) m = Math.max(m, a[j * p + j]!);
-  return m;
 }
 
 /**
@@ -243,7 +247,6 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
     return { theta, rss, iterations: 0, converged: false, reason: "non-finite", inverseJtJ: null, atBound: [] };
   }
   normalEquations(jac, r, n, p, a, g);
-  let maxDiag = largestDiagonal(a, p, 0);
   let lambda = 1e-3;
   let nu = 2;
   let iterations = 0;
@@ -260,7 +263,7 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
 
   while (!converged && iterations < maxIterations) {
     iterations++;
-    const nf = dampedStep(ws, theta, lambda, maxDiag, lower, upper);
+    const nf = dampedStep(ws, theta, lambda, lower, upper);
     if (nf === 0) {
       reason = "gtol";
       converged = true;
@@ -296,7 +299,6 @@ export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLik
       jacTrial = jSwap;
       rss = rssTrial;
       normalEquations(jac, r, n, p, a, g);
-      maxDiag = largestDiagonal(a, p, maxDiag);
       const f = 2 * rho - 1;
       lambda *= Math.max(1 / 3, 1 - f * f * f);
       nu = 2;

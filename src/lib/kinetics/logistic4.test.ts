@@ -23,6 +23,13 @@ describe("4PL: R datasets::DNase run 1 (data src; fit values science.md [calc, S
     expect(fit.flags).not.toContain("ci-wider-than-10-fold");
   });
 
+  it("does not depend on the units (concentration ×1e-9, response ×1e5)", () => {
+    const f = fitLogistic4(DNASE_RUN1.conc.map((x) => x * 1e-9), DNASE_RUN1.density.map((y) => y * 1e5));
+    expect(f.ic50! / 1e-9).toBeCloseTo(4.515, 3);
+    expect(f.hill!).toBeCloseTo(0.94111, 5);
+    expect(f.top! / 1e5).toBeCloseTo(2.37724, 5);
+  });
+
   it("F-test 3-parameter (bottom fixed at 0) vs 4-parameter: F 0.2098, p 0.6551", () => {
     const three = fitLogistic4(DNASE_RUN1.conc, DNASE_RUN1.density, { fixedBottom: 0 });
     expect(three.nParams).toBe(3);

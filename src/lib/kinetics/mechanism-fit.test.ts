@@ -38,6 +38,18 @@ describe("mechanism: isdals `inhibitor` matrix (Ekstrøm & Sørensen, R package 
     expect(JSON.stringify(r)).not.toMatch(/NaN/);
   });
 
+  it("does not depend on the units (concentrations ×1e-9 or ×1e3, rates ×1e4 or ×1e-9)", () => {
+    for (const [cs, rs] of [[1e-9, 1e4], [1e3, 1e-9]] as const) {
+      const scaled = fitMechanism(ISDALS_INHIBITOR.map((p) => ({ substrate: p.substrate * cs, inhibitor: p.inhibitor * cs, rate: p.rate * rs })));
+      expect(scaled.best).toBe("competitive");
+      expect(scaled.label).toBe("ambiguous");
+      expect(scaled.models.competitive.kic! / cs).toBeCloseTo(34.845, 3);
+      expect(scaled.models.competitive.vmax / rs).toBeCloseTo(2.9383, 4);
+      expect(scaled.models.competitive.fTestVsMixed!.p).toBeCloseTo(0.0956, 4);
+      expect(scaled.models.mixed.aicc - scaled.models.competitive.aicc).toBeCloseTo(-0.46, 2);
+    }
+  });
+
   it("is deterministic (same input, identical output)", () => {
     expect(JSON.stringify(fitMechanism(ISDALS_INHIBITOR))).toBe(JSON.stringify(r));
   });
