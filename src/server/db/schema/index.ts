@@ -3,3 +3,4 @@ export * from "./audit";
 export * from "./plates";
 export * from "./analyses";
 export * from "./compounds";
+export * from "./digest";
