@@ -21,7 +21,7 @@ import * as plateRunsRoute from "@/app/api/campaigns/[campaignId]/plate-runs/rou
 import * as previewRoute from "@/app/api/campaigns/[campaignId]/plate-runs/preview/route";
 import * as runRoute from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/route";
 import * as fileRoute from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/file/route";
-import { createPlateMap, decideRun, maskWell, s3KeyFor, unmaskWell, uploadRun } from "./plates";
+import { createPlateMap, decideRun, maskWell, s3KeyFor, unmaskWell, updatePlateMap, uploadRun } from "./plates";
 import { plateMapToCsv } from "@/lib/plates";
 
 const dir = "fixtures/plates";
@@ -132,6 +132,19 @@ describe("plate maps", () => {
     expect(r.status).toBe(400);
     expect(r.json).toMatchObject({ error: "well C5: compound INH-987654 is not in the compound registry; register it first", details: [{ well: "C5" }] });
     expect(await counts()).toEqual(before);
+  });
+
+  it("edits a plate map no run has used; a used map is kept as it was (409)", async () => {
+    const { id } = await createPlateMap(w.people.assay, w.campaignId, { name: "Editable", map: smallMap() });
+    const changed = smallMap(true);
+    await updatePlateMap(w.people.assay, w.campaignId, id, { name: "Editable (swapped)", map: changed });
+    const [row] = await db.select().from(plateMaps).where(eq(plateMaps.id, id));
+    expect(row!.name).toBe("Editable (swapped)");
+    expect(row!.wells.find((x) => x.well === "A1")!.role).toBe("full");
+    await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: id, fileName: "editable.csv", contentType: "text/csv", bytes: smallExport(31) });
+    const e = (await updatePlateMap(w.people.assay, w.campaignId, id, { name: "Editable again", map: smallMap() }).catch((x: unknown) => x)) as AppError;
+    expect(e.status).toBe(409);
+    expect(e.message).toBe("Plate runs were uploaded against this plate map, so it is kept as it was. Save your changes as a new plate map.");
   });
 
   it("refuses a second plate map with the same name (409)", async () => {
