@@ -4,3 +4,4 @@ export * from "./plates";
 export * from "./analyses";
 export * from "./compounds";
 export * from "./digest";
+export * from "./hits";
