@@ -121,12 +121,14 @@ async function prepareJob(id: string): Promise<void> {
       await db.update(compoundImports).set({ status: "failed", error: `${job!.fileName} has ${parsed.totalRecords} records; the limit is ${MAX_IMPORT_RECORDS.toLocaleString("en")}.`, updatedAt: new Date() }).where(eq(compoundImports.id, id));
       return;
     }
-    await db.update(compoundImports).set({ progressTotal: parsed.records.length, progressDone: 0 }).where(eq(compoundImports.id, id));
+    // Progress counts every record of the file; those refused by the form checks are already done.
+    const formRejected = parsed.totalRecords - parsed.records.length;
+    await db.update(compoundImports).set({ progressTotal: parsed.totalRecords, progressDone: formRejected }).where(eq(compoundImports.id, id));
     let lastWrite = 0;
     const prep = await prepareAll(parsed.records, async (done, total) => {
       if (done === total || performance.now() - lastWrite > 400) {
         lastWrite = performance.now();
-        await db.update(compoundImports).set({ progressDone: done, updatedAt: new Date() }).where(eq(compoundImports.id, id));
+        await db.update(compoundImports).set({ progressDone: formRejected + done, updatedAt: new Date() }).where(eq(compoundImports.id, id));
       }
     });
     const issues: ImportIssue[] = [...parsed.issues, ...prep.issues];
@@ -171,7 +173,7 @@ async function prepareJob(id: string): Promise<void> {
       for (let i = 0; i < good.length; i += 1000) {
         await tx.insert(compoundImportRows).values(good.slice(i, i + 1000).map((p) => ({ importId: id, recordNo: p.recordNo, line: p.line, ok: true, data: toPrepared(p) })));
       }
-      await tx.update(compoundImports).set({ status: "ready", preview, progressDone: parsed.records.length, updatedAt: new Date() }).where(eq(compoundImports.id, id));
+      await tx.update(compoundImports).set({ status: "ready", preview, progressDone: parsed.totalRecords, updatedAt: new Date() }).where(eq(compoundImports.id, id));
     });
   } catch (e) {
     const message = e instanceof AppError && e.code !== "internal" ? e.message : "Preparing the file failed on our side; the error has been logged. Try again, or split the file.";
@@ -184,8 +186,20 @@ export async function getImport(id: string): Promise<ImportJob> {
   if (!/^[0-9a-f-]{36}$/i.test(id)) throw new AppError("not_found", "No such import.");
   const [job] = await db.select().from(compoundImports).where(eq(compoundImports.id, id));
   if (!job) throw new AppError("not_found", "No such import.");
+  // Preparation runs in the server process: after a restart an unfinished job would wait forever.
+  if ((job.status === "stored" || job.status === "preparing") && !running.has(id) && Date.now() - job.updatedAt.getTime() > STALE_MS) {
+    const [failed] = await db
+      .update(compoundImports)
+      .set({ status: "failed", error: `Checking ${job.fileName} was interrupted (the server restarted). Upload the file again; nothing was registered.`, updatedAt: new Date() })
+      .where(and(eq(compoundImports.id, id), eq(compoundImports.updatedAt, job.updatedAt)))
+      .returning();
+    return failed ?? job;
+  }
   return job;
 }
+
+/** A job in preparation writes progress at least every few seconds; this much silence means it stopped. */
+const STALE_MS = 120_000;
 
 /** The job as the import page and `GET /api/compound-imports/{id}` show it. */
 export function importView(job: ImportJob, opts: { maxIssues?: number } = {}) {

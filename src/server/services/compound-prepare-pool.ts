@@ -1,6 +1,7 @@
 import "server-only";
 import os from "node:os";
 import path from "node:path";
+import { pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
 import { prepareImport, type PrepareResult, type PreparedRecord } from "@/lib/chem/import-prepare";
 import type { ImportIssue, ImportRecord } from "@/lib/chem/import-types";
@@ -38,7 +39,10 @@ async function inThread(chunks: ImportRecord[][], onChunk: (i: number, r: ChunkR
 
 function startWorker(): Promise<Worker> {
   return new Promise((resolve, reject) => {
-    const w = new Worker(path.join(WORKER_DIR, "boot.mjs"), { workerData: { file: path.join(WORKER_DIR, "compound-prepare.worker.ts") } });
+    // Started from a one-line script, not a file path, so the Next.js bundler does not try to
+    // bundle the worker (and tsx with it): the worker loads the TypeScript source at run time.
+    const boot = pathToFileURL(path.join(WORKER_DIR, "boot.mjs")).href;
+    const w = new Worker(`import(${JSON.stringify(boot)}).catch((e) => { throw e; });`, { eval: true, workerData: { file: path.join(WORKER_DIR, "compound-prepare.worker.ts") } });
     const fail = (e: unknown) => reject(e instanceof Error ? e : new Error(String(e)));
     w.once("online", () => {
       w.off("error", fail);
