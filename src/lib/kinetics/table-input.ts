@@ -316,10 +316,22 @@ export function readDoseResponseCsv(text: string, minPoints = MIN_DOSE_RESPONSE_
     if (s.concentration.length < minPoints) {
       throw new TableInputError(last, "concentration", `too few points: compound "${s.compound}" has ${s.concentration.length}; at least ${minPoints} are needed`);
     }
-    const distinct = new Set(s.concentration).size;
+    const distinct = distinctCount(s.concentration);
     if (distinct < minConcentrations) {
       throw new TableInputError(last, "concentration", `too few points: compound "${s.compound}" has ${distinct} distinct concentrations; at least ${minConcentrations} are needed`);
     }
   }
   return series;
+}
+
+/** Distinct values of a short series without allocating (a Set per compound adds up in batches). */
+function distinctCount(values: readonly number[]): number {
+  if (values.length > 64) return new Set(values).size;
+  let count = 0;
+  for (let i = 0; i < values.length; i++) {
+    let seen = false;
+    for (let j = 0; j < i && !seen; j++) seen = values[j] === values[i];
+    if (!seen) count++;
+  }
+  return count;
 }
