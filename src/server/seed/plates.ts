@@ -25,7 +25,7 @@ export async function seedPlates(db: Db, ctx: { mainCampaignId: string; userIds:
   const ids = demo.compounds.map((c) => c.id);
   const registered = await db.select({ id: compounds.registryId }).from(compounds).where(inArray(compounds.registryId, ids));
   if (registered.length < ids.length) {
-    console.log(`[seed] demo plates skipped: ${ids.length - registered.length} of the ${ids.length} demo compounds are not registered (the compounds step loads them).`);
+    console.warn(`[seed] demo plates skipped: ${ids.length - registered.length} of the ${ids.length} demo compounds are not registered (the compounds step loads them).`);
     return { runs: 0, accepted: 0 };
   }
   const now = Date.now();
