@@ -41,7 +41,19 @@ import * as analysisRoute from "@/app/api/campaigns/[campaignId]/experiments/[ex
 import * as resultsRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route";
 import * as analysisActions from "@/app/(workspace)/campaigns/[campaignId]/analyses/actions";
 import { analysesWorld } from "@/test/analyses";
+import * as hitsRoute from "@/app/api/campaigns/[campaignId]/hits/route";
+import * as hitRoute from "@/app/api/campaigns/[campaignId]/hits/[registryId]/route";
+import * as hitCommentsRoute from "@/app/api/campaigns/[campaignId]/hits/[registryId]/comments/route";
+import * as hitStructureRoute from "@/app/api/campaigns/[campaignId]/hits/[registryId]/structure/route";
+import * as hitExportRoute from "@/app/api/campaigns/[campaignId]/hits/export/route";
+import * as hitViewsRoute from "@/app/api/campaigns/[campaignId]/hits/views/route";
+import * as hitViewRoute from "@/app/api/campaigns/[campaignId]/hits/views/[viewId]/route";
+import { saveView } from "@/server/services/hits";
 import { stopBoss } from "@/server/jobs/boss";
+import * as digestRoute from "@/app/api/campaigns/[campaignId]/digest/route";
+import * as digestLogRoute from "@/app/api/campaigns/[campaignId]/digest/log/route";
+import * as digestActions from "@/app/(workspace)/campaigns/[campaignId]/digest/actions";
+import * as stopDigest from "@/app/(auth)/digest/actions";
 
 type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
 
@@ -235,6 +247,66 @@ const invokers: Record<string, Invoke> = {
       await callAction(analysisActions.planMechanismPlateAction, { campaignId: w.campaignId, compoundId: "INH-000001", ic50Um: "2", kmUm: "20", format: "384", name: `Plan ${actor} ${w.tag}` }, userOf(w, actor)),
     );
   },
+  // Hit triage: the world's single-dose analysis gives INH-000001…INH-000012 hit rows.
+  "src/app/api/campaigns/[campaignId]/hits/route.ts#GET": async (actor, w) => {
+    await analysesWorld(w);
+    return deniedRoute((await callRoute(hitsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits?sort=ki&limit=5`, params: { campaignId: w.campaignId } })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/route.ts#PATCH": async (actor, w) => {
+    await analysesWorld(w);
+    const body = { registryIds: ["INH-000003", "INH-000004"], status: "on hold", comment: `matrix ${actor}` };
+    return deniedRoute((await callRoute(hitsRoute.PATCH, { user: userOf(w, actor), method: "PATCH", path: `/api/campaigns/${w.campaignId}/hits`, params: { campaignId: w.campaignId }, body })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/[registryId]/route.ts#GET": async (actor, w) => {
+    await analysesWorld(w);
+    const params = { campaignId: w.campaignId, registryId: "INH-000001" };
+    return deniedRoute((await callRoute(hitRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/INH-000001`, params })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/[registryId]/route.ts#PATCH": async (actor, w) => {
+    await analysesWorld(w);
+    const params = { campaignId: w.campaignId, registryId: "INH-000002" };
+    return deniedRoute((await callRoute(hitRoute.PATCH, { user: userOf(w, actor), method: "PATCH", path: `/api/campaigns/${w.campaignId}/hits/INH-000002`, params, body: { status: "confirmed" } })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/[registryId]/comments/route.ts#POST": async (actor, w) => {
+    await analysesWorld(w);
+    const params = { campaignId: w.campaignId, registryId: "INH-000001" };
+    const r = await callRoute(hitCommentsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/hits/INH-000001/comments`, params, body: { body: `matrix note by ${actor}` } });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/[registryId]/structure/route.ts#GET": async (actor, w) => {
+    await analysesWorld(w);
+    const params = { campaignId: w.campaignId, registryId: "INH-000001" };
+    return deniedRoute((await callRoute(hitStructureRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/INH-000001/structure`, params })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/export/route.ts#GET": async (actor, w) => {
+    await analysesWorld(w);
+    return deniedRoute((await callRoute(hitExportRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/export?format=csv`, params: { campaignId: w.campaignId } })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/views/route.ts#GET": async (actor, w) =>
+    deniedRoute((await callRoute(hitViewsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/views`, params: { campaignId: w.campaignId } })).status),
+  "src/app/api/campaigns/[campaignId]/hits/views/route.ts#POST": async (actor, w) => {
+    const body = { name: `Matrix view ${actor}`, state: { columns: [{ colId: "ki", width: 120 }], query: { sort: "ki", status: "unreviewed" } } };
+    return deniedRoute((await callRoute(hitViewsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/hits/views`, params: { campaignId: w.campaignId }, body })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/hits/views/[viewId]/route.ts#DELETE": async (actor, w) => {
+    // Each member deletes a view of their own; others name a view id that is not theirs.
+    const owner = actor === "signedOut" || actor === "nonMember" ? w.people.lead : w.people[actor];
+    const { id: viewId } = await saveView(owner.id, w.campaignId, `To delete ${actor}`, { columns: [], query: {} });
+    const params = { campaignId: w.campaignId, viewId };
+    return deniedRoute((await callRoute(hitViewRoute.DELETE, { user: userOf(w, actor), method: "DELETE", path: `/api/campaigns/${w.campaignId}/hits/views/${viewId}`, params })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/digest/route.ts#POST": async (actor, w) =>
+    deniedRoute((await callRoute(digestRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/digest`, params: { campaignId: w.campaignId }, body: { preview: true } })).status),
+  "src/app/api/campaigns/[campaignId]/digest/log/route.ts#GET": async (actor, w) =>
+    deniedRoute((await callRoute(digestLogRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/digest/log`, params: { campaignId: w.campaignId } })).status),
+  "src/app/(workspace)/campaigns/[campaignId]/digest/actions.ts#sendDigestNowAction": async (actor, w) =>
+    deniedAction(await callAction(digestActions.sendDigestNowAction, { campaignId: w.campaignId }, userOf(w, actor))),
+  "src/app/(workspace)/campaigns/[campaignId]/digest/actions.ts#setDigestScheduleAction": async (actor, w) =>
+    deniedAction(await callAction(digestActions.setDigestScheduleAction, { campaignId: w.campaignId, digestWeekday: "1", digestHour: "7", timeZone: "UTC" }, userOf(w, actor))),
+  "src/app/(workspace)/settings/actions.ts#setMyDigestAction": async (actor, w) =>
+    deniedAction(await callAction(settingsActions.setMyDigestAction, { campaignId: w.campaignId, receive: "1" }, userOf(w, actor))),
+  "src/app/(auth)/digest/actions.ts#stopDigestAction": async (actor, w) =>
+    deniedAction(await callAction(stopDigest.stopDigestAction, { token: "not-a-valid-token.at-all" }, userOf(w, actor))),
 };
 
 function walk(dir: string, out: string[] = []): string[] {

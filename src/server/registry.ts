@@ -73,6 +73,24 @@ export const registry: RegistryEntry[] = [
   { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#startAnalysisAction", what: "start an analysis from the page", allow: ["assay", "lead", "admin"] },
   { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#overrideMechanismAction", what: "override a mechanism call with a reason (audited)", allow: ["assay", "lead", "admin"] },
   { id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#planMechanismPlateAction", what: "turn a mechanism-study plan into a plate map", allow: ["assay", "admin"] },
+  // Hit triage (issue 8): members read, export and keep their own views; leads and admins set the triage status; everyone but viewers comments
+  { id: "src/app/api/campaigns/[campaignId]/hits/route.ts#GET", what: "ranked hits, sorted, filtered and paged in Postgres", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/hits/route.ts#PATCH", what: "set the triage status of a selection (one transaction, audited)", allow: ["lead", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/hits/[registryId]/route.ts#GET", what: "a compound's panel: results, batches, status history, comments", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/hits/[registryId]/route.ts#PATCH", what: "set one compound's triage status (audited)", allow: ["lead", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/hits/[registryId]/comments/route.ts#POST", what: "comment on a compound", allow: ["chemist", "assay", "lead", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/hits/[registryId]/structure/route.ts#GET", what: "a compound's structure drawing (SVG)", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/hits/export/route.ts#GET", what: "export the current view as XLSX or CSV", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/hits/views/route.ts#GET", what: "one's own saved grid views", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/hits/views/route.ts#POST", what: "save a named grid view for oneself", allow: members },
+  { id: "src/app/api/campaigns/[campaignId]/hits/views/[viewId]/route.ts#DELETE", what: "delete one's own saved view", allow: members },
+  // Weekly digest (issue 9): leads and admins send and schedule; members stop it for themselves
+  { id: "src/app/api/campaigns/[campaignId]/digest/route.ts#POST", what: "preview or send the weekly digest now", allow: ["lead", "admin"] },
+  { id: "src/app/api/campaigns/[campaignId]/digest/log/route.ts#GET", what: "the digest send log", allow: ["lead", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/digest/actions.ts#sendDigestNowAction", what: "send this week's digest now", allow: ["lead", "admin"] },
+  { id: "src/app/(workspace)/campaigns/[campaignId]/digest/actions.ts#setDigestScheduleAction", what: "set the digest's weekday, hour and zone", allow: ["lead", "admin"] },
+  { id: "src/app/(workspace)/settings/actions.ts#setMyDigestAction", what: "stop or resume one's own digest of a campaign", allow: members },
+  { id: "src/app/(auth)/digest/actions.ts#stopDigestAction", what: "stop the digest from the e-mail's signed link (public)", allow: everyone },
 ];
 
 export const registryGroups = { everyone, signedIn, members };

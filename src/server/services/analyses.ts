@@ -18,6 +18,7 @@ import {
 import { AppError } from "@/server/errors";
 import type { SessionUser } from "@/server/auth/session";
 import { audit } from "./audit";
+import { refreshHitRows } from "./hits";
 import { ENGINE_VERSION, ic50FromKi, type HitRule, type InhibitionModel } from "@/lib/kinetics";
 import { analyseDoseResponse, analyseMechanism, analyseSingleDose, type AnalysisReading, type CompoundResult } from "@/lib/analysis/compute";
 import { toMicromolar, toNanomolar } from "@/lib/units";
@@ -320,6 +321,9 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
         .update(analyses)
         .set({ status: "done", progress: 1, isCurrent: true, finishedAt: new Date(), compounds: results.length })
         .where(eq(analyses.id, a.id));
+      // The hit grid's rows for these compounds, in the same transaction (issue 8), once this
+      // analysis is current; prune drops compounds this experiment no longer reports.
+      await refreshHitRows(tx, a.campaignId, results.map((r) => r.compoundId), { prune: true });
     });
   } catch (e) {
     await db
@@ -418,5 +422,6 @@ export async function overrideMechanism(actor: Actor, campaignId: string, experi
       after: { model },
       reason,
     });
+    await refreshHitRows(tx, campaignId, [compoundId]);
   });
 }

@@ -1,0 +1,1 @@
+export { hitExportSchema as exportQuery } from "@/lib/hits/query";

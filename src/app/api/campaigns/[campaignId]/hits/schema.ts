@@ -1,0 +1,1 @@
+export { hitListSchema as listQuery, bulkTriageSchema as bulkBody } from "@/lib/hits/query";

@@ -1,0 +1,1 @@
+export { saveViewSchema as postBody } from "@/lib/hits/query";
