@@ -60,7 +60,7 @@ function runVitest(name, config, env) {
   const out = path.join(root, ".local", `vitest-${name}${process.env.TEST_SLOT ? `-${process.env.TEST_SLOT}` : ""}.json`);
   fs.rmSync(out, { force: true });
   const t0 = Date.now();
-  const r = spawnSync(process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", config, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`], {
+  const r = spawnSync(process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", config, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`, ...(process.env.TEST_FILTER ? process.env.TEST_FILTER.split(" ") : [])], {
     cwd: root,
     env,
     stdio: "inherit",

@@ -1,9 +1,11 @@
-// The background worker: runs queued analyses (pg-boss jobs in Postgres) so a campaign-sized
+// The background worker: runs queued analyses and the weekly digest schedule (pg-boss jobs in
+// Postgres) so a campaign-sized
 // analysis never blocks a request, and survives page reloads and restarts. Started by
 // `npm start`; several workers may run at once (a job is taken by one of them).
 import PgBoss from "pg-boss";
 import { runAnalysis } from "@/server/services/analyses";
-import { QUEUES } from "@/server/jobs/boss";
+import { QUEUES, DIGEST_TICK_CRON } from "@/server/jobs/boss";
+import { sendDueDigests } from "@/server/services/digest";
 import { sqlClient } from "@/server/db/client";
 
 const url = process.env.DATABASE_URL;
@@ -22,7 +24,15 @@ await boss.work<{ analysisId: string }>(QUEUES.analysis, { batchSize: 1, polling
   await runAnalysis(job.data.analysisId);
   console.log(`[worker] analysis ${job.data.analysisId} done in ${Date.now() - t0} ms`);
 });
-console.log("[worker] ready: analyses");
+// The weekly digest: a schedule kept in Postgres by pg-boss (it survives restarts); each tick
+// sends what is due and retries failed sends whose backoff has passed. Sending is idempotent.
+await boss.createQueue(QUEUES.digestTick).catch(() => {});
+await boss.schedule(QUEUES.digestTick, DIGEST_TICK_CRON, {}, { tz: "UTC", retryLimit: 3, retryBackoff: true });
+await boss.work(QUEUES.digestTick, { batchSize: 1, pollingIntervalSeconds: 5 }, async () => {
+  const r = await sendDueDigests();
+  if (r.sent > 0) console.log(`[worker] weekly digest: ${r.sent} sent for ${r.campaigns} campaign(s)`);
+});
+console.log("[worker] ready: analyses, weekly digest schedule");
 
 let stopping = false;
 async function stop() {

@@ -3,7 +3,10 @@ import PgBoss from "pg-boss";
 import { env } from "@/env";
 
 /** Queue names of the background jobs (pg-boss, in Postgres; run by src/cli/worker.ts). */
-export const QUEUES = { analysis: "analysis" } as const;
+export const QUEUES = { analysis: "analysis", digestTick: "digest-tick" } as const;
+
+/** Every 10 minutes the worker sends the digests that are due (each campaign sets its own weekday, hour and zone). */
+export const DIGEST_TICK_CRON = "*/10 * * * *";
 
 let starting: Promise<PgBoss> | null = null;
 

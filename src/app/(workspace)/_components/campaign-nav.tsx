@@ -8,6 +8,7 @@ const items = [
   { href: "/plates", label: "Plates" },
   { href: "/analyses", label: "Analyses" },
   { href: "/hits", label: "Hits" },
+  { href: "/digest", label: "Weekly digest" },
   { href: "/team", label: "Team & settings" },
 ];
 

@@ -1,7 +1,10 @@
 "use server";
 import { redirect } from "next/navigation";
+import { revalidatePath } from "next/cache";
+import { z } from "zod";
 import { formAction } from "@/server/action";
-import { requireUser } from "@/server/auth/guard";
+import { requireCampaign, requireUser } from "@/server/auth/guard";
+import { optIn, optOut } from "@/server/services/digest";
 import { changePasswordSchema } from "@/lib/validation/auth";
 import { changePassword } from "@/server/services/accounts";
 import { startSession } from "@/server/auth/session";
@@ -12,4 +15,13 @@ export const changePasswordAction = formAction(changePasswordSchema, async ({ cu
   await changePassword(user, current, password);
   await startSession(user.id);
   redirect("/settings?changed=1");
+});
+
+export const setMyDigestAction = formAction(z.object({ campaignId: z.string().uuid(), receive: z.enum(["0", "1"]) }), async ({ campaignId, receive }) => {
+  const user = await requireUser();
+  await requireCampaign(campaignId);
+  if (receive === "1") await optIn(user.id, campaignId);
+  else await optOut(user.id, campaignId, "settings");
+  revalidatePath("/settings");
+  return { ok: true, message: receive === "1" ? "You will receive this campaign's weekly digest." : "You will not receive this campaign's weekly digest." };
 });
