@@ -1,0 +1,46 @@
+// Browser journey for the weekly digest on the invented demo campaign: the lead presses
+// "Send now"; the local e-mail fake's outbox shows one digest per member; screenshots of the
+// digest page, the outbox page and the rendered e-mail.
+import { describe, it, expect, beforeAll, afterAll } from "vitest";
+import type { Browser } from "playwright-core";
+import { launch, newPage, shot, signIn, APP_URL } from "./lib/browser";
+
+const MAIL = process.env.RESEND_BASE_URL ?? "http://127.0.0.1:4025";
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+type Msg = { id: string; to: string[]; subject: string };
+
+describe("weekly digest", () => {
+  it("the lead sends it now and each member gets exactly one", async () => {
+    const page = await newPage(browser);
+    await signIn(page, "lead@example.org");
+    await page.getByRole("link", { name: /Vetrase-2/ }).click();
+    await page.waitForURL(/\/campaigns\/[0-9a-f-]{36}$/);
+    await page.getByRole("link", { name: "Weekly digest" }).click();
+    await page.waitForURL(/\/digest$/);
+    await page.locator("iframe[title='Digest preview']").waitFor();
+    await shot(page, "digest-page");
+    const before = ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.length;
+    await page.getByRole("button", { name: "Send now" }).click();
+    await page.getByText(/Week of \d{4}-\d{2}-\d{2}: \d+ sent/).waitFor({ timeout: 60_000 });
+    const all = ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.slice(before).filter((m) => m.subject.includes("Vetrase-2"));
+    expect(all.map((m) => m.to[0]).sort()).toEqual(["assay@example.org", "chemist@example.org", "lead@example.org", "viewer@example.org"]);
+
+    // A second press sends nothing new.
+    await page.getByRole("button", { name: "Send now" }).click();
+    await page.getByText(/0 sent, 4 had this week's digest already/).waitFor({ timeout: 60_000 });
+
+    const outbox = await newPage(browser);
+    await outbox.goto(`${MAIL}/`);
+    await shot(outbox, "outbox");
+    await outbox.goto(`${MAIL}/__outbox/${all[0]!.id}/html`);
+    await expect(outbox.getByText("Top ten by Ki").count()).resolves.toBe(1);
+    await shot(outbox, "digest-email");
+  });
+});
