@@ -7,6 +7,7 @@ import { seedAccounts } from "@/server/seed/accounts";
 import { seedCompounds } from "@/server/seed/compounds";
 import { seedPlates } from "@/server/seed/plates";
 import { seedAnalyses } from "@/server/seed/analyses";
+import { seedHits } from "@/server/seed/hits";
 
 const ifEmpty = process.argv.includes("--if-empty");
 
@@ -39,6 +40,9 @@ async function main() {
   const t2 = Date.now();
   const an = await seedAnalyses(db, ctx);
   console.log(`[seed] invented demo analyses: ${an.experiments} experiments, ${an.results} compound results (${Date.now() - t2} ms)`);
+  const t3 = Date.now();
+  const hits = await seedHits(db, ctx);
+  console.log(`[seed] invented demo triage: ${hits.decisions} decisions, ${hits.comments} comments (${Date.now() - t3} ms)`);
 }
 
 main()
