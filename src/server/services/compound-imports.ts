@@ -33,6 +33,8 @@ export type ImportPreview = {
   sample: { record: number; line: number; name: string | null; smiles: string; formula: string; mw: number }[];
   threads: number;
   prepareMs: number;
+  /** Where the time went, in ms: parse (file → records), structures (workers), check (registry lookup), store (staging rows). */
+  timings?: { parseMs: number; structuresMs: number; checkMs: number; storeMs: number };
 };
 
 export type ImportResult = {
@@ -112,7 +114,9 @@ async function prepareJob(id: string): Promise<void> {
     const bytes = await getObject(job!.s3Key);
     const check = crypto.createHash("sha256").update(bytes).digest("hex");
     if (check !== job!.sha256) throw new AppError("internal", "The stored file does not match its checksum.");
+    const tParse = performance.now();
     const parsed = await parseFile(job!.format as ImportFormat, bytes);
+    const parseMs = performance.now() - tParse;
     if (parsed.fileErrors.length > 0) {
       await db.update(compoundImports).set({ status: "failed", error: `${job!.fileName}: ${parsed.fileErrors.join(" ")}`, updatedAt: new Date() }).where(eq(compoundImports.id, id));
       return;
@@ -125,12 +129,15 @@ async function prepareJob(id: string): Promise<void> {
     const formRejected = parsed.totalRecords - parsed.records.length;
     await db.update(compoundImports).set({ progressTotal: parsed.totalRecords, progressDone: formRejected }).where(eq(compoundImports.id, id));
     let lastWrite = 0;
+    const tStructures = performance.now();
     const prep = await prepareAll(parsed.records, async (done, total) => {
       if (done === total || performance.now() - lastWrite > 400) {
         lastWrite = performance.now();
         await db.update(compoundImports).set({ progressDone: formRejected + done, updatedAt: new Date() }).where(eq(compoundImports.id, id));
       }
     });
+    const structuresMs = performance.now() - tStructures;
+    const tCheck = performance.now();
     const issues: ImportIssue[] = [...parsed.issues, ...prep.issues];
     // Structures already in the registry (same key), or another stereo form of one (the form asks for a reason).
     const keys = prep.prepared.map((p) => p.properties.structureKey);
@@ -155,6 +162,7 @@ async function prepareJob(id: string): Promise<void> {
     }
     issues.sort((a, b) => a.record - b.record || a.line - b.line);
     const invalidRecords = [...new Set(issues.map((i) => i.record))].sort((a, b) => a - b);
+    const checkMs = performance.now() - tCheck;
     const preview: ImportPreview = {
       format: parsed.format,
       totalRecords: parsed.totalRecords,
@@ -166,13 +174,16 @@ async function prepareJob(id: string): Promise<void> {
       ignoredFields: parsed.ignoredFields,
       sample: good.slice(0, 50).map((p) => ({ record: p.recordNo, line: p.line, name: p.name ?? null, smiles: p.properties.canonicalSmiles, formula: p.properties.formula, mw: p.properties.mwGPerMol })),
       threads: prep.threads,
-      prepareMs: Math.round(performance.now() - t0),
+      prepareMs: 0,
     };
+    const tStore = performance.now();
     await db.transaction(async (tx) => {
       await tx.delete(compoundImportRows).where(eq(compoundImportRows.importId, id));
       for (let i = 0; i < good.length; i += 1000) {
         await tx.insert(compoundImportRows).values(good.slice(i, i + 1000).map((p) => ({ importId: id, recordNo: p.recordNo, line: p.line, ok: true, data: toPrepared(p) })));
       }
+      preview.prepareMs = Math.round(performance.now() - t0);
+      preview.timings = { parseMs: Math.round(parseMs), structuresMs: Math.round(structuresMs), checkMs: Math.round(checkMs), storeMs: Math.round(performance.now() - tStore) };
       await tx.update(compoundImports).set({ status: "ready", preview, progressDone: parsed.totalRecords, updatedAt: new Date() }).where(eq(compoundImports.id, id));
     });
   } catch (e) {
