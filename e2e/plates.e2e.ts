@@ -60,6 +60,17 @@ describe("plates", () => {
     await shot(page, "plate-run");
   });
 
+  it("masks a well with a reason; QC is recomputed and the mask is in the history", async () => {
+    await page.fill("#go-well", "A3");
+    await page.getByRole("button", { name: "Inspect" }).click();
+    await page.fill("#mask-reason", "bubble seen at dispensing (e2e)");
+    await page.getByRole("button", { name: "Mask A3" }).click();
+    await page.getByText(/Well A3 masked\. QC recomputed/).waitFor({ timeout: 30_000 });
+    // Once in the well inspector ("masked because"), once in the mask history.
+    await expect.poll(() => page.getByRole("cell", { name: "bubble seen at dispensing (e2e)" }).count(), { timeout: 30_000 }).toBe(2);
+    await shot(page, "plate-run-masked");
+  });
+
   it("refuses the same file again and links to the earlier run", async () => {
     await page.goto(`${platesUrl}/upload`);
     await page.selectOption("#plate-map", { label: "E2E single-dose 96 (invented) (96-well)" });
