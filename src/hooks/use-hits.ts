@@ -60,7 +60,11 @@ export function useHitPages(campaignId: string) {
     },
     [campaignId, cache, mutate],
   );
-  const invalidate = useCallback(() => mutate((k) => typeof k === "string" && k.startsWith(`${hitsBase(campaignId)}?`), undefined, { revalidate: false }), [campaignId, mutate]);
+  const invalidate = useCallback(() => {
+    // Synchronously forget every cached page of this campaign (SWR's default cache is a Map).
+    const prefix = `${hitsBase(campaignId)}?`;
+    for (const k of [...cache.keys()]) if (k.startsWith(prefix)) cache.delete(k);
+  }, [campaignId, cache]);
   return useMemo(() => ({ load, invalidate }), [load, invalidate]);
 }
 

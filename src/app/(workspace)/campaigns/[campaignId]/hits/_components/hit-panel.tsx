@@ -74,7 +74,13 @@ function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campai
             <Row label="Hill slope">{fixed(r.hill, 2)}</Row>
             <Row label="Single-dose inhibition">{r.pctInhibition === null ? "—" : `${r.pctInhibition.toFixed(1)} %${r.hit ? " (hit)" : ""}`}</Row>
             <Row label="pKi · LE · LipE">
-              {fixed(r.pKi, 2)} · {fixed(r.le, 2)} kcal/mol per heavy atom · {fixed(r.lipe, 2)}
+              {r.pKi === null ? (
+                <span className="text-ink-muted">— (need a Ki from a mechanism study)</span>
+              ) : (
+                <>
+                  {fixed(r.pKi, 2)} · LE {fixed(r.le, 2)} kcal/mol per heavy atom · LipE {fixed(r.lipe, 2)}
+                </>
+              )}
             </Row>
             <Row label="MW · cLogP · heavy atoms">
               {fixed(r.mw, 1)} g/mol · {fixed(r.clogp, 2)} · {r.heavyAtoms ?? "—"}

@@ -102,14 +102,14 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
     ({ data }: ICellRendererParams<HitItem>) =>
       data ? (
         // eslint-disable-next-line @next/next/no-img-element -- an SVG drawn by the server per compound; next/image adds nothing here
-        <img src={hitStructureUrl(campaignId, data.registryId)} alt={`Structure of ${data.registryId}`} width={120} height={72} loading="lazy" className="my-0.5" />
+        <img src={hitStructureUrl(campaignId, data.registryId)} alt={`Structure of ${data.registryId}`} width={112} height={68} loading="lazy" className="my-0.5" />
       ) : null,
     [campaignId],
   );
 
   const columns = useMemo<ColDef<HitItem>[]>(
     () => [
-      { headerName: "Structure", colId: "structure", cellRenderer: Structure, width: 132, sortable: false, resizable: false },
+      { headerName: "Structure", colId: "structure", cellRenderer: Structure, width: 124, sortable: false, resizable: false },
       {
         headerName: "Registry ID",
         colId: "registryId",
@@ -132,21 +132,21 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
       {
         headerName: "Flags",
         colId: "flags",
-        width: 190,
+        width: 150,
         headerTooltip: "Sort puts flagged or ambiguous results together; every flag is shown",
         cellRenderer: ({ data }: ICellRendererParams<HitItem>) =>
           data ? data.flags.length || data.mechanismLabel === "ambiguous" ? <Flags flags={data.flags.length ? data.flags : ["ambiguous-mechanism"]} /> : <span className="text-2xs text-pass">clean</span> : null,
         cellClass: "overflow-hidden",
       },
-      { headerName: "Mechanism", colId: "mechanism", width: 150, cellRenderer: ({ data }: ICellRendererParams<HitItem>) => (data ? <MechanismCell mechanism={data.mechanism} label={data.mechanismLabel} /> : null) },
-      { headerName: "Ki", colId: "ki", width: 170, ...numberFilter("Ki in µM"), headerTooltip: "Inhibition constant from the mechanism study (Kic, Kiu or Ki per model), with 95 % CI. Filter in µM.", cellRenderer: ({ data }: ICellRendererParams<HitItem>) => (data ? <Concentration value={data.ki} ci={data.kiCi95} /> : null) },
+      { headerName: "Mechanism", colId: "mechanism", width: 136, cellRenderer: ({ data }: ICellRendererParams<HitItem>) => (data ? <MechanismCell mechanism={data.mechanism} label={data.mechanismLabel} /> : null) },
+      { headerName: "Ki", colId: "ki", width: 158, ...numberFilter("Ki in µM"), headerTooltip: "Inhibition constant from the mechanism study (Kic, Kiu or Ki per model), with 95 % CI. Filter in µM.", cellRenderer: ({ data }: ICellRendererParams<HitItem>) => (data ? <Concentration value={data.ki} ci={data.kiCi95} /> : null) },
       { headerName: "Kic", colId: "kic", width: 110, ...numberFilter("Kic in µM"), cellClass: "num", valueGetter: (p) => (p.data ? formatConcentration(p.data.kic) : "") },
       { headerName: "Kiu", colId: "kiu", width: 110, ...numberFilter("Kiu in µM"), cellClass: "num", valueGetter: (p) => (p.data ? formatConcentration(p.data.kiu) : "") },
       { headerName: "α (Kiu/Kic)", colId: "alpha", width: 104, ...numberFilter("α"), cellClass: "num", valueGetter: (p) => (p.data?.alpha == null ? "—" : Number(p.data.alpha.toPrecision(3))) },
       {
         headerName: "IC50",
         colId: "ic50",
-        width: 170,
+        width: 158,
         ...numberFilter("IC50 in µM"),
         headerTooltip: "Dose-response IC50 with 95 % CI; > or < when outside the tested range. Filter in µM.",
         cellRenderer: ({ data }: ICellRendererParams<HitItem>) => (data ? <Concentration value={data.ic50} qualifier={data.ic50Qualifier} ci={data.ic50Ci95} /> : null),
@@ -202,7 +202,8 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
     [load, toolbar],
   );
 
-  const refresh = useCallback(() => {
+  const refresh = useCallback(async () => {
+    // Drop the cached pages first, or the grid would be refilled from them.
     invalidate();
     api.current?.refreshInfiniteCache();
   }, [invalidate]);
@@ -260,7 +261,7 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
       setNotice(`Status "${triageLabels[bulk.status as keyof typeof triageLabels]}" recorded for ${r.changed} compound${r.changed === 1 ? "" : "s"}${r.unchanged ? ` (${r.unchanged} already had it)` : ""}.`);
       api.current?.deselectAll();
       setBulk((b) => ({ ...b, comment: "", busy: false }));
-      refresh();
+      await refresh();
     } catch (e) {
       setError((e as Error).message);
       setBulk((b) => ({ ...b, busy: false }));
@@ -385,7 +386,7 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
         </span>
         <span>
           {sorted
-            ? "Sorted by the chosen column (blanks last)."
+            ? `Sorted by ${columns.find((c) => c.colId === query.sort)?.headerName ?? query.sort}, ${query.dir === "desc" ? "descending" : "ascending"} (blanks last).`
             : "Ranked: clean results by Ki, then IC50, then single-dose inhibition; flagged or ambiguous results after the clean ones."}{" "}
           {filtered ? "Filters on." : ""} Concentrations shown with their unit; column filters take µM.
         </span>
@@ -433,7 +434,7 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
           canTriage={canTriage}
           canComment={canComment}
           onClose={() => setOpenId(null)}
-          onChanged={refresh}
+          onChanged={() => void refresh()}
         />
       ) : null}
     </div>
