@@ -31,7 +31,7 @@ describe("compound registry", () => {
     await page.click('button:has-text("Search")');
     await page.locator(".ag-row", { hasText: "BS-003" }).first().waitFor({ timeout: 15_000 });
     // AG Grid positions rows absolutely, so the DOM order is not the display order: ask for row 0.
-    await expect(page.locator('.ag-center-cols-container .ag-row[row-index="0"]').innerText()).resolves.toContain("BS-003");
+    await expect(page.locator('.ag-row[row-index="0"]').first().innerText()).resolves.toContain("BS-003");
 
     await page.fill('input[name="q"]', "");
     await page.fill('input[name="substructure"]', "c1ccc2[nH]cnc2c1");

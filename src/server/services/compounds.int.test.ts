@@ -8,12 +8,14 @@
 // Node's crypto for SHA-256 (FIPS 180-4). Other structures here are INVENTED test molecules.
 import { describe, it, expect, beforeAll } from "vitest";
 import crypto from "node:crypto";
+import ExcelJS from "exceljs";
+import { Molecule } from "openchemlib";
 import { execFileSync } from "node:child_process";
 import { and, eq, sql } from "drizzle-orm";
 import { makeWorld, callRoute, type World } from "@/test/harness";
 import { uniqueSmiles } from "@/test/compounds";
 import { db } from "@/server/db/client";
-import { auditLog, compoundLibraries, compounds } from "@/server/db/schema";
+import { analyses, auditLog, compoundLibraries, compoundResults, compounds, experiments } from "@/server/db/schema";
 import { getObject } from "@/server/storage/s3";
 import * as compoundsRoute from "@/app/api/compounds/route";
 import * as compoundRoute from "@/app/api/compounds/[registryId]/route";
@@ -21,7 +23,7 @@ import * as importsRoute from "@/app/api/compound-imports/route";
 import * as importRoute from "@/app/api/compound-imports/[importId]/route";
 import * as commitRoute from "@/app/api/compound-imports/[importId]/commit/route";
 import * as reportRoute from "@/app/api/compound-imports/[importId]/report/route";
-import { addBatch, createLibrary, editCompound, getCompound, searchCompounds } from "./compounds";
+import { addBatch, createLibrary, editCompound, getCompound, resultsForCompound, searchCompounds } from "./compounds";
 import { importS3Key, waitForImport } from "./compound-imports";
 import { AppError } from "@/server/errors";
 
@@ -191,6 +193,23 @@ describe("search", () => {
   });
 });
 
+describe("results across campaigns", () => {
+  it("shows a compound's current results only in campaigns the person is a member of", async () => {
+    const { registryId } = await registerOrFind(uniqueSmiles());
+    const [e] = await db.insert(experiments).values({ campaignId: w.campaignId, name: "Invented screen", kind: "single-dose" }).returning();
+    const [a] = await db
+      .insert(analyses)
+      .values({ experimentId: e!.id, campaignId: w.campaignId, status: "done", engineVersion: "test", inputHash: crypto.randomBytes(8).toString("hex"), inputs: { runs: [], masks: [], settings: {} } as never, isCurrent: true })
+      .returning();
+    await db.insert(compoundResults).values({ analysisId: a!.id, experimentId: e!.id, campaignId: w.campaignId, kind: "single-dose", compoundId: registryId, nPoints: 2, pctInhibition: 63.5, hit: true, detail: {} });
+    const seen = await resultsForCompound({ id: w.people.viewer.id, globalRole: "member" }, registryId);
+    expect(seen).toHaveLength(1);
+    expect(seen[0]).toMatchObject({ experiment: "Invented screen", pctInhibition: 63.5, hit: true });
+    expect(await resultsForCompound({ id: w.people.nonMember.id, globalRole: "member" }, registryId)).toHaveLength(0);
+    expect(await resultsForCompound({ id: w.people.admin.id, globalRole: "admin" }, registryId)).toHaveLength(1);
+  });
+});
+
 describe("libraries", () => {
   it("creates a library from a pasted list, and refuses unknown IDs without creating anything", async () => {
     const ids = [await registerOrFind(uniqueSmiles()), await registerOrFind(uniqueSmiles())].map((x) => x.registryId);
@@ -206,9 +225,9 @@ describe("libraries", () => {
 });
 
 describe("bulk import", () => {
-  const upload = async (name: string, text: string) => {
+  const upload = async (name: string, text: string | Uint8Array<ArrayBuffer>) => {
     const form = new FormData();
-    form.append("file", new File([text], name, { type: "text/csv" }));
+    form.append("file", new File([text], name, { type: "application/octet-stream" }));
     const r = await callRoute(importsRoute.POST, { user: w.people.chemist, method: "POST", path: "/api/compound-imports", body: form });
     expect(r.status).toBe(202);
     const id = (r.json as Json).id as string;
@@ -283,6 +302,27 @@ describe("bulk import", () => {
     const again = await upload("with-duplicate.csv", `smiles\nCN1C=NC2=C1C(=O)N(C)C(=O)N2C\n`);
     const p = again.view.preview as { issues: { message: string }[] };
     expect(p.issues[0]!.message).toBe(`Already registered as ${existing.registryId}; add a batch to ${existing.registryId} instead.`);
+  });
+
+  it("imports SDF (keeping the molfile) and XLSX files the same way", async () => {
+    const sdfSmiles = [uniqueSmiles(), uniqueSmiles()];
+    const sdf = sdfSmiles.map((sm, i) => `${Molecule.fromSmiles(sm).toMolfile().replace(/^[^\n]*/, `SDF-${i + 1} (invented)`)}\n> <supplier>\nInvented Supplier\n\n$$$$\n`).join("");
+    const s1 = await upload("two.sdf", sdf);
+    expect((s1.view.preview as { valid: number }).valid).toBe(2);
+    expect((await commit(s1.id, "all_or_nothing")).status).toBe(200);
+    const [row] = await db.select().from(compounds).where(eq(compounds.name, "SDF-1 (invented)"));
+    expect(row!.molfile).toMatch(/M {2}END/);
+    expect((await getCompound(row!.registryId)).batches[0]!.supplier).toBe("Invented Supplier");
+
+    const wb = new ExcelJS.Workbook();
+    const ws = wb.addWorksheet("Compounds");
+    ws.addRow(["SMILES", "Name", "Purity (%)"]);
+    ws.addRow([uniqueSmiles(), "XLSX-1 (invented)", 99]);
+    ws.addRow(["C1CC", "XLSX-2 (invented)", 98]);
+    const x = await upload("two.xlsx", new Uint8Array(await wb.xlsx.writeBuffer()));
+    const p = x.view.preview as { valid: number; issues: { record: number; line: number; field: string }[] };
+    expect(p.valid).toBe(1);
+    expect(p.issues).toMatchObject([{ record: 2, line: 3, field: "smiles" }]);
   });
 
   it("fails a file that is not a compound table with a sentence, and refuses other file types", async () => {

@@ -3,10 +3,10 @@ import { notFound } from "next/navigation";
 import { pageUser } from "@/server/auth/page-guard";
 import { canWriteCompounds } from "@/server/auth/compound-access";
 import { AppError } from "@/server/errors";
-import { getCompound, type CompoundDetail } from "@/server/services/compounds";
+import { getCompound, resultsForCompound, type CompoundDetail, type CompoundResultRow } from "@/server/services/compounds";
 import { structureSvg } from "@/lib/chem/svg";
 import { COMPUTED_PROPERTIES_CAUTION } from "@/lib/chem/cautions";
-import { ChemicalSafetyNote } from "@/components/ui/caution";
+import { ChemicalSafetyNote, ResearchUseNote } from "@/components/ui/caution";
 import { AddBatchForm, AddStockForm, EditNamesForm, EditStructureForm } from "./compound-forms";
 
 export const dynamic = "force-dynamic";
@@ -44,6 +44,47 @@ function PropertyTable({ c }: { c: CompoundDetail }) {
   );
 }
 
+const KIND: Record<string, string> = { "single-dose": "single-dose screen", "dose-response": "dose-response", mechanism: "mechanism study" };
+
+function ResultsTable({ rows }: { rows: CompoundResultRow[] }) {
+  return (
+    <table className="table-dense">
+      <thead>
+        <tr>
+          <th>Campaign</th>
+          <th>Experiment</th>
+          <th>Kind</th>
+          <th className="text-right">Inhibition (%)</th>
+          <th>Hit</th>
+          <th className="text-right">IC50 (µM)</th>
+          <th className="text-right">Hill slope</th>
+          <th>Mechanism</th>
+          <th className="text-right">Ki (µM)</th>
+          <th>Flags</th>
+        </tr>
+      </thead>
+      <tbody>
+        {rows.map((r) => (
+          <tr key={`${r.experimentId}`}>
+            <td>{r.campaign}</td>
+            <td>
+              <Link href={`/campaigns/${r.campaignId}/analyses/${r.experimentId}`}>{r.experiment}</Link>
+            </td>
+            <td>{KIND[r.kind] ?? r.kind}</td>
+            <td className="num text-right">{n(r.pctInhibition, 1)}</td>
+            <td>{r.hit === null ? "—" : r.hit ? <span className="chip bg-accent-soft text-accent">hit</span> : "no"}</td>
+            <td className="num text-right">{r.ic50Um === null ? "—" : `${r.ic50Qualifier && r.ic50Qualifier !== "=" ? `${r.ic50Qualifier} ` : ""}${r.ic50Um.toPrecision(3)}`}</td>
+            <td className="num text-right">{n(r.hill, 2)}</td>
+            <td>{r.mechanism ? `${r.mechanism}${r.mechanismLabel ? ` (${r.mechanismLabel})` : ""}` : "—"}</td>
+            <td className="num text-right">{r.kiUm === null ? "—" : r.kiUm.toPrecision(3)}</td>
+            <td className="text-xs text-warn">{r.flags.join(", ")}</td>
+          </tr>
+        ))}
+      </tbody>
+    </table>
+  );
+}
+
 export default async function CompoundPage({ params }: { params: Promise<{ registryId: string }> }) {
   const user = await pageUser();
   const { registryId } = await params;
@@ -54,7 +95,7 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
     if (e instanceof AppError && e.code === "not_found") notFound();
     throw e;
   }
-  const writer = await canWriteCompounds(user);
+  const [writer, results] = await Promise.all([canWriteCompounds(user), resultsForCompound(user, c.registryId)]);
   const svg = structureSvg(c.structureKey, { width: 420, height: 300, idPrefix: "main-", stereoLabels: true });
   return (
     <main className="mx-auto w-full max-w-6xl px-6 py-6">
@@ -163,7 +204,7 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
         <ChemicalSafetyNote className="mt-3" />
       </section>
 
-      <div className="mt-4 grid grid-cols-1 gap-4 lg:grid-cols-2">
+      <div className="mt-4">
         <section className="card p-3" aria-label="Libraries">
           <h2 className="mb-2 text-sm font-semibold">Libraries</h2>
           {c.libraries.length === 0 ? (
@@ -178,11 +219,17 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
             </ul>
           )}
         </section>
-        <section className="card p-3" aria-label="Results across campaigns">
-          <h2 className="mb-2 text-sm font-semibold">Results across campaigns</h2>
-          <p className="text-sm text-ink-muted">No results for {c.registryId} yet. Single-dose, IC50 and Ki results from every campaign will be listed here.</p>
-        </section>
       </div>
+
+      <section className="card mt-4 p-3" aria-label="Results across campaigns">
+        <h2 className="mb-2 text-sm font-semibold">Results across campaigns</h2>
+        {results.length === 0 ? (
+          <p className="text-sm text-ink-muted">No results for {c.registryId} yet in the campaigns you are a member of. Single-dose, IC50 and Ki results appear here once an analysis includes it.</p>
+        ) : (
+          <ResultsTable rows={results} />
+        )}
+        <ResearchUseNote className="mt-2" />
+      </section>
 
       {writer ? (
         <section className="card mt-4 p-3" aria-label="Edit">

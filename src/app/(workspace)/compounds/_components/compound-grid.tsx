@@ -2,12 +2,12 @@
 import Link from "next/link";
 import { useMemo, useState } from "react";
 import { AgGridReact } from "ag-grid-react";
-import { ClientSideRowModelModule, ModuleRegistry, themeQuartz, type ColDef, type SortChangedEvent } from "ag-grid-community";
+import { ClientSideRowModelModule, ModuleRegistry, TooltipModule, themeQuartz, type ColDef, type SortChangedEvent } from "ag-grid-community";
 import { useCompoundSearch, type CompoundItem } from "@/hooks/use-compounds";
 
-// Only the module this grid uses (stack.md trap 3): the page of rows comes from the server,
-// already searched, filtered, sorted and paged.
-ModuleRegistry.registerModules([ClientSideRowModelModule]);
+// Only the modules this grid uses (stack.md trap 3; tooltips for the donor/acceptor header).
+// The page of rows comes from the server, already searched, filtered, sorted and paged.
+ModuleRegistry.registerModules([ClientSideRowModelModule, TooltipModule]);
 
 const theme = themeQuartz.withParams({
   fontFamily: "inherit",
@@ -43,8 +43,13 @@ function IdCell({ data }: { data?: CompoundItem }) {
 }
 
 const keepServerOrder = () => 0;
+
+/** Numbers right-aligned with tabular figures, whatever the grid's own cell layout. */
+function NumCell(p: { valueFormatted?: string | null; value?: unknown }) {
+  return <span className="num block w-full text-right">{p.valueFormatted ?? String(p.value ?? "")}</span>;
+}
 // Our tabular figures plus AG Grid's right alignment (a cellClass replaces the column type's own).
-const RIGHT = ["num", "ag-right-aligned-cell"];
+const RIGHT = ["num", "ag-right-aligned-cell", "text-right", "justify-end"];
 
 export function CompoundGrid({ libraries, initial }: { libraries: { id: string; name: string }[]; initial: { q: string; substructure: string; library: string } }) {
   const [q, setQ] = useState(initial.q);
@@ -64,11 +69,11 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
       { headerName: "Name", field: "name", colId: "name", flex: 1, minWidth: 140, comparator: keepServerOrder, valueFormatter: (p) => p.value ?? "—" },
       { headerName: "Aliases", field: "aliases", flex: 1, minWidth: 120, sortable: false, valueFormatter: (p) => (p.value as string[] | undefined)?.join("; ") || "—" },
       { headerName: "Formula", field: "formula", width: 130, sortable: false },
-      { headerName: "MW (g/mol)", field: "mw", colId: "mw", width: 112, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT },
-      { headerName: "cLogP", field: "clogp", colId: "clogp", width: 88, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT },
-      { headerName: "TPSA (Å²)", field: "tpsa", colId: "tpsa", width: 100, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 1), cellClass: RIGHT },
-      { headerName: "Heavy atoms", field: "heavyAtoms", colId: "heavyAtoms", width: 104, type: "rightAligned", comparator: keepServerOrder, cellClass: RIGHT },
-      { headerName: "HBD / HBA", colId: "hb", width: 96, sortable: false, type: "rightAligned", valueGetter: (p) => (p.data ? `${p.data.hbd} / ${p.data.hba}` : ""), cellClass: RIGHT, headerTooltip: "H-bond donors / acceptors, rule-of-five definition (acceptors = all N and O atoms)" },
+      { headerName: "MW (g/mol)", field: "mw", colId: "mw", width: 112, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT, cellRenderer: NumCell },
+      { headerName: "cLogP", field: "clogp", colId: "clogp", width: 88, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT, cellRenderer: NumCell },
+      { headerName: "TPSA (Å²)", field: "tpsa", colId: "tpsa", width: 100, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 1), cellClass: RIGHT, cellRenderer: NumCell },
+      { headerName: "Heavy atoms", field: "heavyAtoms", colId: "heavyAtoms", width: 104, type: "rightAligned", comparator: keepServerOrder, cellClass: RIGHT, cellRenderer: NumCell },
+      { headerName: "HBD / HBA", colId: "hb", width: 96, sortable: false, type: "rightAligned", valueGetter: (p) => (p.data ? `${p.data.hbd} / ${p.data.hba}` : ""), cellClass: RIGHT, cellRenderer: NumCell, headerTooltip: "H-bond donors / acceptors, rule-of-five definition (acceptors = all N and O atoms)" },
       { headerName: "Match", field: "rank", width: 150, sortable: false, hide: !applied.q, valueFormatter: (p) => p.value ?? "" },
     ],
     [applied.q],
