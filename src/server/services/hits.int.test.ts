@@ -255,6 +255,8 @@ describe("triage", () => {
 
   it("a bulk change is one transaction: an unknown compound refuses all of it", async () => {
     const before = await counts("INH-000004");
+    const held = async () => (await list("status=on-hold")).json as { total: number };
+    expect((await held()).total).toBe(0); // the total is now kept until the rows change
     const bad = await callRoute(hitsRoute.PATCH, { user: w.people.lead, method: "PATCH", path: base(), params: { campaignId: w.campaignId }, body: { registryIds: ["INH-000004", "INH-999999"], status: "on hold" } });
     expect(bad.status).toBe(400);
     expect((bad.json as { error: string }).error).toContain("INH-999999");
@@ -263,6 +265,7 @@ describe("triage", () => {
     expect(ok.status).toBe(200);
     expect((await counts("INH-000004")).status).toBe("on-hold");
     expect((await counts("INH-000010")).status).toBe("on-hold");
+    expect((await held()).total).toBe(2); // not the kept 0: the change moved the campaign's version
   });
 
   it("chemists comment, viewers cannot; the grid counts comments", async () => {

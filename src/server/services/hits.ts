@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, desc, eq, inArray, sql, type SQL, type SQLWrapper } from "drizzle-orm";
-import { db, type Tx } from "@/server/db/client";
-import { compoundBatches, compounds, hitComments, hitRows, hitViews, triageDecisions, users } from "@/server/db/schema";
+import { db, type Db, type Tx } from "@/server/db/client";
+import { compoundBatches, compounds, hitComments, hitRows, hitRowVersions, hitViews, triageDecisions, users } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import type { SessionUser } from "@/server/auth/session";
 import { audit } from "./audit";
@@ -143,6 +143,14 @@ export async function refreshHitRows(tx: Tx, campaignId: string, compoundIds: re
         and not exists (select 1 from compound_results r join analyses a on a.id = r.analysis_id and a.is_current
                         where r.campaign_id = h.campaign_id and r.compound_id = h.compound_id)`);
   }
+  await bumpHitVersion(tx, campaignId);
+}
+
+/** Tells every server process that the campaign's hit rows changed (their cached totals are dropped). */
+export async function bumpHitVersion(tx: Tx | Db, campaignId: string): Promise<void> {
+  await tx.execute(sql`
+    insert into hit_row_versions (campaign_id, version) values (${campaignId}, 1)
+    on conflict (campaign_id) do update set version = hit_row_versions.version + 1`);
 }
 
 // ---------------------------------------------------------------- query
@@ -261,14 +269,39 @@ export type HitItem = ReturnType<typeof hitJson>;
 
 export const HIT_UNITS = { ki: "µM", kic: "µM", kiu: "µM", ic50: "µM", pctInhibition: "%", le: "kcal/mol per heavy atom", mw: "g/mol", lipe: "dimensionless", alpha: "dimensionless" };
 
+// Totals of recent filters, per campaign version (hit_row_versions): counting up to 100,000
+// rows on every page was most of a request's cost (bench/hits.ts). The version is read before
+// the count, so a total is never kept under a version older than the rows it counted.
+const totals = new Map<string, number>();
+const TOTALS_MAX = 5000;
+
+function filterKey(campaignId: string, version: number, f: HitFilter): string {
+  const { sort: _s, dir: _d, ...rest } = f as HitFilter & { limit?: number; offset?: number };
+  delete (rest as { limit?: number }).limit;
+  delete (rest as { offset?: number }).offset;
+  const parts = Object.entries(rest)
+    .filter(([, v]) => v !== undefined)
+    .sort(([a], [b]) => a.localeCompare(b))
+    .map(([k, v]) => `${k}=${v instanceof Date ? v.toISOString() : Array.isArray(v) ? [...v].sort().join(",") : String(v)}`);
+  return `${campaignId}|${version}|${parts.join("&")}`;
+}
+
 /** A sorted, filtered page of the campaign's hit rows, and how many rows match. */
 export async function listHits(campaignId: string, f: HitFilter, limit: number, offset: number): Promise<{ items: HitItem[]; total: number }> {
   const where = whereOf(campaignId, f);
-  const [rows, count] = await Promise.all([
+  const [version, rows] = await Promise.all([
+    db.select({ v: hitRowVersions.version }).from(hitRowVersions).where(eq(hitRowVersions.campaignId, campaignId)),
     db.select().from(hitRows).where(where).orderBy(orderOf(f)).limit(limit).offset(offset),
-    db.select({ n: sql<number>`count(*)::int` }).from(hitRows).where(where),
   ]);
-  return { items: rows.map(hitJson), total: count[0]?.n ?? 0 };
+  const key = filterKey(campaignId, version[0]?.v ?? 0, f);
+  let total = totals.get(key);
+  if (total === undefined) {
+    const [c] = await db.select({ n: sql<number>`count(*)::int` }).from(hitRows).where(where);
+    total = c?.n ?? 0;
+    if (totals.size >= TOTALS_MAX) totals.delete(totals.keys().next().value!);
+    totals.set(key, total);
+  }
+  return { items: rows.map(hitJson), total };
 }
 
 export const EXPORT_MAX_ROWS = 100_000;
