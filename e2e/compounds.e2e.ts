@@ -30,8 +30,9 @@ describe("compound registry", () => {
     await page.fill('input[name="q"]', "BS-003");
     await page.click('button:has-text("Search")');
     await page.locator(".ag-row", { hasText: "BS-003" }).first().waitFor({ timeout: 15_000 });
-    // AG Grid positions rows absolutely, so the DOM order is not the display order: ask for row 0.
-    await expect(page.locator('.ag-row[row-index="0"]').first().innerText()).resolves.toContain("BS-003");
+    // AG Grid positions rows absolutely, so the DOM order is not the display order: ask for row 0
+    // (the exact name ranks before names that are only similar).
+    await page.waitForFunction(() => [...document.querySelectorAll('.ag-row[row-index="0"]')].some((r) => r.textContent?.includes("BS-003")), undefined, { timeout: 15_000 });
 
     await page.fill('input[name="q"]', "");
     await page.fill('input[name="substructure"]', "c1ccc2[nH]cnc2c1");
