@@ -55,7 +55,7 @@ async function main() {
     console.log(`| · look up the registry for duplicates | ${s(tm.checkMs)} |`);
     console.log(`| · keep the prepared records beside the job | ${s(tm.storeMs)} |`);
   }
-  console.log(`| register in one transaction (multi-row INSERTs) | ${s(tDone - tPrepared)} |`);
+  console.log(`| register in one transaction (INSERT … SELECT from the staged records) | ${s(tDone - tPrepared)} |`);
   console.log(`| **total** | **${s(tDone - t0)}** |`);
   console.log(`\nCPU time of the server process during store + preparation: ${cpuPrepS.toFixed(1)} s (${((1000 * cpuPrepS) / N).toFixed(2)} ms per record over all threads).`);
   const reasons = new Map<string, number>();
