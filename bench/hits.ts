@@ -6,7 +6,7 @@
  *    screen (all), a dose-response analysis (30 %) and a mechanism study (3 %) written with
  *    multi-row INSERT … SELECT; then `refreshHitRows` for all 100,000 in one transaction (timed:
  *    it is what runAnalysis does after a 100,000-compound screen); some triage decisions.
- * 2. `next build` into .next-bench and `next start` on 127.0.0.1 with the bench database.
+ * 2. `next build` into .next-test-bench-hits and `next start` on 127.0.0.1 with the bench database.
  * 3. 20 concurrent clients (a bounded fetch loop; autocannon is not installed) ask for sorted,
  *    filtered pages of 100 from `GET /api/campaigns/{id}/hits` for a fixed time: p50/p95/p99.
  * 4. The grid page in Debian's chromium (playwright-core): time from navigation until the first
@@ -226,7 +226,8 @@ async function main() {
   );
   const sessionId = await createSessionId(pop.leadId);
   const cookie = `${SESSION_COOKIE}=${sessionId}`;
-  const env = { ...process.env, NEXT_DIST_DIR: ".next-bench", NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" as const, APP_URL: BASE };
+  // A dist folder that eslint and git already ignore (".next-test*"), apart from the test builds.
+  const env = { ...process.env, NEXT_DIST_DIR: ".next-test-bench-hits", NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" as const, APP_URL: BASE };
   const tb = performance.now();
   // next build adds its dist folder to tsconfig.json's include list; put the shared file back.
   const tsconfig = fs.readFileSync(path.join(root, "tsconfig.json"), "utf8");
