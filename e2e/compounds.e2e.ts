@@ -77,6 +77,25 @@ describe("compound registry", () => {
     await page.close();
   });
 
+  it("checks a larger upload on worker threads in the built app", async () => {
+    const page = await newPage(browser);
+    await signIn(page, "chemist@example.org");
+    const lines = ["smiles,name"];
+    for (let i = 0; i < 700; i++) lines.push(`${"C".repeat(1 + (i % 25))}Oc1ccc(cc1)S(=O)(=O)N${"C".repeat(1 + Math.floor(i / 25))}${i % 2 ? "Cl" : "Br"},E2E-W-${i + 1} (invented)`);
+    const up = await page.request.post(`${APP_URL}/api/compound-imports`, { multipart: { file: { name: "workers.csv", mimeType: "text/csv", buffer: Buffer.from(lines.join("\n")) } } });
+    expect(up.status()).toBe(202);
+    const { id } = (await up.json()) as { id: string };
+    let job: { status: string; preview?: { threads: number; valid: number } } = { status: "stored" };
+    for (let k = 0; k < 120 && (job.status === "stored" || job.status === "preparing"); k++) {
+      await page.waitForTimeout(1000);
+      job = (await (await page.request.get(`${APP_URL}/api/compound-imports/${id}`)).json()) as typeof job;
+    }
+    expect(job.status).toBe("ready");
+    expect(job.preview?.threads).toBe(2);
+    expect(job.preview?.valid).toBe(700);
+    await page.close();
+  });
+
   it("imports a file with three bad records: preview, explicit mode, registration and report", async () => {
     const page = await newPage(browser);
     await signIn(page, "chemist@example.org");
