@@ -171,6 +171,9 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
           getRowId={(p) => p.data.id}
           onSortChanged={onSortChanged}
           animateRows={false}
+          // Rows arrive after the first layout: with the scrollbar there from the start, the
+          // flexible columns are sized for the space that is really visible.
+          alwaysShowVerticalScroll
           loading={isLoading}
           overlayNoRowsTemplate="No compounds match."
           tooltipShowDelay={300}
