@@ -166,7 +166,7 @@ function MechanismSection({ r }: { r: Row }) {
     <>
       <section className="card flex flex-wrap gap-6 px-4 py-3 text-sm">
         <div>
-          <p className="text-2xs uppercase tracking-wide text-ink-muted">Mechanism</p>
+          <p className="text-xs font-medium text-ink-muted">Mechanism</p>
           <p className="text-lg font-semibold">
             {chosen} {r.override ? <span className="chip bg-info-soft text-info">override</span> : null}{" "}
             {!r.override && r.mechanismLabel === "ambiguous" ? <span className="chip bg-warn-soft text-warn">ambiguous</span> : null}
@@ -178,7 +178,7 @@ function MechanismSection({ r }: { r: Row }) {
           ) : null}
         </div>
         <div>
-          <p className="text-2xs uppercase tracking-wide text-ink-muted">Ki</p>
+          <p className="text-xs font-medium text-ink-muted">Ki</p>
           <p className="num text-lg font-semibold">{formatConcentration(chosen === "uncompetitive" ? fit.kiuUm : fit.kicUm)}</p>
           <p className="num text-xs text-ink-muted">
             95 % CI {formatConcentration(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"]?.[0])} –{" "}
@@ -186,18 +186,18 @@ function MechanismSection({ r }: { r: Row }) {
           </p>
         </div>
         <div>
-          <p className="text-2xs uppercase tracking-wide text-ink-muted">α = Kiu/Kic</p>
+          <p className="text-xs font-medium text-ink-muted">α = Kiu/Kic</p>
           <p className="num text-lg font-semibold">{fit.alpha === null ? "—" : fit.alpha.toPrecision(3)}</p>
         </div>
         <div>
-          <p className="text-2xs uppercase tracking-wide text-ink-muted">Vmax · Km</p>
+          <p className="text-xs font-medium text-ink-muted">Vmax · Km</p>
           <p className="num">
             {fit.vmax?.toPrecision(4)} {unit} · {formatConcentration(fit.kmUm)}
           </p>
         </div>
         {cp ? (
           <div className="max-w-sm">
-            <p className="text-2xs uppercase tracking-wide text-ink-muted">Cheng–Prusoff cross-check</p>
+            <p className="text-xs font-medium text-ink-muted">Cheng–Prusoff cross-check</p>
             {cp.note ? (
               <p className="text-xs text-ink-muted">{cp.note}</p>
             ) : (
