@@ -466,6 +466,9 @@ const likeEscape = (s: string) => s.replace(/[\\%_]/g, (m) => `\\${m}`);
 export const MAX_SUBSTRUCTURE_CANDIDATES = 20_000;
 /** Time for the exact check of one request, in ms (the rest of the 1 s goal is the database). */
 export const SUBSTRUCTURE_BUDGET_MS = 350;
+/** Up to this many candidates are checked completely, with up to SMALL_SET_BUDGET_MS. */
+export const SMALL_CANDIDATE_SET = 2_000;
+export const SMALL_SET_BUDGET_MS = 2_000;
 
 function filters(input: SearchInput): SQL[] {
   const where: SQL[] = [];
@@ -527,7 +530,10 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
       .orderBy(...order)
       .limit(MAX_SUBSTRUCTURE_CANDIDATES);
     const candidateTotal = candidates[0]?.n ?? 0;
-    const page = exactSearchPage(query, candidates, { offset: input.offset, limit: input.limit, countAll: true, timeBudgetMs: SUBSTRUCTURE_BUDGET_MS });
+    // A small candidate set is always checked to the end (an exact total even while openchemlib
+    // is still cold in a fresh server process); a large one within the time budget.
+    const budget = candidateTotal <= SMALL_CANDIDATE_SET ? SMALL_SET_BUDGET_MS : SUBSTRUCTURE_BUDGET_MS;
+    const page = exactSearchPage(query, candidates, { offset: input.offset, limit: input.limit, countAll: true, timeBudgetMs: budget });
     const complete = page.complete && candidateTotal <= candidates.length;
     const ids = page.items.map((c) => c.id);
     const rows = ids.length ? await db.select().from(compounds).where(inArray(compounds.id, ids)) : [];
