@@ -73,7 +73,7 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
       { headerName: "cLogP", field: "clogp", colId: "clogp", width: 88, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT, cellRenderer: NumCell },
       { headerName: "TPSA (Å²)", field: "tpsa", colId: "tpsa", width: 100, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 1), cellClass: RIGHT, cellRenderer: NumCell },
       { headerName: "Heavy atoms", field: "heavyAtoms", colId: "heavyAtoms", width: 104, type: "rightAligned", comparator: keepServerOrder, cellClass: RIGHT, cellRenderer: NumCell },
-      { headerName: "HBD / HBA", colId: "hb", flex: 0.5, minWidth: 96, sortable: false, type: "rightAligned", valueGetter: (p) => (p.data ? `${p.data.hbd} / ${p.data.hba}` : ""), cellClass: RIGHT, cellRenderer: NumCell, headerTooltip: "H-bond donors / acceptors, rule-of-five definition (acceptors = all N and O atoms)" },
+      { headerName: "HBD / HBA", colId: "hb", flex: 0.5, minWidth: 96, sortable: false, valueGetter: (p) => (p.data ? `${p.data.hbd} / ${p.data.hba}` : ""), cellClass: "num", headerTooltip: "H-bond donors / acceptors, rule-of-five definition (acceptors = all N and O atoms)" },
       { headerName: "Match", field: "rank", width: 150, sortable: false, hide: !applied.q, valueFormatter: (p) => p.value ?? "" },
     ],
     [applied.q],
