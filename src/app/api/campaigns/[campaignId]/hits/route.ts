@@ -1,6 +1,6 @@
 import { requireCampaign } from "@/server/auth/guard";
 import { json, parseJson, parseQuery, route } from "@/server/http";
-import { HIT_UNITS, listHits, setTriageStatus } from "@/server/services/hits";
+import { HIT_UNITS, listHitsJson, setTriageStatus } from "@/server/services/hits";
 import { bulkBody, listQuery } from "./schema";
 
 export const dynamic = "force-dynamic";
@@ -13,8 +13,10 @@ export const dynamic = "force-dynamic";
 export const GET = route<{ campaignId: string }>(async (req, { campaignId }) => {
   await requireCampaign(campaignId);
   const q = parseQuery(req, listQuery);
-  const { items, total } = await listHits(campaignId, q, q.limit, q.offset);
-  return json({ items, total, limit: q.limit, offset: q.offset, units: HIT_UNITS });
+  // The items arrive as JSON text from Postgres and are passed through as they are.
+  const { itemsJson, total } = await listHitsJson(campaignId, q, q.limit, q.offset);
+  const body = `{"items":${itemsJson},"total":${total},"limit":${q.limit},"offset":${q.offset},"units":${JSON.stringify(HIT_UNITS)}}`;
+  return new Response(body, { headers: { "content-type": "application/json" } });
 });
 
 /** Sets the triage status of a selection in one transaction (leads, admins): `{ registryIds, status, comment? }`. */
