@@ -3,7 +3,7 @@
 // digest page, the outbox page and the rendered e-mail.
 import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import type { Browser } from "playwright-core";
-import { launch, newPage, shot, signIn, APP_URL } from "./lib/browser";
+import { launch, newPage, shot, signIn } from "./lib/browser";
 
 const MAIL = process.env.RESEND_BASE_URL ?? "http://127.0.0.1:4025";
 let browser: Browser;
