@@ -206,7 +206,7 @@ function ResultSection({ campaignId, registryId, res }: { campaignId: string; re
       <section>
         {head}
         <div className="rounded border border-rule">
-          <DoseResponsePlot points={det.points.map((p) => [p[0], p[1]])} masked={[]} fit={det.fit ?? null} height={260} />
+          <DoseResponsePlot points={det.points.map((p) => [p[0], p[1]])} masked={[]} fit={det.fit ?? null} height={320} />
         </div>
       </section>
     );
