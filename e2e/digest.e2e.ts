@@ -26,15 +26,23 @@ describe("weekly digest", () => {
     await page.waitForURL(/\/digest$/);
     await page.locator("iframe[title='Digest preview']").waitFor();
     await shot(page, "digest-page");
-    const before = ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.length;
+    // The worker's schedule may already have sent this week's digest (the demo's Monday 07:00
+    // has passed): either way, after "Send now" each member has exactly one for this week.
     await page.getByRole("button", { name: "Send now" }).click();
-    await page.getByText(/Week of \d{4}-\d{2}-\d{2}: \d+ sent/).waitFor({ timeout: 60_000 });
-    const all = ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.slice(before).filter((m) => m.subject.includes("Vetrase-2"));
+    const result = page.getByText(/Week of (\d{4}-\d{2}-\d{2}): \d+ sent/);
+    await result.waitFor({ timeout: 60_000 });
+    const week = (await result.innerText()).match(/Week of (\d{4}-\d{2}-\d{2})/)![1]!;
+    const thisWeek = async () =>
+      ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.filter((m) => m.subject.includes("Vetrase-2") && m.subject.includes(`week of ${week}`));
+    // (A send the worker had in flight at that moment lands within seconds.)
+    await expect.poll(async () => (await thisWeek()).length, { timeout: 20_000 }).toBe(4);
+    const all = await thisWeek();
     expect(all.map((m) => m.to[0]).sort()).toEqual(["assay@example.org", "chemist@example.org", "lead@example.org", "viewer@example.org"]);
 
     // A second press sends nothing new.
     await page.getByRole("button", { name: "Send now" }).click();
     await page.getByText(/0 sent, 4 had this week's digest already/).waitFor({ timeout: 60_000 });
+    expect(await thisWeek()).toHaveLength(4);
 
     const outbox = await newPage(browser);
     await outbox.goto(`${MAIL}/`);
