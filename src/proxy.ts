@@ -23,4 +23,6 @@ export function proxy(req: NextRequest) {
   return res;
 }
 
-export const config = { matcher: ["/((?!_next/static|_next/image|favicon.svg).*)"] };
+// Pages only: API calls come from pages that already extended the cookie, and the API's own
+// session check extends the session row.
+export const config = { matcher: ["/((?!api/|_next/static|_next/image|favicon.svg).*)"] };
