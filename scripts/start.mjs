@@ -99,7 +99,7 @@ try {
     }
   });
   if (fs.existsSync(path.join(root, "src/cli/worker.ts"))) {
-    const worker = spawn(process.execPath, [tsx, "--conditions=react-server", "src/cli/worker.ts"], { cwd: root, env, stdio: "inherit" });
+    const worker = spawn(process.execPath, [tsx, "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], { cwd: root, env, stdio: "inherit" });
     children.push(worker);
   }
   await waitForHttp(`${appUrl}/api/health`, 120_000);

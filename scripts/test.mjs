@@ -151,7 +151,7 @@ try {
         stdio: ["ignore", "inherit", "inherit"],
       });
       // The background worker runs analyses started from the UI, as under `npm start`.
-      worker = spawn(process.execPath, ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", "src/cli/worker.ts"], {
+      worker = spawn(process.execPath, ["node_modules/tsx/dist/cli.mjs", "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], {
         cwd: root,
         env: { ...env, NODE_ENV: "production" },
         stdio: ["ignore", "inherit", "inherit"],
