@@ -3,7 +3,7 @@ import crypto from "node:crypto";
 import { and, asc, desc, eq, gte, lt, sql } from "drizzle-orm";
 import { render } from "@react-email/components";
 import { db } from "@/server/db/client";
-import { analyses, auditLog, campaigns, compoundResults, compounds, digestOptOuts, digestSends, memberships, plateRuns, users } from "@/server/db/schema";
+import { analyses, auditLog, campaigns, compoundResults, compounds, digestOptOuts, digestSends, hitRows, memberships, plateRuns, users } from "@/server/db/schema";
 import { sendMail } from "@/server/mail/client";
 import { AppError } from "@/server/errors";
 import { env } from "@/env";
@@ -138,18 +138,13 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
     .where(and(eq(auditLog.campaignId, campaign.id), gte(auditLog.at, from), lt(auditLog.at, to), sql`(${auditLog.action} ilike 'triage%' or ${auditLog.action} ilike 'hit.%')`))
     .orderBy(desc(auditLog.at))
     .limit(50);
+  // The top ten as the hit grid ranks them (clean before flagged or ambiguous, then Ki), from the
+  // same table the grid reads, so the e-mail and the app agree (overrides included).
   const top = await db
-    .select({
-      compoundId: compoundResults.compoundId,
-      mechanism: compoundResults.mechanism,
-      kiUm: compoundResults.kiUm,
-      flagged: sql<boolean>`(cardinality(${compoundResults.flags}) > 0 or ${compoundResults.mechanismLabel} = 'ambiguous')`,
-      ic50Um: sql<number | null>`(select cr2.ic50_um from compound_results cr2 join analyses a2 on a2.id = cr2.analysis_id and a2.is_current where cr2.campaign_id = ${campaign.id} and cr2.kind = 'dose-response' and cr2.compound_id = ${compoundResults.compoundId} and cr2.ic50_qualifier is null order by a2.finished_at desc limit 1)`,
-    })
-    .from(compoundResults)
-    .innerJoin(analyses, eq(analyses.id, compoundResults.analysisId))
-    .where(and(eq(compoundResults.campaignId, campaign.id), eq(analyses.isCurrent, true), eq(compoundResults.kind, "mechanism"), sql`${compoundResults.kiUm} is not null`))
-    .orderBy(sql`(cardinality(${compoundResults.flags}) > 0 or ${compoundResults.mechanismLabel} = 'ambiguous')`, asc(compoundResults.kiUm))
+    .select({ compoundId: hitRows.compoundId, mechanism: hitRows.mechanism, kiUm: hitRows.kiUm, flagged: hitRows.flagged, ic50Um: hitRows.ic50Um })
+    .from(hitRows)
+    .where(and(eq(hitRows.campaignId, campaign.id), sql`${hitRows.kiUm} is not null`))
+    .orderBy(asc(hitRows.flagged), asc(hitRows.kiUm), asc(hitRows.compoundId))
     .limit(10);
   const describe = (t: (typeof triage)[number]) => {
     const b = t.before as { status?: string } | null;
@@ -174,7 +169,7 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
     newHits: hits,
     mechanismCalls: mech,
     triage: triage.map((t) => ({ compoundId: (t.entityId ?? "").split("/").pop() ?? "", action: t.action, by: t.by, at: t.at, detail: describe(t) })),
-    topTen: top.map((t) => ({ ...t, ic50Um: t.ic50Um === null ? null : Number(t.ic50Um) })),
+    topTen: top,
   };
 }
 
