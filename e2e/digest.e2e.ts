@@ -14,7 +14,7 @@ afterAll(async () => {
   await browser?.close();
 });
 
-type Msg = { id: string; to: string[]; subject: string };
+type Msg = { id: string; to: string[]; subject: string; html: string | null };
 
 describe("weekly digest", () => {
   it("the lead sends it now and each member gets exactly one", async () => {
@@ -22,6 +22,7 @@ describe("weekly digest", () => {
     await signIn(page, "lead@example.org");
     await page.getByRole("link", { name: /Vetrase-2/ }).click();
     await page.waitForURL(/\/campaigns\/[0-9a-f-]{36}$/);
+    const campaignPath = new URL(page.url()).pathname;
     await page.getByRole("link", { name: "Weekly digest" }).click();
     await page.waitForURL(/\/digest$/);
     await page.locator("iframe[title='Digest preview']").waitFor();
@@ -33,7 +34,7 @@ describe("weekly digest", () => {
     await result.waitFor({ timeout: 60_000 });
     const week = (await result.innerText()).match(/Week of (\d{4}-\d{2}-\d{2})/)![1]!;
     const thisWeek = async () =>
-      ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.filter((m) => m.subject.includes("Vetrase-2") && m.subject.includes(`week of ${week}`));
+      ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.filter((m) => m.subject.includes(`week of ${week}`) && (m.html ?? "").includes(`${campaignPath}/`));
     // (A send the worker had in flight at that moment lands within seconds.)
     await expect.poll(async () => (await thisWeek()).length, { timeout: 20_000 }).toBe(4);
     const all = await thisWeek();
