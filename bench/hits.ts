@@ -7,8 +7,8 @@
  *    multi-row INSERT … SELECT; then `refreshHitRows` for all 100,000 in one transaction (timed:
  *    it is what runAnalysis does after a 100,000-compound screen); some triage decisions.
  * 2. `next build` into .next-test-bench-hits and `next start` on 127.0.0.1 with the bench database.
- * 3. 20 concurrent clients (a bounded fetch loop; autocannon is not installed) ask for sorted,
- *    filtered pages of 100 from `GET /api/campaigns/{id}/hits` for a fixed time: p50/p95/p99.
+ * 3. autocannon: 20 concurrent connections ask for sorted, filtered pages of 100 (five query
+ *    shapes, random offsets 0–1,900) from `GET /api/campaigns/{id}/hits` for 20 s: p50/p95/p99.
  * 4. The grid page in Debian's chromium (playwright-core): time from navigation until the first
  *    rows are in the grid (the page answers clicks), median of 5 loads.
  * Goals (issue 8): p95 < 150 ms; interactive < 2 s.
@@ -18,6 +18,7 @@ import os from "node:os";
 import path from "node:path";
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import crypto from "node:crypto";
+import autocannon from "autocannon";
 import { sql } from "drizzle-orm";
 import { db, sqlClient } from "@/server/db/client";
 import { campaigns, memberships, users } from "@/server/db/schema";
@@ -130,6 +131,15 @@ async function populate() {
   };
 }
 
+/** For repeated runs while tuning (BENCH_HITS_REUSE=1 with a kept DATABASE_URL): the campaign a previous run filled. */
+async function reusable() {
+  const [r] = await db.execute<{ campaign_id: string; user_id: string }>(sql`
+    select m.campaign_id, m.user_id from campaigns c join memberships m on m.campaign_id = c.id
+    where c.name = 'Bench campaign, 100,000 compounds (invented)' and m.role = 'lead'
+      and (select count(*) from hit_rows h where h.campaign_id = c.id) = ${N} limit 1`);
+  return r ? { campaignId: r.campaign_id, leadId: r.user_id, compoundsS: 0, resultsS: 0, refreshS: 0 } : null;
+}
+
 const QUERIES = [
   { name: "Ki ascending, unreviewed", qs: "sort=ki&dir=asc&status=unreviewed" },
   { name: "IC50 descending, competitive or mixed", qs: "sort=ic50&dir=desc&mechanism=competitive,mixed" },
@@ -154,47 +164,61 @@ async function waitFor(url: string, ms: number) {
   throw new Error(`${url} did not answer within ${ms / 1000} s`);
 }
 
-/** The same 20 clients on GET /api/me (a session check and one query): the stack's floor here. */
-async function floor(cookie: string) {
-  const lat: number[] = [];
-  const end = performance.now() + 10_000;
-  await Promise.all(
-    Array.from({ length: CLIENTS }, async () => {
-      while (performance.now() < end) {
-        const t0 = performance.now();
-        await (await fetch(`${BASE}/api/me`, { headers: { cookie } })).text();
-        lat.push(performance.now() - t0);
-      }
-    }),
-  );
-  return lat;
+type LoadResult = { lat: number[]; per: Map<string, number[]>; errors: number; seconds: number };
+
+/**
+ * autocannon with CLIENTS connections for `seconds` (after a warm-up whose responses are not
+ * counted). Each connection keeps one query shape of `paths` and asks for a random page of it;
+ * every response time is kept, so the percentiles are exact rather than histogram buckets.
+ */
+async function cannon(paths: { name: string; path: (offset: number) => string }[], cookie: string, seconds: number): Promise<LoadResult> {
+  const run = (duration: number, record: boolean) =>
+    new Promise<LoadResult>((resolve, reject) => {
+      const lat: number[] = [];
+      const per = new Map<string, number[]>(paths.map((q) => [q.name, []]));
+      let errors = 0;
+      let next = 0;
+      const instance = autocannon(
+        {
+          url: BASE,
+          connections: CLIENTS,
+          duration,
+          headers: { cookie },
+          requests: [
+            {
+              method: "GET",
+              setupRequest: (req, context: { q?: number }) => {
+                context.q ??= next++ % paths.length;
+                return { ...req, path: paths[context.q]!.path(100 * Math.floor(Math.random() * 20)) };
+              },
+            },
+          ],
+        },
+        (err) => (err ? reject(err) : resolve({ lat, per, errors, seconds: duration })),
+      );
+      instance.on("response", (client, status, _bytes, ms) => {
+        if (status !== 200) errors += 1;
+        else if (record) {
+          lat.push(ms);
+          const q = (client as unknown as { requestIterator: { context: { q: number } } }).requestIterator.context.q;
+          per.get(paths[q]!.name)!.push(ms);
+        }
+      });
+      instance.on("reqError", () => (errors += 1));
+    });
+  await run(WARMUP_MS / 1000, false);
+  return run(seconds, true);
 }
 
-async function load(campaignId: string, cookie: string) {
-  const lat: number[] = [];
-  const per = new Map<string, number[]>(QUERIES.map((q) => [q.name, []]));
-  let errors = 0;
-  const start = performance.now();
-  const end = start + WARMUP_MS + DURATION_MS;
-  let k = 0;
-  async function client() {
-    while (performance.now() < end) {
-      const q = QUERIES[k++ % QUERIES.length]!;
-      const offset = 100 * Math.floor(Math.random() * 20);
-      const t0 = performance.now();
-      const r = await fetch(`${BASE}/api/campaigns/${campaignId}/hits?${q.qs}&limit=100&offset=${offset}`, { headers: { cookie } });
-      const body = (await r.json()) as { items?: unknown[] };
-      const ms = performance.now() - t0;
-      if (!r.ok || !body.items) errors += 1;
-      else if (t0 > start + WARMUP_MS) {
-        lat.push(ms);
-        per.get(q.name)!.push(ms);
-      }
-    }
-  }
-  await Promise.all(Array.from({ length: CLIENTS }, client));
-  return { lat, per, errors, seconds: DURATION_MS / 1000 };
-}
+/** The same clients on GET /api/me (a session check and one query): the stack's floor here. */
+const floor = (cookie: string) => cannon([{ name: "me", path: () => "/api/me" }], cookie, 10);
+
+const load = (campaignId: string, cookie: string) =>
+  cannon(
+    QUERIES.map((q) => ({ name: q.name, path: (offset: number) => `/api/campaigns/${campaignId}/hits?${q.qs}&limit=100&offset=${offset}` })),
+    cookie,
+    DURATION_MS / 1000,
+  );
 
 async function timeToInteractive(campaignId: string, sessionId: string) {
   const browser = await launch();
@@ -219,7 +243,7 @@ async function timeToInteractive(campaignId: string, sessionId: string) {
 
 async function main() {
   console.log(`Hit grid over ${N.toLocaleString("en")} invented compounds (${os.availableParallelism()} cores, load average before start ${os.loadavg()[0]?.toFixed(1)})\n`);
-  const pop = await populate();
+  const pop = (process.env.BENCH_HITS_REUSE === "1" && (await reusable())) || (await populate());
   const [rows] = await db.execute<{ n: number }>(sql`select count(*)::int as n from hit_rows where campaign_id = ${pop.campaignId}`);
   console.log(
     `population: compounds ${pop.compoundsS.toFixed(1)} s, results ${pop.resultsS.toFixed(1)} s, refreshHitRows for ${rows!.n.toLocaleString("en")} compounds in one transaction ${pop.refreshS.toFixed(1)} s\n`,
@@ -232,7 +256,8 @@ async function main() {
   // next build adds its dist folder to tsconfig.json's include list; put the shared file back.
   const tsconfig = fs.readFileSync(path.join(root, "tsconfig.json"), "utf8");
   try {
-    run(process.execPath, ["node_modules/next/dist/bin/next", "build"], env);
+    if (!(process.env.BENCH_HITS_NO_BUILD === "1" && fs.existsSync(path.join(root, env.NEXT_DIST_DIR, "BUILD_ID"))))
+      run(process.execPath, ["node_modules/next/dist/bin/next", "build"], env);
   } finally {
     if (fs.readFileSync(path.join(root, "tsconfig.json"), "utf8") !== tsconfig) fs.writeFileSync(path.join(root, "tsconfig.json"), tsconfig);
   }
@@ -242,7 +267,7 @@ async function main() {
     await waitFor(`${BASE}/api/health`, 90_000);
     const r = await load(pop.campaignId, cookie);
     const tti = await timeToInteractive(pop.campaignId, sessionId);
-    const me = await floor(cookie);
+    const me = (await floor(cookie)).lat;
     const p95 = quantile(r.lat, 0.95);
     const ttiMed = quantile(tti, 0.5);
     console.log(`\n${CLIENTS} concurrent clients for ${r.seconds} s after a ${WARMUP_MS / 1000} s warm-up, pages of 100 from GET /api/campaigns/{id}/hits over HTTP on loopback (next start)\n`);
