@@ -163,6 +163,21 @@ describe("one query everywhere", () => {
     expect(page.items.some((i) => i.lastTested !== null && i.ki !== null)).toBe(true);
   });
 
+  it("keeps each row's stored API item in step with the row, whatever writes it (the trigger)", async () => {
+    // A write that does not go through refreshHitRows: the trigger still rewrites the stored item.
+    await db.update(hitRows).set({ ownerName: "Direct Writer (invented)", commentCount: 41 }).where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000011")));
+    const f = hitListSchema.parse({ sort: "registryId", dir: "asc" });
+    const page = await listHits(w.campaignId, f, 100, 0);
+    const all = await exportHits(w.campaignId, f);
+    const item = page.items.find((i) => i.registryId === "INH-000011")!;
+    expect(item.owner).toBe("Direct Writer (invented)");
+    expect(item.comments).toBe(41);
+    expect(page.items).toEqual(all.items);
+    await db.transaction((tx) => refreshHitRows(tx, w.campaignId, ["INH-000011"])); // back to what the data says
+    const again = (await listHits(w.campaignId, f, 100, 0)).items.find((i) => i.registryId === "INH-000011")!;
+    expect(again.comments).not.toBe(41);
+  });
+
   it("gives the same rows from the API, the grid's datasource request and the CSV and XLSX exports", async () => {
     const handWritten = "sort=pctInhibition&dir=desc&mechanism=competitive,mixed,none&ic50Max=3";
     const fromGrid = hitQueryString(

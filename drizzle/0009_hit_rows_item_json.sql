@@ -1,0 +1,1 @@
+ALTER TABLE "hit_rows" ADD COLUMN "item_json" text;
