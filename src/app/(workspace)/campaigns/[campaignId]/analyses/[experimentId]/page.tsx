@@ -11,6 +11,7 @@ import { formatConcentration } from "@/lib/units";
 import { AnalysisRunner } from "../_components/analysis-runner";
 import { Flags, kindLabel, AnalysisStatusChip } from "../_components/labels";
 import { startAnalysisAction } from "../actions";
+import { formatAlpha } from "@/lib/analysis/alpha";
 
 export const metadata = { title: "Experiment" };
 
@@ -155,7 +156,7 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                   <td className="num text-right text-ink-soft">{r.kiLoUm === null && r.kiHiUm === null ? "—" : `${formatConcentration(r.kiLoUm)} – ${r.kiHiUm === null ? "∞" : formatConcentration(r.kiHiUm)}`}</td>
                   <td className="num text-right">{formatConcentration(r.kicUm)}</td>
                   <td className="num text-right">{formatConcentration(r.kiuUm)}</td>
-                  <td className="num text-right">{r.alpha === null ? "—" : r.alpha.toPrecision(3)}</td>
+                  <td className="num text-right">{formatAlpha(r.alpha, r.mechanism)}</td>
                   <td className="num text-right">{r.nPoints}</td>
                   <td>
                     <Flags flags={r.flags} />

@@ -9,6 +9,7 @@ import { DoseResponsePlot, type DoseResponseFitView } from "@/components/plots/d
 import { DoubleReciprocalPlot, RateVsSubstratePlot, type MechanismModelView } from "@/components/plots/mechanism-plots";
 import { Flags, kindLabel } from "../../analyses/_components/labels";
 import { MechanismCell, StatusChip } from "./status";
+import { formatAlpha } from "@/lib/analysis/alpha";
 
 type Props = { campaignId: string; registryId: string; canTriage: boolean; canComment: boolean; onClose: () => void; onChanged: () => void };
 
@@ -65,7 +66,7 @@ function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campai
               {formatConcentration(r.ki)}
               {r.ki !== null ? <span className="text-ink-muted"> ({formatConcentration(r.kiCi95[0])} – {r.kiCi95[1] === null ? "∞" : formatConcentration(r.kiCi95[1])})</span> : null}
             </Row>
-            <Row label="α = Kiu/Kic">{r.alpha === null ? "—" : r.alpha.toPrecision(3)}</Row>
+            <Row label="α = Kiu/Kic">{formatAlpha(r.alpha, r.mechanism)}</Row>
             <Row label="IC50 (95 % CI)">
               {r.ic50Qualifier ?? ""}
               {formatConcentration(r.ic50)}

@@ -26,6 +26,7 @@ import { hitActions, hitStructureUrl, hitsExportUrl, useHitPages, useHitViews, t
 import { Flags } from "../../analyses/_components/labels";
 import { MechanismCell, StatusChip } from "./status";
 import { HitPanel } from "./hit-panel";
+import { formatAlpha } from "@/lib/analysis/alpha";
 
 // Only the modules this grid uses (stack.md trap 3).
 ModuleRegistry.registerModules([
@@ -142,7 +143,7 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
       { headerName: "Ki", colId: "ki", width: 158, ...numberFilter("Ki in µM"), headerTooltip: "Inhibition constant from the mechanism study (Kic, Kiu or Ki per model), with 95 % CI. Filter in µM.", cellRenderer: ({ data }: ICellRendererParams<HitItem>) => (data ? <Concentration value={data.ki} ci={data.kiCi95} /> : null) },
       { headerName: "Kic", colId: "kic", width: 110, ...numberFilter("Kic in µM"), cellClass: "num", valueGetter: (p) => (p.data ? formatConcentration(p.data.kic) : "") },
       { headerName: "Kiu", colId: "kiu", width: 110, ...numberFilter("Kiu in µM"), cellClass: "num", valueGetter: (p) => (p.data ? formatConcentration(p.data.kiu) : "") },
-      { headerName: "α (Kiu/Kic)", colId: "alpha", width: 104, ...numberFilter("α"), cellClass: "num", valueGetter: (p) => (p.data?.alpha == null ? "—" : Number(p.data.alpha.toPrecision(3))) },
+      { headerName: "α (Kiu/Kic)", colId: "alpha", width: 104, ...numberFilter("α"), headerTooltip: "α = Kiu/Kic: 1 noncompetitive, → 0 uncompetitive, → ∞ competitive (shown as ∞).", cellClass: "num", valueGetter: (p) => (p.data ? formatAlpha(p.data.alpha, p.data.mechanism) : "") },
       {
         headerName: "IC50",
         colId: "ic50",

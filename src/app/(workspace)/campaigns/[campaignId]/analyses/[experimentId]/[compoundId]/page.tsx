@@ -14,6 +14,7 @@ import { RateVsSubstratePlot, DoubleReciprocalPlot, ResidualPlot, type Mechanism
 import { Flags, kindLabel } from "../../_components/labels";
 import { OverrideForm, PlannerForm } from "../../_components/result-forms";
 import { overrideMechanismAction, planMechanismPlateAction } from "../../actions";
+import { formatAlpha } from "@/lib/analysis/alpha";
 
 export const metadata = { title: "Compound result" };
 
@@ -187,7 +188,7 @@ function MechanismSection({ r }: { r: Row }) {
         </div>
         <div>
           <p className="text-xs font-medium text-ink-muted">α = Kiu/Kic</p>
-          <p className="num text-lg font-semibold">{fit.alpha === null ? "—" : fit.alpha.toPrecision(3)}</p>
+          <p className="num text-lg font-semibold">{formatAlpha(fit.alpha, chosen)}</p>
         </div>
         <div>
           <p className="text-xs font-medium text-ink-muted">Vmax · Km</p>
