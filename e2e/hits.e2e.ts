@@ -37,6 +37,16 @@ describe("hit triage", () => {
     await page.locator('.ag-row[row-index="0"] [data-testid="open-panel"]').waitFor({ timeout: 60_000 });
     const all = await count(page);
     expect(all).toBeGreaterThan(50);
+    // The structure drawings of the rows on screen have arrived (real images, not broken links);
+    // the first ones on a fresh server wait for openchemlib to load.
+    await page.waitForFunction(
+      () => {
+        const imgs = [...document.querySelectorAll<HTMLImageElement>('.ag-row img[alt^="Structure of"]')].slice(0, 6);
+        return imgs.length === 6 && imgs.every((img) => img.complete && img.naturalWidth > 0);
+      },
+      undefined,
+      { timeout: 30_000 },
+    );
     await shot(page, "hits-grid");
 
     // Filter: unreviewed, clean fits only.
