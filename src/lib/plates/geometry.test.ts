@@ -42,6 +42,7 @@ describe("plate geometry (ANSI/SLAS 1-2004…4-2004, from memory)", () => {
     expect(canonicalWell("p024", 384)).toBe("P24");
     expect(canonicalWell("P24", 96)).toBeUndefined();
     expect(canonicalWell("A0", 96)).toBeUndefined();
+    expect(canonicalWell("af048")).toBe("AF48"); // no format: any well name (ANSI/SLAS rows A–P, AA–AF; common practice)
     expect(parseWellName("1A")).toBeUndefined();
     expect(parseWellName("ABC1")).toBeUndefined();
     expect(paddedWellName({ row: 0, column: 2 }, 96)).toBe("A03");

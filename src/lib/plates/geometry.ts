@@ -102,10 +102,13 @@ export function paddedWellName(pos: WellPosition, format: PlateFormat): string {
   return rowLabel(pos.row) + String(pos.column + 1).padStart(width, "0");
 }
 
-/** Canonical form of any accepted well name for a format; undefined if unknown or off the plate. */
-export function canonicalWell(name: string, format: PlateFormat): string | undefined {
+/**
+ * Canonical form of any accepted well name (`p024` → `P24`); undefined if it is not a well name
+ * or, when a format is given, lies off that plate.
+ */
+export function canonicalWell(name: string, format?: PlateFormat): string | undefined {
   const pos = parseWellName(name);
-  if (!pos || !fitsFormat(pos, format)) return undefined;
+  if (!pos || (format !== undefined && !fitsFormat(pos, format))) return undefined;
   return wellName(pos);
 }
 

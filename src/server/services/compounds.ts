@@ -68,6 +68,26 @@ function chunks<T>(xs: readonly T[], n = CHUNK): T[][] {
   return out;
 }
 
+/** The compound columns that follow from its structure (registration and structure edits). */
+function structureColumns(p: CompoundProperties, molfile: string | null | undefined, fingerprint: string) {
+  return {
+    structureKey: p.structureKey,
+    flatKey: p.flatKey,
+    canonicalSmiles: p.canonicalSmiles,
+    molfile: molfile ?? null,
+    formula: p.formula,
+    mwGPerMol: p.mwGPerMol,
+    exactMassDa: p.exactMassDa,
+    heavyAtoms: p.heavyAtomCount,
+    clogp: p.clogp,
+    hbd: p.hbd,
+    hba: p.hba,
+    tpsaA2: p.tpsaA2,
+    rotatableBonds: p.rotatableBonds,
+    fingerprint,
+  };
+}
+
 /**
  * Inserts compounds (and their batches and stocks) inside the caller's transaction, in order:
  * registry numbers are drawn from the sequence and given in ascending order, so the first item
@@ -90,20 +110,7 @@ export async function insertCompounds(tx: Tx, actor: Actor | null, items: readon
       registryNumber: n,
       name: it.name ?? null,
       aliases: it.aliases ?? [],
-      structureKey: p.structureKey,
-      flatKey: p.flatKey,
-      canonicalSmiles: p.canonicalSmiles,
-      molfile: it.molfile ?? null,
-      formula: p.formula,
-      mwGPerMol: p.mwGPerMol,
-      exactMassDa: p.exactMassDa,
-      heavyAtoms: p.heavyAtomCount,
-      clogp: p.clogp,
-      hbd: p.hbd,
-      hba: p.hba,
-      tpsaA2: p.tpsaA2,
-      rotatableBonds: p.rotatableBonds,
-      fingerprint: it.fingerprintBits,
+      ...structureColumns(p, it.molfile, it.fingerprintBits),
       distinctReason: it.distinctReason ?? null,
       registeredBy: actor?.id ?? null,
     };
@@ -322,23 +329,7 @@ export async function editCompound(
     if (prep) {
       const dup = await existingByKey(tx, prep.properties.structureKey);
       if (dup && dup.id !== c.id) throw duplicateError(dup.registryId);
-      const p = prep.properties;
-      Object.assign(set, {
-        structureKey: p.structureKey,
-        flatKey: p.flatKey,
-        canonicalSmiles: p.canonicalSmiles,
-        molfile: input.molfile ?? null,
-        formula: p.formula,
-        mwGPerMol: p.mwGPerMol,
-        exactMassDa: p.exactMassDa,
-        heavyAtoms: p.heavyAtomCount,
-        clogp: p.clogp,
-        hbd: p.hbd,
-        hba: p.hba,
-        tpsaA2: p.tpsaA2,
-        rotatableBonds: p.rotatableBonds,
-        fingerprint: prep.fingerprintBits,
-      });
+      Object.assign(set, structureColumns(prep.properties, input.molfile, prep.fingerprintBits));
     }
     await tx.update(compounds).set(set).where(eq(compounds.id, c.id));
     await audit(tx, actor, {

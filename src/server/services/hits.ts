@@ -5,7 +5,8 @@ import { compoundBatches, compounds, hitComments, hitRows, hitRowVersions, hitVi
 import { AppError } from "@/server/errors";
 import type { SessionUser } from "@/server/auth/session";
 import { audit } from "./audit";
-import { triageLabels, type HitFilter, type RangeField, type SavedViewState, type SortField, type TriageStatus } from "@/lib/hits/query";
+import type { HitItem } from "@/lib/hits/item";
+import { rangeFields, triageLabels, type HitFilter, type SavedViewState, type SortField, type TriageStatus } from "@/lib/hits/query";
 
 type Actor = Pick<SessionUser, "id" | "email">;
 
@@ -177,22 +178,6 @@ const sortColumn: Record<Exclude<SortField, "default">, SQLWrapper> = {
   comments: hitRows.commentCount,
 };
 
-const rangeColumn: Record<RangeField, SQLWrapper> = {
-  ki: hitRows.kiUm,
-  kic: hitRows.kicUm,
-  kiu: hitRows.kiuUm,
-  alpha: hitRows.alpha,
-  ic50: hitRows.ic50Um,
-  hill: hitRows.hill,
-  pctInhibition: hitRows.pctInhibition,
-  le: hitRows.le,
-  lipe: hitRows.lipe,
-  mw: hitRows.mwGPerMol,
-  clogp: hitRows.clogp,
-  heavyAtoms: hitRows.heavyAtoms,
-  comments: hitRows.commentCount,
-};
-
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
 
 function whereOf(campaignId: string, f: HitFilter): SQL {
@@ -212,7 +197,8 @@ function whereOf(campaignId: string, f: HitFilter): SQL {
   if (f.owner) parts.push(sql`${hitRows.ownerName} ilike ${`%${likeEscape(f.owner)}%`}`);
   if (f.lastTestedFrom) parts.push(sql`${hitRows.lastTestedAt} >= ${f.lastTestedFrom.toISOString()}`);
   if (f.lastTestedTo) parts.push(sql`${hitRows.lastTestedAt} < ${new Date(f.lastTestedTo.getTime() + 86_400_000).toISOString()}`);
-  for (const [field, col] of Object.entries(rangeColumn) as [RangeField, SQLWrapper][]) {
+  for (const field of rangeFields) {
+    const col = sortColumn[field];
     const min = f[`${field}Min`];
     const max = f[`${field}Max`];
     if (min !== undefined) parts.push(sql`${col} >= ${min}`);
@@ -235,20 +221,20 @@ const { itemJson: _itemJson, ...rowColumns } = getTableColumns(hitRows);
 export type HitRow = Omit<typeof hitRows.$inferSelect, "itemJson">;
 
 /** One row as the API, the grid and the export see it (concentrations µM). */
-export function hitJson(r: HitRow) {
+export function hitJson(r: HitRow): HitItem {
   return {
     registryId: r.compoundId,
     name: r.name,
     mechanism: r.mechanism,
     mechanismLabel: r.mechanismLabel,
     ki: r.kiUm,
-    kiCi95: [r.kiLoUm, r.kiHiUm] as [number | null, number | null],
+    kiCi95: [r.kiLoUm, r.kiHiUm],
     kic: r.kicUm,
     kiu: r.kiuUm,
     alpha: r.alpha,
     ic50: r.ic50Um,
     ic50Qualifier: r.ic50Qualifier,
-    ic50Ci95: [r.ic50LoUm, r.ic50HiUm] as [number | null, number | null],
+    ic50Ci95: [r.ic50LoUm, r.ic50HiUm],
     hill: r.hill,
     pctInhibition: r.pctInhibition,
     hit: r.hit,
@@ -267,14 +253,16 @@ export function hitJson(r: HitRow) {
     comments: r.commentCount,
   };
 }
-export type HitItem = ReturnType<typeof hitJson>;
+export type { HitItem };
 
 export const HIT_UNITS = { ki: "µM", kic: "µM", kiu: "µM", ic50: "µM", pctInhibition: "%", le: "kcal/mol per heavy atom", mw: "g/mol", lipe: "dimensionless", alpha: "dimensionless" };
 
 // Totals of recent filters, per campaign version (hit_row_versions): counting up to 100,000
 // rows on every page was most of a request's cost (bench/hits.ts). The version is read before
-// the count, so a total is never kept under a version older than the rows it counted.
-const totals = new Map<string, number>();
+// the count, so a total is never kept under a version older than the rows it counted. The map
+// holds the count's promise, so requests asking at the same moment (a grid opening for twenty
+// people) share one count.
+const totals = new Map<string, Promise<number>>();
 const TOTALS_MAX = 5000;
 
 function filterKey(campaignId: string, version: number, f: HitFilter): string {
@@ -287,10 +275,6 @@ function filterKey(campaignId: string, version: number, f: HitFilter): string {
     .map(([k, v]) => `${k}=${v instanceof Date ? v.toISOString() : Array.isArray(v) ? [...v].sort().join(",") : String(v)}`);
   return `${campaignId}|${version}|${parts.join("&")}`;
 }
-
-// A total being counted, shared by the requests that ask for it at the same moment (a grid
-// opening for twenty people at once counts once).
-const counting = new Map<string, Promise<number>>();
 
 /** A sorted, filtered page of the campaign's hit rows as JSON text (`[…]`), and how many rows match. */
 export async function listHitsJson(campaignId: string, f: HitFilter, limit: number, offset: number): Promise<{ itemsJson: string; total: number }> {
@@ -307,25 +291,18 @@ export async function listHitsJson(campaignId: string, f: HitFilter, limit: numb
                      from (select ${hitRows.itemJson} from ${hitRows} where ${where} order by ${orderOf(f)} limit ${limit} offset ${offset}) p), '[]') as items`);
   const key = filterKey(campaignId, Number(page?.version ?? 0), f);
   let total = totals.get(key);
-  if (total === undefined) {
-    let pending = counting.get(key);
-    if (!pending) {
-      pending = db
-        .select({ n: sql<number>`count(*)::int` })
-        .from(hitRows)
-        .where(where)
-        .then(([c]) => {
-          const n = c?.n ?? 0;
-          if (totals.size >= TOTALS_MAX) totals.delete(totals.keys().next().value!);
-          totals.set(key, n);
-          return n;
-        })
-        .finally(() => counting.delete(key));
-      counting.set(key, pending);
-    }
-    total = await pending;
+  if (!total) {
+    total = db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(hitRows)
+      .where(where)
+      .then(([c]) => c?.n ?? 0);
+    if (totals.size >= TOTALS_MAX) totals.delete(totals.keys().next().value!);
+    totals.set(key, total);
+    const counted = total;
+    counted.catch(() => totals.get(key) === counted && totals.delete(key)); // a failed count is not kept
   }
-  return { itemsJson: page?.items ?? "[]", total };
+  return { itemsJson: page?.items ?? "[]", total: await total };
 }
 
 /** The same page as objects. */

@@ -11,7 +11,7 @@ import { audit } from "./audit";
 import { countRoles, formulaInjectionMessage, issue, plateMapFromWells, type PlateIssue, type PlateMap, type PlateMapWell } from "@/lib/plates";
 import { MAX_FILE_BYTES, parseReaderExport, type ExportPreview } from "@/lib/plates/reader-export";
 import { buildReadings, computeRunQc, type QcInputWell, type RunQc, type RunReading, type SignalDirection } from "@/lib/plates/run-qc";
-import type { PlateFormat } from "@/lib/plates/geometry";
+import { canonicalWell, type PlateFormat } from "@/lib/plates/geometry";
 
 type Actor = Pick<SessionUser, "id" | "email">;
 type Campaign = typeof campaigns.$inferSelect;
@@ -420,7 +420,7 @@ export async function maskWell(actor: Actor, campaignId: string, runId: string, 
   const why = checkReason(reason, "masking a well");
   return db.transaction(async (tx) => {
     const run = await lockRun(tx, campaignId, runId);
-    const well = wellName.trim().toUpperCase().replace(/^([A-Z]+)0+(\d)/, "$1$2");
+    const well = canonicalWell(wellName, run.format as PlateFormat) ?? wellName.trim().toUpperCase();
     const [reading] = await tx.select({ masked: wellReadings.masked }).from(wellReadings).where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
     if (!reading) throw new AppError("not_found", `Well ${well.slice(0, 4)} has no reading on this run.`);
     if (reading.masked) throw new AppError("conflict", `Well ${well} is already masked.`);
@@ -445,7 +445,7 @@ export async function unmaskWell(actor: Actor, campaignId: string, runId: string
   const why = checkReason(reason, "unmasking a well");
   return db.transaction(async (tx) => {
     const run = await lockRun(tx, campaignId, runId);
-    const well = wellName.trim().toUpperCase().replace(/^([A-Z]+)0+(\d)/, "$1$2");
+    const well = canonicalWell(wellName, run.format as PlateFormat) ?? wellName.trim().toUpperCase();
     const closed = await tx
       .update(plateWellMasks)
       .set({ unmaskedAt: new Date(), unmaskedBy: actor.id, unmaskReason: why })

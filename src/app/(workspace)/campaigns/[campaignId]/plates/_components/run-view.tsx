@@ -5,6 +5,7 @@ import { Plot, baseConfig, baseLayout } from "@/components/plots/plot";
 import { FormMessage } from "@/components/forms/form-bits";
 import { maskWellAction, unmaskWellAction } from "../actions";
 import { fmtNum, fmtSig } from "./status";
+import { canonicalWell } from "@/lib/plates/geometry";
 
 export type RunWell = {
   index: number;
@@ -92,7 +93,8 @@ export function RunView({
         className="flex items-center gap-2 text-xs"
         onSubmit={(e) => {
           e.preventDefault();
-          const v = String(new FormData(e.currentTarget).get("go") ?? "").trim().toUpperCase().replace(/^([A-Z]+)0+(\d)/, "$1$2");
+          const typed = String(new FormData(e.currentTarget).get("go") ?? "").trim().toUpperCase();
+          const v = canonicalWell(typed) ?? typed;
           setSelected(byName.has(v) ? v : null);
           setGoError(byName.has(v) ? null : `${v.slice(0, 6) || "That"} is not a well read on this plate.`);
         }}
