@@ -22,35 +22,9 @@ import { parseCsvImport } from "@/lib/chem/import-table";
 import { parseSmiles } from "@/lib/chem/parse";
 import { createSubstructureMatcher, exactSearchPage, parseFragmentQuery } from "@/lib/chem/substructure";
 import { structureSvg } from "@/lib/chem/svg";
+import { SEARCH_FRAGMENTS, inventedSmiles, median } from "./_compound-data";
 
 const N = Number(process.argv[2] ?? 10_000);
-
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-const ENDS = ["C", "F", "Cl", "CO", "FC(F)(F)", "N#C", "CN(C)", "OC(=O)", "O", "c8ccccc8", "C8CC8", "C8COCCN8", "o8cccc8C"];
-const UNITS = ["c8ccc(cc8)", "c8cccc(c8)", "c8ccc(nc8)", "c8ccc(s8)", "C8CCN(CC8)", "N8CCN(CC8)", "C8CC(C8)", "c8cnc(nc8)", "c8ccc9[nH]ccc9c8"];
-const LINKS = ["", "C", "CC", "C(=O)N", "NC(=O)", "O", "S(=O)(=O)N", "N", "C(=O)", "OC", "CO", "NC(=O)N"];
-const TAILS = ["C", "F", "Cl", "OC", "C(F)(F)F", "C#N", "N(C)C", "C(=O)O", "O", "c8ccccc8", "C8CC8", "N8CCOCC8", "C(N)=O"];
-
-function inventedSmiles(count: number): string[] {
-  const rand = mulberry32(7);
-  const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)] as T;
-  const seen = new Set<string>();
-  while (seen.size < count) {
-    const s = pick(ENDS) + pick(LINKS) + pick(UNITS) + pick(LINKS) + pick(UNITS) + pick(LINKS) + pick(TAILS);
-    seen.add(s);
-  }
-  return [...seen];
-}
 
 function ms(t0: number): number {
   return performance.now() - t0;
@@ -62,11 +36,6 @@ function cpuMs(since: NodeJS.CpuUsage): number {
   return (d.user + d.system) / 1000;
 }
 
-const median = (xs: number[]) => {
-  const s = [...xs].sort((a, b) => a - b);
-  const m = Math.floor(s.length / 2);
-  return s.length % 2 ? (s[m] ?? 0) : ((s[m - 1] ?? 0) + (s[m] ?? 0)) / 2;
-};
 
 const smiles = inventedSmiles(N);
 const csv = ["smiles,name,supplier,purity_pct,amount_mg", ...smiles.map((s, i) => `${s},BENCH-${i + 1},Invented Supplier,98.5,10`)].join("\n");
@@ -92,31 +61,9 @@ console.log(`  total:                                       ${((tCsv + tPrep) / 
 console.log(`  prepared ${prep.prepared.length}; in-file duplicates ${duplicates}; unreadable ${prep.issues.length - duplicates}`);
 
 const stored = prep.prepared.map((p) => ({ key: p.properties.structureKey, fp: fromBitString(p.fingerprintBits) }));
-const fragments = [
-  "c1ccccc1",
-  "c1ccncc1",
-  "C(=O)N",
-  "S(=O)(=O)N",
-  "C(F)(F)F",
-  "N1CCNCC1",
-  "C1CCNCC1",
-  "c1ccc2[nH]ccc2c1",
-  "c1ccsc1",
-  "C#N",
-  "NC(=O)N",
-  "c1ccc(cc1)C(=O)N",
-  "C1CC1",
-  "N1CCOCC1",
-  "c1ncncc1",
-  "[F,Cl]c1ccccc1",
-  "OC(=O)c1ccccc1",
-  "c1ccc(Oc2ccccc2)cc1",
-  "CN(C)c1ccccc1",
-  "c1ccco1",
-];
 const times: number[] = [];
 console.log(`\nsubstructure search over ${stored.length.toLocaleString("en")} molecules (prefilter in memory + exact check from ID codes)`);
-for (const text of fragments) {
+for (const text of SEARCH_FRAGMENTS) {
   const q = parseFragmentQuery(text);
   if (!q.ok) throw new Error(q.error);
   t0 = performance.now();
@@ -132,13 +79,13 @@ for (const text of fragments) {
   times.push(t);
   console.log(`  ${text.padEnd(22)} candidates ${String(candidates).padStart(6)}  hits ${String(hits).padStart(6)}  ${t.toFixed(0)} ms`);
 }
-console.log(`  median over ${fragments.length} fragments: ${median(times).toFixed(0)} ms`);
+console.log(`  median over ${SEARCH_FRAGMENTS.length} fragments: ${median(times).toFixed(0)} ms`);
 
 // 100,000 rows (the prepared set repeated) with a first page of 50, as the search screen asks.
 const big = Array.from({ length: 100_000 }, (_, i) => stored[i % stored.length] as (typeof stored)[number]);
 const pageTimes: number[] = [];
 console.log(`\nfirst page (50) over ${big.length.toLocaleString("en")} rows: prefilter (in memory here, Postgres in the app) + exactSearchPage`);
-for (const text of fragments) {
+for (const text of SEARCH_FRAGMENTS) {
   const q = parseFragmentQuery(text);
   if (!q.ok) throw new Error(q.error);
   t0 = performance.now();
@@ -151,7 +98,7 @@ for (const text of fragments) {
     `  ${text.padEnd(22)} candidates ${String(candidates.length).padStart(6)}  page ${String(page.items.length).padStart(2)}  checked ${String(page.checked).padStart(6)}${page.timedOut ? " (time budget)" : ""}  prefilter ${tFilter.toFixed(0)} ms  total ${t.toFixed(0)} ms`,
   );
 }
-console.log(`  median over ${fragments.length} fragments: ${median(pageTimes).toFixed(0)} ms`);
+console.log(`  median over ${SEARCH_FRAGMENTS.length} fragments: ${median(pageTimes).toFixed(0)} ms`);
 
 const sample = prep.prepared.slice(0, 200).map((p) => {
   const r = parseSmiles(p.smiles ?? "");

@@ -17,31 +17,9 @@ import { env } from "@/env";
 import { parseCsvImport } from "@/lib/chem/import-table";
 import { prepareAll } from "@/server/services/compound-prepare-pool";
 import { insertCompounds, searchCompounds } from "@/server/services/compounds";
-import { inventedSmiles, median } from "./_compound-data";
+import { SEARCH_FRAGMENTS, inventedSmiles, median } from "./_compound-data";
 
 const TARGET = 100_000;
-const FRAGMENTS = [
-  "c1ccccc1",
-  "c1ccncc1",
-  "C(=O)N",
-  "S(=O)(=O)N",
-  "C(F)(F)F",
-  "N1CCNCC1",
-  "C1CCNCC1",
-  "c1ccc2[nH]ccc2c1",
-  "c1ccsc1",
-  "C#N",
-  "NC(=O)N",
-  "c1ccc(cc1)C(=O)N",
-  "C1CC1",
-  "N1CCOCC1",
-  "c1ncncc1",
-  "[F,Cl]c1ccccc1",
-  "OC(=O)c1ccccc1",
-  "c1ccc2ncccc2c1",
-  "CN(C)c1ccccc1",
-  "c1ccco1",
-];
 
 async function count(): Promise<number> {
   const [r] = await db.execute<{ n: number }>(sql`select count(*)::int as n from compounds`);
@@ -85,7 +63,7 @@ async function main() {
   const times: number[] = [];
   console.log("| fragment | prefilter candidates | matches | first page | time (ms) |");
   console.log("|---|---:|---:|---:|---:|");
-  for (const f of FRAGMENTS) {
+  for (const f of SEARCH_FRAGMENTS) {
     const t0 = performance.now();
     const r = await searchCompounds({ substructure: f, limit: 50, offset: 0 });
     const ms = performance.now() - t0;
@@ -93,7 +71,7 @@ async function main() {
     console.log(`| \`${f}\` | ${r.substructure?.candidates.toLocaleString("en")} | ${r.totalIsLowerBound ? "more than " : ""}${r.total.toLocaleString("en")} | ${r.items.length} | ${ms.toFixed(0)} |`);
   }
   const med = median(times);
-  console.log(`\nmedian over ${FRAGMENTS.length} fragments: **${med.toFixed(0)} ms** (max ${Math.max(...times).toFixed(0)} ms); goal < 1000 ms: ${med < 1000 ? "met" : "NOT met"}`);
+  console.log(`\nmedian over ${SEARCH_FRAGMENTS.length} fragments: **${med.toFixed(0)} ms** (max ${Math.max(...times).toFixed(0)} ms); goal < 1000 ms: ${med < 1000 ? "met" : "NOT met"}`);
 }
 
 main()

@@ -10,6 +10,7 @@
  * so every call returns the same list.
  */
 import type { BatchInput, StockInput } from "./validation";
+import { seededUniform as mulberry32 } from "../random";
 
 export interface DemoSeries {
   code: string;
@@ -76,18 +77,6 @@ export const DEMO_SUPPLIERS = [
   "Example Building Blocks (invented)",
   "In-house synthesis",
 ];
-
-/** mulberry32: a small seeded 32-bit generator (public-domain algorithm), good enough for demo data. */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function pick<T>(rand: () => number, items: readonly T[]): T {
   const item = items[Math.floor(rand() * items.length)];

@@ -45,6 +45,23 @@ export interface CompoundProperties {
   undefinedStereo: number;
 }
 
+/** The properties under their public names (API and screens): mw g/mol, exactMass Da, tpsa Å². */
+export function publicProperties(p: CompoundProperties) {
+  return {
+    smiles: p.canonicalSmiles,
+    formula: p.formula,
+    mw: p.mwGPerMol,
+    exactMass: p.exactMassDa,
+    heavyAtoms: p.heavyAtomCount,
+    clogp: p.clogp,
+    hbd: p.hbd,
+    hba: p.hba,
+    tpsa: p.tpsaA2,
+    rotatableBonds: p.rotatableBonds,
+  };
+}
+export type PublicProperties = ReturnType<typeof publicProperties>;
+
 const round = (x: number, digits: number): number => {
   const f = 10 ** digits;
   return Math.round(x * f) / f;

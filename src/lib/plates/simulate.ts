@@ -12,20 +12,11 @@
  */
 import { isEdgeWell, parseWellName } from "./geometry";
 import type { PlateMap, PlateMapWell } from "./plate-map";
+import { seededUniform } from "../random";
 
 // ---------------------------------------------------------------- random numbers
 
-/** mulberry32: a small 32-bit generator (public domain, T. Ettinger); uniform in [0, 1). */
-export function seededUniform(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+export { seededUniform };
 
 /** Standard normal draws by the Box–Muller transform (Box & Muller, Ann Math Stat 1958 [mem]). */
 export function seededNormal(seed: number): () => number {

@@ -2,6 +2,7 @@ import { requireCapabilityAnywhere, requireUser } from "@/server/auth/guard";
 import { json, parseJson, parseQuery, route } from "@/server/http";
 import { PROPERTY_UNITS, registerCompound, searchCompounds } from "@/server/services/compounds";
 import { registerBody, searchQuery } from "./schema";
+import { publicProperties } from "@/lib/chem/properties";
 
 export const dynamic = "force-dynamic";
 
@@ -37,21 +38,11 @@ export const POST = route(async (req) => {
   const user = await requireCapabilityAnywhere("compound:write");
   const body = await parseJson(req, registerBody);
   const r = await registerCompound(user, body);
-  const p = r.properties;
   return json(
     {
       id: r.id,
       registryId: r.registryId,
-      smiles: p.canonicalSmiles,
-      formula: p.formula,
-      mw: p.mwGPerMol,
-      exactMass: p.exactMassDa,
-      heavyAtoms: p.heavyAtomCount,
-      clogp: p.clogp,
-      hbd: p.hbd,
-      hba: p.hba,
-      tpsa: p.tpsaA2,
-      rotatableBonds: p.rotatableBonds,
+      ...publicProperties(r.properties),
       batchNumber: r.batchNumber,
       warnings: r.warnings,
       units: PROPERTY_UNITS,

@@ -6,17 +6,9 @@
 import { mixedRateReciprocal, type InhibitionModel } from "../inhibition-models";
 import type { MechanismPoint } from "../mechanism-fit";
 
-/** mulberry32: a small 32-bit PRNG (public domain, T. Ettinger), uniform in [0, 1). */
-export function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededUniform as seededRandom } from "../../random";
+
+export { seededRandom };
 
 /** Standard normal deviates by Box–Muller from a uniform source. */
 export function seededNormal(uniform: () => number): () => number {

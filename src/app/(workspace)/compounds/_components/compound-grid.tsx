@@ -2,27 +2,13 @@
 import Link from "next/link";
 import { useMemo, useState } from "react";
 import { AgGridReact } from "ag-grid-react";
-import { ClientSideRowModelModule, ModuleRegistry, TooltipModule, themeQuartz, type ColDef, type SortChangedEvent } from "ag-grid-community";
+import { ClientSideRowModelModule, ModuleRegistry, TooltipModule, type ColDef, type SortChangedEvent } from "ag-grid-community";
 import { useCompoundSearch, type CompoundItem } from "@/hooks/use-compounds";
+import { gridTheme } from "@/components/grid/theme";
 
 // Only the modules this grid uses (stack.md trap 3; tooltips for the donor/acceptor header).
 // The page of rows comes from the server, already searched, filtered, sorted and paged.
 ModuleRegistry.registerModules([ClientSideRowModelModule, TooltipModule]);
-
-const theme = themeQuartz.withParams({
-  fontFamily: "inherit",
-  fontSize: 13,
-  headerFontSize: 12,
-  foregroundColor: "#1d2630",
-  headerTextColor: "#66737f",
-  backgroundColor: "#ffffff",
-  headerBackgroundColor: "#f3f1ec",
-  borderColor: "#e3e0d8",
-  rowHoverColor: "#e3f2ef",
-  accentColor: "#0f766e",
-  wrapperBorderRadius: 6,
-  spacing: 5,
-});
 
 const PAGE = 50;
 const fmt = (x: number, d: number) => (Number.isFinite(x) ? x.toFixed(d) : "—");
@@ -162,7 +148,7 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
 
       <div style={{ height: 640 }}>
         <AgGridReact<CompoundItem>
-          theme={theme}
+          theme={gridTheme}
           rowData={data?.items ?? []}
           columnDefs={columns}
           defaultColDef={{ resizable: true, sortable: true, suppressMovable: true }}

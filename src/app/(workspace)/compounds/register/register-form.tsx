@@ -5,26 +5,13 @@ import { FormMessage } from "@/components/forms/form-bits";
 import { registerCompoundSchema, zodFieldErrors } from "@/lib/chem/validation";
 import { BatchFields, StockFields } from "../[registryId]/compound-forms";
 import { registerCompoundAction } from "../actions";
+import type { PublicProperties } from "@/lib/chem/properties";
 
 type Preview =
   | { kind: "empty" }
   | { kind: "loading" }
   | { kind: "error"; message: string }
-  | {
-      kind: "ok";
-      svg: string;
-      formula: string;
-      mw: number;
-      exactMass: number;
-      heavyAtoms: number;
-      clogp: number;
-      hbd: number;
-      hba: number;
-      tpsa: number;
-      rot: number;
-      removed: string[];
-      warnings: string[];
-    };
+  | ({ kind: "ok"; svg: string; removed: string[]; warnings: string[] } & PublicProperties);
 
 /** Live structure preview: openchemlib (~1.1 MB) is loaded only when the chemist starts typing. */
 function useStructurePreview(smiles: string): Preview {
@@ -47,15 +34,7 @@ function useStructurePreview(smiles: string): Preview {
         preview: {
           kind: "ok",
           svg: chem.structureSvg(parsed.molecule, { width: 360, height: 260, idPrefix: "preview-", stereoLabels: true }),
-          formula: p.formula,
-          mw: p.mwGPerMol,
-          exactMass: p.exactMassDa,
-          heavyAtoms: p.heavyAtomCount,
-          clogp: p.clogp,
-          hbd: p.hbd,
-          hba: p.hba,
-          tpsa: p.tpsaA2,
-          rot: p.rotatableBonds,
+          ...chem.publicProperties(p),
           removed: parsed.removedComponents,
           warnings: parsed.warnings,
         },
@@ -214,7 +193,7 @@ export function RegisterForm() {
                     ["cLogP (estimate)", preview.clogp.toFixed(2), ""],
                     ["H-bond donors / acceptors (rule of five)", `${preview.hbd} / ${preview.hba}`, ""],
                     ["TPSA", preview.tpsa.toFixed(1), "Å²"],
-                    ["Rotatable bonds", String(preview.rot), ""],
+                    ["Rotatable bonds", String(preview.rotatableBonds), ""],
                   ] as const
                 ).map(([k, v, u]) => (
                   <tr key={k}>

@@ -10,7 +10,6 @@ import {
   RowSelectionModule,
   TextFilterModule,
   TooltipModule,
-  themeQuartz,
   type CellClickedEvent,
   type ColDef,
   type GridApi,
@@ -27,6 +26,7 @@ import { Flags } from "../../analyses/_components/labels";
 import { MechanismCell, StatusChip } from "./status";
 import { HitPanel } from "./hit-panel";
 import { formatAlpha } from "@/lib/analysis/alpha";
+import { gridTheme } from "@/components/grid/theme";
 
 // Only the modules this grid uses (stack.md trap 3).
 ModuleRegistry.registerModules([
@@ -38,22 +38,6 @@ ModuleRegistry.registerModules([
   CellStyleModule,
   ColumnApiModule,
 ]);
-
-const theme = themeQuartz.withParams({
-  fontFamily: "inherit",
-  fontSize: 13,
-  headerFontSize: 12,
-  foregroundColor: "#1d2630",
-  headerTextColor: "#66737f",
-  backgroundColor: "#ffffff",
-  headerBackgroundColor: "#f3f1ec",
-  borderColor: "#e3e0d8",
-  rowHoverColor: "#e3f2ef",
-  selectedRowBackgroundColor: "#d7ece8",
-  accentColor: "#0f766e",
-  wrapperBorderRadius: 6,
-  spacing: 5,
-});
 
 const BLOCK = 100;
 const dash = <span className="text-ink-faint">—</span>;
@@ -405,7 +389,7 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
 
       <div style={{ height: 640 }} data-testid="hits-grid">
         <AgGridReact<HitItem>
-          theme={theme}
+          theme={gridTheme}
           columnDefs={columns}
           defaultColDef={{ sortable: true, resizable: true, suppressMovable: true, sortingOrder: ["asc", "desc", null], wrapHeaderText: true, autoHeaderHeight: true }}
           rowModelType="infinite"
