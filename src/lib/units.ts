@@ -21,3 +21,12 @@ export function formatConcentration(um: number | null | undefined, digits = 3): 
   if (abs < 1000) return `${Number(um.toPrecision(digits))} µM`;
   return `${Number((um / 1000).toPrecision(digits))} mM`;
 }
+
+/**
+ * A confidence interval of concentrations in µM: "1.2 µM – 3.4 µM"; a missing upper bound is an
+ * unbounded interval ("1.2 µM – ∞"); no bounds at all is "—".
+ */
+export function formatConcentrationRange(loUm: number | null | undefined, hiUm: number | null | undefined): string {
+  if (loUm == null && hiUm == null) return "—";
+  return `${formatConcentration(loUm)} – ${hiUm == null ? "∞" : formatConcentration(hiUm)}`;
+}

@@ -7,7 +7,7 @@ import { db } from "@/server/db/client";
 import { analyses } from "@/server/db/schema";
 import { desc, eq } from "drizzle-orm";
 import { can } from "@/lib/roles";
-import { formatConcentration } from "@/lib/units";
+import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { AnalysisRunner } from "../_components/analysis-runner";
 import { Flags, kindLabel, AnalysisStatusChip } from "../_components/labels";
 import { startAnalysisAction } from "../actions";
@@ -107,7 +107,7 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                       {r.ic50Qualifier ?? ""}
                       {formatConcentration(r.ic50Um)}
                     </td>
-                    <td className="num text-right text-ink-soft">{r.ic50LoUm === null ? "—" : `${formatConcentration(r.ic50LoUm)} – ${formatConcentration(r.ic50HiUm)}`}</td>
+                    <td className="num text-right text-ink-soft">{formatConcentrationRange(r.ic50LoUm, r.ic50HiUm)}</td>
                     <td className="num text-right">{r.hill === null ? "—" : r.hill.toFixed(2)}</td>
                     <td className="num text-right">{fit?.topPct == null ? "—" : fit.topPct.toFixed(1)}</td>
                     <td className="num text-right">{fit?.bottomPct == null ? "—" : fit.bottomPct.toFixed(1)}</td>
@@ -153,7 +153,7 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                     )}
                   </td>
                   <td className="num text-right font-medium">{formatConcentration(r.kiUm)}</td>
-                  <td className="num text-right text-ink-soft">{r.kiLoUm === null && r.kiHiUm === null ? "—" : `${formatConcentration(r.kiLoUm)} – ${r.kiHiUm === null ? "∞" : formatConcentration(r.kiHiUm)}`}</td>
+                  <td className="num text-right text-ink-soft">{formatConcentrationRange(r.kiLoUm, r.kiHiUm)}</td>
                   <td className="num text-right">{formatConcentration(r.kicUm)}</td>
                   <td className="num text-right">{formatConcentration(r.kiuUm)}</td>
                   <td className="num text-right">{formatAlpha(r.alpha, r.mechanism)}</td>

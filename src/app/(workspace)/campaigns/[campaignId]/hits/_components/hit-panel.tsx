@@ -1,7 +1,7 @@
 "use client";
 import Link from "next/link";
 import { useEffect, useState } from "react";
-import { formatConcentration } from "@/lib/units";
+import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { triageLabels, triageStatuses } from "@/lib/hits/query";
 import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { hitActions, hitStructureUrl, useHitDetail, type HitDetail } from "@/hooks/use-hits";
@@ -64,7 +64,7 @@ function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campai
             </Row>
             <Row label="Ki (95 % CI)">
               {formatConcentration(r.ki)}
-              {r.ki !== null ? <span className="text-ink-muted"> ({formatConcentration(r.kiCi95[0])} – {r.kiCi95[1] === null ? "∞" : formatConcentration(r.kiCi95[1])})</span> : null}
+              {r.ki !== null ? <span className="text-ink-muted"> ({formatConcentrationRange(r.kiCi95[0], r.kiCi95[1])})</span> : null}
             </Row>
             <Row label="α = Kiu/Kic">{formatAlpha(r.alpha, r.mechanism)}</Row>
             <Row label="IC50 (95 % CI)">

@@ -18,7 +18,7 @@ import {
   type IGetRowsParams,
   type ICellRendererParams,
 } from "ag-grid-community";
-import { formatConcentration } from "@/lib/units";
+import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { gridToQuery, queryToGrid, type GridFilterModel, type GridSort, type Toolbar } from "@/lib/hits/grid-query";
 import { mechanismFilterValues, triageLabels, triageStatuses, type HitQueryParams } from "@/lib/hits/query";
 import { hitActions, hitStructureUrl, hitsExportUrl, useHitPages, useHitViews, type HitItem } from "@/hooks/use-hits";
@@ -59,7 +59,7 @@ function Concentration({ value, qualifier, ci }: { value: number | null; qualifi
       </span>
       {ci[0] !== null || ci[1] !== null ? (
         <span className="num text-2xs text-ink-muted">
-          95 % CI {formatConcentration(ci[0])} – {ci[1] === null ? "∞" : formatConcentration(ci[1])}
+          95 % CI {formatConcentrationRange(ci[0], ci[1])}
         </span>
       ) : null}
     </span>

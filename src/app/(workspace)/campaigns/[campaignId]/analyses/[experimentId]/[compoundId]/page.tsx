@@ -7,7 +7,7 @@ import { compoundResultDetail, getExperiment } from "@/server/services/analyses"
 import { db } from "@/server/db/client";
 import { analyses, wellReadings } from "@/server/db/schema";
 import { can } from "@/lib/roles";
-import { formatConcentration, toMicromolar } from "@/lib/units";
+import { formatConcentration, formatConcentrationRange, toMicromolar } from "@/lib/units";
 import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { DoseResponsePlot, type DoseResponseFitView } from "@/components/plots/dose-response-plot";
 import { RateVsSubstratePlot, DoubleReciprocalPlot, ResidualPlot, type MechanismModelView } from "@/components/plots/mechanism-plots";
@@ -110,7 +110,7 @@ function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][]
             </tr>
             <tr>
               <td className="text-ink-muted">95 % CI (t on log10 IC50)</td>
-              <td className="num text-right">{r.ic50LoUm === null ? "—" : `${formatConcentration(r.ic50LoUm)} – ${formatConcentration(r.ic50HiUm)}`}</td>
+              <td className="num text-right">{formatConcentrationRange(r.ic50LoUm, r.ic50HiUm)}</td>
             </tr>
             <tr>
               <td className="text-ink-muted">Hill slope (dimensionless)</td>
@@ -182,8 +182,7 @@ function MechanismSection({ r }: { r: Row }) {
           <p className="text-xs font-medium text-ink-muted">Ki</p>
           <p className="num text-lg font-semibold">{formatConcentration(chosen === "uncompetitive" ? fit.kiuUm : fit.kicUm)}</p>
           <p className="num text-xs text-ink-muted">
-            95 % CI {formatConcentration(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"]?.[0])} –{" "}
-            {fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"]?.[1] == null ? "∞" : formatConcentration(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"]?.[1])}
+            95 % CI {formatConcentrationRange(...(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"] ?? [null, null]))}
           </p>
         </div>
         <div>
