@@ -11,13 +11,15 @@ import { registerCompound, createLibrary, formatRegistryId, insertCompounds, pre
 import { startImport } from "@/server/services/compound-imports";
 import type { World } from "./harness";
 
-/** A structure that no other test uses: a phenyl ether with a chain length taken from a counter. */
-let counter = 0;
+/**
+ * A structure that no other test uses: a phenyl ether whose chain is eight random segments of one
+ * to four carbons, each closed by O, N or S (12⁸ ≈ 4·10⁸ chains). Test files run in parallel
+ * processes against one database, so a counter alone repeated structures across files, and a
+ * repeat is refused as already registered (seen once in CI).
+ */
 export function uniqueSmiles(): string {
-  counter += 1;
-  const n = 3 + (counter % 40);
-  const m = 1 + Math.floor(counter / 40) + (crypto.randomBytes(1)[0]! % 30);
-  return `${"C".repeat(n)}Oc1ccc(cc1)C(=O)N${"C".repeat(m)}`;
+  const chain = [...crypto.randomBytes(8)].map((b) => "C".repeat(1 + (b % 4)) + ["O", "N", "S"][Math.floor(b / 4) % 3]).join("");
+  return `C${chain}COc1ccc(cc1)C(=O)NC`;
 }
 
 const cache = new Map<string, Promise<{ registryId: string; libraryId: string; importId: string }>>();
