@@ -5,7 +5,16 @@ const config = [
   ...nextVitals,
   ...nextTs,
   {
-    ignores: [".next/**", ".next-*/**", ".local/**", "node_modules/**", "artifacts/**", "drizzle/**", "next-env.d.ts", "fixtures/**"],
+    ignores: [
+      ".next/**",
+      ".next-*/**",
+      ".local/**",
+      "node_modules/**",
+      "artifacts/**",
+      "drizzle/**",
+      "next-env.d.ts",
+      "fixtures/**",
+    ],
   },
   {
     rules: {

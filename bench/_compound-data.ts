@@ -6,10 +6,50 @@ import { seededUniform as mulberry32 } from "../src/lib/random";
 
 export { mulberry32 };
 
-const HEADS = ["C", "CC", "FC(F)(F)", "N#C", "CO", "CN(C)", "O=C(O)", "Cl", "F", "c8ccccc8", "C8CC8", "C8CCOCC8", "o8cccc8"];
-const CORES = ["c8ccc(cc8)", "c8cccc(c8)", "c8ccc(nc8)", "c8ccc(s8)", "C8CCN(CC8)", "N8CCN(CC8)", "c8cnc(nc8)", "c8ccc9[nH]ccc9c8", "c8ccc9ncccc9c8", "c8cn(C)nc8"];
+const HEADS = [
+  "C",
+  "CC",
+  "FC(F)(F)",
+  "N#C",
+  "CO",
+  "CN(C)",
+  "O=C(O)",
+  "Cl",
+  "F",
+  "c8ccccc8",
+  "C8CC8",
+  "C8CCOCC8",
+  "o8cccc8",
+];
+const CORES = [
+  "c8ccc(cc8)",
+  "c8cccc(c8)",
+  "c8ccc(nc8)",
+  "c8ccc(s8)",
+  "C8CCN(CC8)",
+  "N8CCN(CC8)",
+  "c8cnc(nc8)",
+  "c8ccc9[nH]ccc9c8",
+  "c8ccc9ncccc9c8",
+  "c8cn(C)nc8",
+];
 const LINKS = ["", "C", "CC", "C(=O)N", "NC(=O)", "O", "S(=O)(=O)N", "N", "C(=O)", "OC", "NC(=O)N", "C#C"];
-const TAILS = ["C", "F", "Cl", "OC", "C(F)(F)F", "C#N", "N(C)C", "C(=O)O", "O", "c8ccccc8", "C8CC8", "N8CCOCC8", "C(N)=O", "S(C)(=O)=O"];
+const TAILS = [
+  "C",
+  "F",
+  "Cl",
+  "OC",
+  "C(F)(F)F",
+  "C#N",
+  "N(C)C",
+  "C(=O)O",
+  "O",
+  "c8ccccc8",
+  "C8CC8",
+  "N8CCOCC8",
+  "C(N)=O",
+  "S(C)(=O)=O",
+];
 
 /** `count` distinct invented SMILES strings. */
 export function inventedSmiles(count: number, seed = 11): string[] {
@@ -18,7 +58,8 @@ export function inventedSmiles(count: number, seed = 11): string[] {
   const seen = new Set<string>();
   while (seen.size < count) {
     const two = rand() < 0.6;
-    const s = pick(HEADS) + pick(LINKS) + pick(CORES) + pick(LINKS) + (two ? pick(CORES) + pick(LINKS) : "") + pick(TAILS);
+    const s =
+      pick(HEADS) + pick(LINKS) + pick(CORES) + pick(LINKS) + (two ? pick(CORES) + pick(LINKS) : "") + pick(TAILS);
     seen.add(s);
   }
   return [...seen];

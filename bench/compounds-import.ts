@@ -19,7 +19,10 @@ async function main() {
   const actor = { id: crypto.randomUUID(), email: `bench-${Date.now()}@bench.invalid` };
   await db.insert(users).values({ ...actor, name: "Benchmark user (invented)", globalRole: "admin" });
   const smiles = inventedSmiles(N, 20251201);
-  const csv = ["smiles,name,supplier,purity_pct,amount_mg", ...smiles.map((s, i) => `${s},BENCH-${i + 1},Invented Supplier,98.5,10`)].join("\n");
+  const csv = [
+    "smiles,name,supplier,purity_pct,amount_mg",
+    ...smiles.map((s, i) => `${s},BENCH-${i + 1},Invented Supplier,98.5,10`),
+  ].join("\n");
   const bytes = new TextEncoder().encode(csv);
   const [before] = await db.execute<{ n: number }>(sql`select count(*)::int as n from compounds`);
 
@@ -43,7 +46,9 @@ async function main() {
   const [after] = await db.execute<{ n: number }>(sql`select count(*)::int as n from compounds`);
 
   const s = (ms: number) => (ms / 1000).toFixed(1);
-  console.log(`Bulk import of ${N.toLocaleString("en")} SMILES records through the service (${os.availableParallelism()} cores, load average ${os.loadavg()[0]?.toFixed(1)}; preparation on ${preview.threads} worker thread(s))\n`);
+  console.log(
+    `Bulk import of ${N.toLocaleString("en")} SMILES records through the service (${os.availableParallelism()} cores, load average ${os.loadavg()[0]?.toFixed(1)}; preparation on ${preview.threads} worker thread(s))\n`,
+  );
   console.log("| step | time (s) |");
   console.log("|---|---:|");
   console.log(`| store in S3 with SHA-256, create job | ${s(tStored - t0)} |`);
@@ -57,14 +62,21 @@ async function main() {
   }
   console.log(`| register in one transaction (INSERT … SELECT from the staged records) | ${s(tDone - tPrepared)} |`);
   console.log(`| **total** | **${s(tDone - t0)}** |`);
-  console.log(`\nCPU time of the server process during store + preparation: ${cpuPrepS.toFixed(1)} s (${((1000 * cpuPrepS) / N).toFixed(2)} ms per record over all threads).`);
+  console.log(
+    `\nCPU time of the server process during store + preparation: ${cpuPrepS.toFixed(1)} s (${((1000 * cpuPrepS) / N).toFixed(2)} ms per record over all threads).`,
+  );
   const reasons = new Map<string, number>();
   for (const n of result.notRegistered) {
-    const key = n.reason.replace(/record \d+ \(line \d+\)/, "record N").replace(/"[^"]*"/g, '"…"').slice(0, 80);
+    const key = n.reason
+      .replace(/record \d+ \(line \d+\)/, "record N")
+      .replace(/"[^"]*"/g, '"…"')
+      .slice(0, 80);
     reasons.set(key, (reasons.get(key) ?? 0) + 1);
   }
   for (const [r, k] of reasons) console.log(`  not registered ×${k}: ${r}`);
-  console.log(`\nrecords ${preview.totalRecords}, registered ${result.registered.length} (${result.registered[0]?.registryId} … ${result.registered.at(-1)?.registryId}), not registered ${new Set(result.notRegistered.map((n) => n.record)).size}; rows added ${(after?.n ?? 0) - (before?.n ?? 0)}`);
+  console.log(
+    `\nrecords ${preview.totalRecords}, registered ${result.registered.length} (${result.registered[0]?.registryId} … ${result.registered.at(-1)?.registryId}), not registered ${new Set(result.notRegistered.map((n) => n.record)).size}; rows added ${(after?.n ?? 0) - (before?.n ?? 0)}`,
+  );
   console.log(`goal < 30 s: ${tDone - t0 < 30_000 ? "met" : "NOT met"}`);
 }
 

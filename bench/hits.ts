@@ -53,7 +53,14 @@ async function populate() {
     const p = prepareStructure({ smiles: d.smiles });
     if (seen.has(p.properties.structureKey)) continue;
     seen.add(p.properties.structureKey);
-    pool.push({ properties: p.properties, fingerprintBits: p.fingerprintBits, name: `HBSRC ${d.name} (bench, invented)`, aliases: [], batches: [], stocks: [] });
+    pool.push({
+      properties: p.properties,
+      fingerprintBits: p.fingerprintBits,
+      name: `HBSRC ${d.name} (bench, invented)`,
+      aliases: [],
+      batches: [],
+      stocks: [],
+    });
   }
   await db.transaction((tx) => insertCompounds(tx, null, pool).then(() => undefined));
   await db.execute(sql`
@@ -65,16 +72,31 @@ async function populate() {
     join (select row_number() over (order by registry_number) - 1 as k, c.* from compounds c where c.name like 'HBSRC %') s on s.k = g % ${pool.length}`);
   const tCompounds = performance.now();
 
-  const lead = { id: crypto.randomUUID(), email: `bench-lead-${Date.now()}@bench.invalid`, name: "Bench Lead (invented)" };
+  const lead = {
+    id: crypto.randomUUID(),
+    email: `bench-lead-${Date.now()}@bench.invalid`,
+    name: "Bench Lead (invented)",
+  };
   await db.insert(users).values({ ...lead, passwordHash: null, globalRole: "member" });
-  const [c] = await db.insert(campaigns).values({ name: "Bench campaign, 100,000 compounds (invented)", targetEnzyme: "Benchase (invented)" }).returning();
+  const [c] = await db
+    .insert(campaigns)
+    .values({ name: "Bench campaign, 100,000 compounds (invented)", targetEnzyme: "Benchase (invented)" })
+    .returning();
   const campaignId = c!.id;
   await db.insert(memberships).values({ campaignId, userId: lead.id, role: "lead" });
 
   await db.execute(sql`select setseed(0.42)`);
   const addAnalysis = async (kind: string, share: number, cols: ReturnType<typeof sql>) => {
-    const [e] = await db.execute<{ id: string }>(sql`insert into experiments (campaign_id, name, kind) values (${campaignId}, ${`Bench ${kind} (invented)`}, ${kind}) returning id`);
-    const inputs = JSON.stringify({ engineVersion: "bench", kind, settings: { resolved: { hitThresholdPct: 50, kmUm: null, enzymeNm: null } }, runs: [], masks: [] });
+    const [e] = await db.execute<{ id: string }>(
+      sql`insert into experiments (campaign_id, name, kind) values (${campaignId}, ${`Bench ${kind} (invented)`}, ${kind}) returning id`,
+    );
+    const inputs = JSON.stringify({
+      engineVersion: "bench",
+      kind,
+      settings: { resolved: { hitThresholdPct: 50, kmUm: null, enzymeNm: null } },
+      runs: [],
+      masks: [],
+    });
     const [a] = await db.execute<{ id: string }>(sql`
       insert into analyses (experiment_id, campaign_id, status, progress, engine_version, input_hash, inputs, is_current, finished_at)
       values (${e!.id}, ${campaignId}, 'done', 1, 'bench', ${crypto.randomUUID()}, ${inputs}::jsonb, true, now()) returning id`);
@@ -118,7 +140,9 @@ async function populate() {
   await db.execute(sql`
     update hit_rows h set status = d.to_status, owner_id = d.by, owner_name = ${lead.name}, status_changed_at = d.at
     from triage_decisions d where d.campaign_id = h.campaign_id and d.compound_id = h.compound_id and h.campaign_id = ${campaignId}`);
-  await db.execute(sql`update hit_rows set last_tested_at = now() - random() * interval '90 days' where campaign_id = ${campaignId}`);
+  await db.execute(
+    sql`update hit_rows set last_tested_at = now() - random() * interval '90 days' where campaign_id = ${campaignId}`,
+  );
   await bumpHitVersion(db, campaignId); // the rows were changed directly above
 
   await db.execute(sql`vacuum analyze hit_rows`);
@@ -171,7 +195,11 @@ type LoadResult = { lat: number[]; per: Map<string, number[]>; errors: number; s
  * counted). Each connection keeps one query shape of `paths` and asks for a random page of it;
  * every response time is kept, so the percentiles are exact rather than histogram buckets.
  */
-async function cannon(paths: { name: string; path: (offset: number) => string }[], cookie: string, seconds: number): Promise<LoadResult> {
+async function cannon(
+  paths: { name: string; path: (offset: number) => string }[],
+  cookie: string,
+  seconds: number,
+): Promise<LoadResult> {
   const run = (duration: number, record: boolean) =>
     new Promise<LoadResult>((resolve, reject) => {
       const lat: number[] = [];
@@ -215,7 +243,10 @@ const floor = (cookie: string) => cannon([{ name: "me", path: () => "/api/me" }]
 
 const load = (campaignId: string, cookie: string) =>
   cannon(
-    QUERIES.map((q) => ({ name: q.name, path: (offset: number) => `/api/campaigns/${campaignId}/hits?${q.qs}&limit=100&offset=${offset}` })),
+    QUERIES.map((q) => ({
+      name: q.name,
+      path: (offset: number) => `/api/campaigns/${campaignId}/hits?${q.qs}&limit=100&offset=${offset}`,
+    })),
     cookie,
     DURATION_MS / 1000,
   );
@@ -242,16 +273,26 @@ async function timeToInteractive(campaignId: string, sessionId: string) {
 }
 
 async function main() {
-  console.log(`Hit grid over ${N.toLocaleString("en")} invented compounds (${os.availableParallelism()} cores, load average before start ${os.loadavg()[0]?.toFixed(1)})\n`);
+  console.log(
+    `Hit grid over ${N.toLocaleString("en")} invented compounds (${os.availableParallelism()} cores, load average before start ${os.loadavg()[0]?.toFixed(1)})\n`,
+  );
   const pop = (process.env.BENCH_HITS_REUSE === "1" && (await reusable())) || (await populate());
-  const [rows] = await db.execute<{ n: number }>(sql`select count(*)::int as n from hit_rows where campaign_id = ${pop.campaignId}`);
+  const [rows] = await db.execute<{ n: number }>(
+    sql`select count(*)::int as n from hit_rows where campaign_id = ${pop.campaignId}`,
+  );
   console.log(
     `population: compounds ${pop.compoundsS.toFixed(1)} s, results ${pop.resultsS.toFixed(1)} s, refreshHitRows for ${rows!.n.toLocaleString("en")} compounds in one transaction ${pop.refreshS.toFixed(1)} s\n`,
   );
   const sessionId = await createSessionId(pop.leadId);
   const cookie = `${SESSION_COOKIE}=${sessionId}`;
   // A dist folder that eslint and git already ignore (".next-test*"), apart from the test builds.
-  const env = { ...process.env, NEXT_DIST_DIR: ".next-test-bench-hits", NEXT_TELEMETRY_DISABLED: "1", NODE_ENV: "production" as const, APP_URL: BASE };
+  const env = {
+    ...process.env,
+    NEXT_DIST_DIR: ".next-test-bench-hits",
+    NEXT_TELEMETRY_DISABLED: "1",
+    NODE_ENV: "production" as const,
+    APP_URL: BASE,
+  };
   const tb = performance.now();
   // next build adds its dist folder to tsconfig.json's include list; put the shared file back.
   const tsconfig = fs.readFileSync(path.join(root, "tsconfig.json"), "utf8");
@@ -259,10 +300,15 @@ async function main() {
     if (!(process.env.BENCH_HITS_NO_BUILD === "1" && fs.existsSync(path.join(root, env.NEXT_DIST_DIR, "BUILD_ID"))))
       run(process.execPath, ["node_modules/next/dist/bin/next", "build"], env);
   } finally {
-    if (fs.readFileSync(path.join(root, "tsconfig.json"), "utf8") !== tsconfig) fs.writeFileSync(path.join(root, "tsconfig.json"), tsconfig);
+    if (fs.readFileSync(path.join(root, "tsconfig.json"), "utf8") !== tsconfig)
+      fs.writeFileSync(path.join(root, "tsconfig.json"), tsconfig);
   }
   console.log(`\nnext build: ${((performance.now() - tb) / 1000).toFixed(0)} s`);
-  let server: ChildProcess | null = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(PORT)], { cwd: root, env, stdio: ["ignore", "ignore", "inherit"] });
+  let server: ChildProcess | null = spawn(
+    process.execPath,
+    ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(PORT)],
+    { cwd: root, env, stdio: ["ignore", "ignore", "inherit"] },
+  );
   try {
     await waitFor(`${BASE}/api/health`, 90_000);
     const r = await load(pop.campaignId, cookie);
@@ -270,18 +316,32 @@ async function main() {
     const me = (await floor(cookie)).lat;
     const p95 = quantile(r.lat, 0.95);
     const ttiMed = quantile(tti, 0.5);
-    console.log(`\n${CLIENTS} concurrent clients for ${r.seconds} s after a ${WARMUP_MS / 1000} s warm-up, pages of 100 from GET /api/campaigns/{id}/hits over HTTP on loopback (next start)\n`);
+    console.log(
+      `\n${CLIENTS} concurrent clients for ${r.seconds} s after a ${WARMUP_MS / 1000} s warm-up, pages of 100 from GET /api/campaigns/{id}/hits over HTTP on loopback (next start)\n`,
+    );
     console.log("| query | requests | p50 (ms) | p95 (ms) | p99 (ms) |");
     console.log("|---|---:|---:|---:|---:|");
     for (const q of QUERIES) {
       const xs = r.per.get(q.name)!;
-      console.log(`| ${q.name} | ${xs.length} | ${quantile(xs, 0.5).toFixed(0)} | ${quantile(xs, 0.95).toFixed(0)} | ${quantile(xs, 0.99).toFixed(0)} |`);
+      console.log(
+        `| ${q.name} | ${xs.length} | ${quantile(xs, 0.5).toFixed(0)} | ${quantile(xs, 0.95).toFixed(0)} | ${quantile(xs, 0.99).toFixed(0)} |`,
+      );
     }
-    console.log(`| **all** | ${r.lat.length} (${(r.lat.length / r.seconds).toFixed(0)}/s, ${r.errors} errors) | ${quantile(r.lat, 0.5).toFixed(0)} | **${p95.toFixed(0)}** | ${quantile(r.lat, 0.99).toFixed(0)} |`);
-    console.log(`| for comparison: GET /api/me (session check + 1 query), 10 s | ${me.length} (${(me.length / 10).toFixed(0)}/s) | ${quantile(me, 0.5).toFixed(0)} | ${quantile(me, 0.95).toFixed(0)} | ${quantile(me, 0.99).toFixed(0)} |`);
-    console.log(`\n| grid page in chromium | loads | median (ms) | max (ms) |\n|---|---:|---:|---:|\n| navigation → first rows in the grid | ${tti.length} | **${ttiMed.toFixed(0)}** | ${Math.max(...tti).toFixed(0)} |`);
-    console.log(`\nload average at the end: ${os.loadavg()[0]?.toFixed(1)} (other processes on this machine share its ${os.availableParallelism()} cores)`);
-    console.log(`\ngoals: p95 < 150 ms: ${p95 < 150 ? "met" : "NOT met"}; interactive < 2 s: ${ttiMed < 2000 ? "met" : "NOT met"}`);
+    console.log(
+      `| **all** | ${r.lat.length} (${(r.lat.length / r.seconds).toFixed(0)}/s, ${r.errors} errors) | ${quantile(r.lat, 0.5).toFixed(0)} | **${p95.toFixed(0)}** | ${quantile(r.lat, 0.99).toFixed(0)} |`,
+    );
+    console.log(
+      `| for comparison: GET /api/me (session check + 1 query), 10 s | ${me.length} (${(me.length / 10).toFixed(0)}/s) | ${quantile(me, 0.5).toFixed(0)} | ${quantile(me, 0.95).toFixed(0)} | ${quantile(me, 0.99).toFixed(0)} |`,
+    );
+    console.log(
+      `\n| grid page in chromium | loads | median (ms) | max (ms) |\n|---|---:|---:|---:|\n| navigation → first rows in the grid | ${tti.length} | **${ttiMed.toFixed(0)}** | ${Math.max(...tti).toFixed(0)} |`,
+    );
+    console.log(
+      `\nload average at the end: ${os.loadavg()[0]?.toFixed(1)} (other processes on this machine share its ${os.availableParallelism()} cores)`,
+    );
+    console.log(
+      `\ngoals: p95 < 150 ms: ${p95 < 150 ? "met" : "NOT met"}; interactive < 2 s: ${ttiMed < 2000 ? "met" : "NOT met"}`,
+    );
     if (r.errors > 0) process.exitCode = 1;
   } finally {
     server.kill("SIGTERM");

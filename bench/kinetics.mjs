@@ -44,7 +44,15 @@ function log(msg) {
 // --- bundles ---------------------------------------------------------------------------------
 const cliBundle = join(OUT, "analyze.cjs"); // CommonJS: Node loads it a little faster than ESM
 const libBundle = join(OUT, "kinetics-lib.mjs");
-await build({ entryPoints: [join(ROOT, "src/cli/analyze.ts")], bundle: true, platform: "node", format: "cjs", target: "node20", outfile: cliBundle, logLevel: "warning" });
+await build({
+  entryPoints: [join(ROOT, "src/cli/analyze.ts")],
+  bundle: true,
+  platform: "node",
+  format: "cjs",
+  target: "node20",
+  outfile: cliBundle,
+  logLevel: "warning",
+});
 await build({
   stdin: {
     contents: 'export * from "./src/lib/kinetics/index.ts"; export * from "./src/lib/kinetics/testdata/synthetic.ts";',
@@ -77,13 +85,20 @@ log(`wrote ${N_CURVES} curves (${csvLines.length - 1} rows) and ${N_MECH} mechan
 // --- helpers ---------------------------------------------------------------------------------
 /** Runs a command (stdout to outFile) through bench/_timed.py: wall time and the child's CPU time. */
 function timeProcess(cmd, args, outFile) {
-  const r = spawnSync("python3", [join(ROOT, "bench/_timed.py"), outFile, cmd, ...args], { cwd: ROOT, encoding: "utf8" });
+  const r = spawnSync("python3", [join(ROOT, "bench/_timed.py"), outFile, cmd, ...args], {
+    cwd: ROOT,
+    encoding: "utf8",
+  });
   if (r.status !== 0) throw new Error(`${cmd} ${args.join(" ")} failed (${r.status}): ${r.stderr}`);
   return JSON.parse(r.stdout);
 }
 const median = (v) => [...v].sort((a, b) => a - b)[v.length >> 1];
 const fmt = (s) => (s < 10 ? s.toFixed(2) : s.toFixed(1));
-const versions = spawnSync("python3", ["-c", "import scipy, numpy, sys; print(scipy.__version__, numpy.__version__, sys.version.split()[0])"], { encoding: "utf8" });
+const versions = spawnSync(
+  "python3",
+  ["-c", "import scipy, numpy, sys; print(scipy.__version__, numpy.__version__, sys.version.split()[0])"],
+  { encoding: "utf8" },
+);
 if (versions.status !== 0) throw new Error("python3 with scipy is needed (apt-get install -y python3-scipy)");
 const [scipyVersion, numpyVersion, pythonVersion] = versions.stdout.trim().split(" ");
 
@@ -98,10 +113,22 @@ for (let r = 0; r < RUNS; r++) {
   engineRuns.push(timeProcess(process.execPath, [cliBundle, "dose-response", csvPath], engineOut));
   scipyRuns.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), csvPath], scipyOut));
   // SciPy again with the analytic Jacobian, to show the comparison does not hinge on finite differences.
-  scipyJacRuns.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), "--analytic-jacobian", csvPath], join(OUT, "scipy-dose-response-jac.json")));
-  log(`dose-response run ${r + 1}: engine ${fmt(engineRuns[r].wall)} s (CPU ${fmt(engineRuns[r].cpu)} s), SciPy ${fmt(scipyRuns[r].wall)} s (CPU ${fmt(scipyRuns[r].cpu)} s), SciPy with analytic Jacobian ${fmt(scipyJacRuns[r].wall)} s`);
+  scipyJacRuns.push(
+    timeProcess(
+      "python3",
+      [join(ROOT, "bench/scipy_dose_response.py"), "--analytic-jacobian", csvPath],
+      join(OUT, "scipy-dose-response-jac.json"),
+    ),
+  );
+  log(
+    `dose-response run ${r + 1}: engine ${fmt(engineRuns[r].wall)} s (CPU ${fmt(engineRuns[r].cpu)} s), SciPy ${fmt(scipyRuns[r].wall)} s (CPU ${fmt(scipyRuns[r].cpu)} s), SciPy with analytic Jacobian ${fmt(scipyJacRuns[r].wall)} s`,
+  );
 }
-const tsxTime = timeProcess(join(ROOT, "node_modules/.bin/tsx"), [join(ROOT, "src/cli/analyze.ts"), "dose-response", csvPath], join(OUT, "engine-dose-response-tsx.json")).wall;
+const tsxTime = timeProcess(
+  join(ROOT, "node_modules/.bin/tsx"),
+  [join(ROOT, "src/cli/analyze.ts"), "dose-response", csvPath],
+  join(OUT, "engine-dose-response-tsx.json"),
+).wall;
 const engineRes = JSON.parse(readFileSync(engineOut, "utf8"));
 const scipyRes = JSON.parse(readFileSync(scipyOut, "utf8"));
 let agree = 0;
@@ -133,7 +160,9 @@ for (let r = 0; r < RUNS; r++) {
   log(`mechanism run ${r + 1}: engine ${fmt(engineMech.seconds)} s, SciPy ${fmt(scipyMech.seconds)} s`);
 }
 const sameChoice = engineMech.results.filter((e, k) => e.best === scipyMech.results[k].best).length;
-const notWorse = engineMech.results.filter((e, k) => models.every((m) => e.rss[m] <= scipyMech.results[k].rss[m] * (1 + 1e-6))).length;
+const notWorse = engineMech.results.filter((e, k) =>
+  models.every((m) => e.rss[m] <= scipyMech.results[k].rss[m] * (1 + 1e-6)),
+).length;
 const mechEngine = median(mechEngineTimes);
 const mechScipy = median(mechScipyTimes);
 
@@ -144,7 +173,10 @@ for (const c of fourPlWarm) lib.fitLogistic4(c.concentration, c.response); // bo
 let t0 = performance.now();
 const ours = sub.map((c) => lib.fitLogistic4(c.concentration, c.response));
 const oursPerSecond = N_ML / ((performance.now() - t0) / 1000);
-const fourPl = ([bottom, top, l, h]) => (lx) => bottom + (top - bottom) / (1 + Math.pow(10, h * (lx - l)));
+const fourPl =
+  ([bottom, top, l, h]) =>
+  (lx) =>
+    bottom + (top - bottom) / (1 + Math.pow(10, h * (lx - l)));
 const mlFit = (c) => {
   const lx = c.concentration.map(Math.log10);
   const y = c.response;
@@ -162,7 +194,9 @@ for (const c of fourPlWarm) mlFit(c);
 t0 = performance.now();
 const mlFits = sub.map(mlFit);
 const mlPerSecond = N_ML / ((performance.now() - t0) / 1000);
-const mlAgree = mlFits.filter((f, k) => Math.abs(Math.pow(10, f.parameterValues[2]) - ours[k].ic50) / ours[k].ic50 < 0.005).length;
+const mlAgree = mlFits.filter(
+  (f, k) => Math.abs(Math.pow(10, f.parameterValues[2]) - ours[k].ic50) / ours[k].ic50 < 0.005,
+).length;
 
 // --- report ----------------------------------------------------------------------------------
 const cpu = cpus()[0]?.model ?? "unknown CPU";

@@ -21,7 +21,16 @@ import type { PlateMapWell } from "@/lib/plates/plate-map";
 const z = seededNormal(7);
 
 function fullMap(format: PlateFormat): PlateMapWell[] {
-  return withControls(format).wells.map((w, i) => (w.role === "empty" ? { well: w.well, role: "sample" as const, compound: `INH-${String((i % 900) + 1).padStart(6, "0")}`, concentrationUm: 10 } : w));
+  return withControls(format).wells.map((w, i) =>
+    w.role === "empty"
+      ? {
+          well: w.well,
+          role: "sample" as const,
+          compound: `INH-${String((i % 900) + 1).padStart(6, "0")}`,
+          concentrationUm: 10,
+        }
+      : w,
+  );
 }
 
 function endpointValues(map: PlateMapWell[]): Map<string, number> {
@@ -30,7 +39,9 @@ function endpointValues(map: PlateMapWell[]): Map<string, number> {
 
 function kineticFile(map: PlateMapWell[], reads: number): { timesS: number[]; wells: Map<string, number[]> } {
   const timesS = Array.from({ length: reads }, (_, k) => k * 10);
-  const wells = new Map(map.map((w) => [w.well, timesS.map((t) => Number((200 + (w.role === "full" ? 0 : 0.8) * t + 3 * z()).toFixed(1)))]));
+  const wells = new Map(
+    map.map((w) => [w.well, timesS.map((t) => Number((200 + (w.role === "full" ? 0 : 0.8) * t + 3 * z()).toFixed(1)))]),
+  );
   return { timesS, wells };
 }
 
@@ -39,8 +50,13 @@ const p90 = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.min(xs.length -
 
 async function main(): Promise<void> {
   const userId = crypto.randomUUID();
-  await db.insert(users).values({ id: userId, email: `bench-${userId}@bench.invalid`, name: "Bench (invented)", globalRole: "admin" });
-  const [campaign] = await db.insert(campaigns).values({ name: "Bench campaign (invented)", targetEnzyme: "Bench enzyme (invented)" }).returning();
+  await db
+    .insert(users)
+    .values({ id: userId, email: `bench-${userId}@bench.invalid`, name: "Bench (invented)", globalRole: "admin" });
+  const [campaign] = await db
+    .insert(campaigns)
+    .values({ name: "Bench campaign (invented)", targetEnzyme: "Bench enzyme (invented)" })
+    .returning();
   const actor = { id: userId, email: `bench-${userId}@bench.invalid` };
   const rows: string[] = [];
 
@@ -48,7 +64,16 @@ async function main(): Promise<void> {
     const map = fullMap(format);
     const [m] = await db
       .insert(plateMaps)
-      .values({ campaignId: campaign!.id, name: `${label} map`, format, wells: map, sampleWells: map.filter((w) => w.role === "sample").length, neutralWells: 0, fullWells: 0, createdBy: userId })
+      .values({
+        campaignId: campaign!.id,
+        name: `${label} map`,
+        format,
+        wells: map,
+        sampleWells: map.filter((w) => w.role === "sample").length,
+        neutralWells: 0,
+        fullWells: 0,
+        createdBy: userId,
+      })
       .returning();
     const enc = new TextEncoder();
     const ms: number[] = [];
@@ -58,7 +83,12 @@ async function main(): Promise<void> {
       const bytes = enc.encode(make(k));
       size = bytes.byteLength;
       const t0 = performance.now();
-      const r = await uploadRun(actor, campaign!, { plateMapId: m!.id, fileName: `${label}-${k}.csv`, contentType: "text/csv", bytes });
+      const r = await uploadRun(actor, campaign!, {
+        plateMapId: m!.id,
+        fileName: `${label}-${k}.csv`,
+        contentType: "text/csv",
+        bytes,
+      });
       const dt = performance.now() - t0;
       if (r.qc.verdict !== "pass") throw new Error(`${label}: QC ${r.qc.verdict}`);
       const p0 = performance.now();
@@ -70,23 +100,44 @@ async function main(): Promise<void> {
       }
     }
     const med = median(ms);
-    rows.push(`| ${label} | ${(size / 1024).toFixed(0)} KB | ${runs} | ${med.toFixed(0)} ms | ${p90(ms).toFixed(0)} ms | ${median(parseMs).toFixed(0)} ms | < ${goalMs} ms | ${med < goalMs ? "met" : "NOT met"} |`);
+    rows.push(
+      `| ${label} | ${(size / 1024).toFixed(0)} KB | ${runs} | ${med.toFixed(0)} ms | ${p90(ms).toFixed(0)} ms | ${median(parseMs).toFixed(0)} ms | < ${goalMs} ms | ${med < goalMs ? "met" : "NOT met"} |`,
+    );
   }
 
   const m1536 = fullMap(1536);
-  await bench("1536-well endpoint, CSV grid", 1536, (k) => writeGridText(1536, [{ values: endpointValues(m1536) }], { notes: [`Invented bench plate ${k}`] }), 15, 300);
+  await bench(
+    "1536-well endpoint, CSV grid",
+    1536,
+    (k) => writeGridText(1536, [{ values: endpointValues(m1536) }], { notes: [`Invented bench plate ${k}`] }),
+    15,
+    300,
+  );
   const m384 = fullMap(384);
   const kin = kineticFile(m384, 60);
   await bench(
     "384-well kinetic, 60 reads, CSV grids",
     384,
-    (k) => writeGridText(384, kin.timesS.map((timeS, i) => ({ timeS, values: new Map([...kin.wells].map(([w, s]) => [w, s[i]!])) })), { notes: [`Invented bench plate ${k}`] }),
+    (k) =>
+      writeGridText(
+        384,
+        kin.timesS.map((timeS, i) => ({ timeS, values: new Map([...kin.wells].map(([w, s]) => [w, s[i]!])) })),
+        { notes: [`Invented bench plate ${k}`] },
+      ),
     15,
     500,
   );
-  await bench("384-well kinetic, 60 reads, CSV long", 384, (k) => writeLongKinetic(kin.timesS, kin.wells, { notes: [`Invented bench plate ${k}`] }), 15, 500);
+  await bench(
+    "384-well kinetic, 60 reads, CSV long",
+    384,
+    (k) => writeLongKinetic(kin.timesS, kin.wells, { notes: [`Invented bench plate ${k}`] }),
+    15,
+    500,
+  );
 
-  console.log(`node ${process.version}; upload service end to end (hash, S3 fake, parse, map check, rates, QC, % inhibition, one transaction)\n`);
+  console.log(
+    `node ${process.version}; upload service end to end (hash, S3 fake, parse, map check, rates, QC, % inhibition, one transaction)\n`,
+  );
   console.log("| case | file | runs | median | p90 | of which parse (median) | goal | |");
   console.log("|---|---|---|---|---|---|---|---|");
   for (const r of rows) console.log(r);

@@ -16,7 +16,9 @@ function endpointValues(format: PlateFormat): Map<string, number> {
 
 function kineticSeries(format: PlateFormat, reads: number): { timesS: number[]; wells: Map<string, number[]> } {
   const timesS = Array.from({ length: reads }, (_, k) => k * 10);
-  const wells = new Map(allWells(format).map((w) => [w, timesS.map((t) => Number((200 + 0.8 * t + 3 * z()).toFixed(1)))]));
+  const wells = new Map(
+    allWells(format).map((w) => [w, timesS.map((t) => Number((200 + 0.8 * t + 3 * z()).toFixed(1)))]),
+  );
   return { timesS, wells };
 }
 
@@ -35,7 +37,9 @@ async function time(label: string, bytes: Uint8Array, name: string, runs = 20): 
   }
   ms.sort((a, b) => a - b);
   const median = ms[Math.floor(ms.length / 2)]!;
-  console.log(`${label.padEnd(38)} ${(bytes.length / 1024).toFixed(0).padStart(6)} KB  median ${median.toFixed(1).padStart(6)} ms  max ${ms[ms.length - 1]!.toFixed(1).padStart(6)} ms  (${summary})`);
+  console.log(
+    `${label.padEnd(38)} ${(bytes.length / 1024).toFixed(0).padStart(6)} KB  median ${median.toFixed(1).padStart(6)} ms  max ${ms[ms.length - 1]!.toFixed(1).padStart(6)} ms  (${summary})`,
+  );
 }
 
 async function main(): Promise<void> {
@@ -51,7 +55,12 @@ async function main(): Promise<void> {
   await time("384-well × 60 reads, CSV long", enc.encode(writeLongKinetic(k.timesS, k.wells)), "k.csv");
   await time("384-well × 60 reads, XLSX grids", await writeGridXlsx(384, reads), "k.xlsx", 10);
   const big = kineticSeries(1536, 500);
-  await time("1536-well × 500 reads, CSV long (limit)", enc.encode(writeLongKinetic(big.timesS, big.wells)), "big.csv", 5);
+  await time(
+    "1536-well × 500 reads, CSV long (limit)",
+    enc.encode(writeLongKinetic(big.timesS, big.wells)),
+    "big.csv",
+    5,
+  );
 }
 
 main().catch((err: unknown) => {

@@ -34,7 +34,10 @@ describe("analyses", () => {
     const n = await rows.count();
     expect(n).toBeGreaterThan(0);
     for (let k = 0; k < n; k++) await rows.nth(k).locator('input[type="checkbox"]').check();
-    await Promise.all([page.waitForURL(/\/analyses\/[0-9a-f-]{36}$/, { timeout: 30_000 }), page.getByRole("button", { name: "Create experiment" }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/analyses\/[0-9a-f-]{36}$/, { timeout: 30_000 }),
+      page.getByRole("button", { name: "Create experiment" }).click(),
+    ]);
     await page.getByRole("button", { name: "Run analysis" }).click();
     await page.getByText("The results below are up to date").waitFor({ timeout: 90_000 });
     await page.locator("table a", { hasText: "INH-000001" }).first().waitFor();
@@ -49,13 +52,18 @@ describe("analyses", () => {
   it("shows a mechanism page with the model comparison and the double-reciprocal diagnostic", async () => {
     const base = await openDemoCampaign(page);
     await page.goto(`${APP_URL}${base}/analyses`);
-    await page.getByRole("link", { name: /Mechanism study/ }).first().click();
+    await page
+      .getByRole("link", { name: /Mechanism study/ })
+      .first()
+      .click();
     await page.waitForURL(/\/analyses\/[0-9a-f-]{36}$/);
     await page.locator("table a", { hasText: "INH-000004" }).first().click();
     await page.waitForURL(/INH-000004$/);
     await page.getByText("Model comparison").waitFor();
     await page.locator(".js-plotly-plot").nth(1).waitFor({ timeout: 30_000 });
-    await expect(page.getByText("Double-reciprocal (diagnostic only; not used for fitting)").count()).resolves.toBeGreaterThan(0);
+    await expect(
+      page.getByText("Double-reciprocal (diagnostic only; not used for fitting)").count(),
+    ).resolves.toBeGreaterThan(0);
     await shot(page, "analysis-mechanism");
   });
 });

@@ -55,7 +55,9 @@ describe("sign-in and roles", () => {
   it("hides the other campaign from the viewer (404), and shows the team page read-only", async () => {
     const admin = await newPage(browser);
     await signIn(admin, "admin@example.org");
-    const hrefs = await admin.locator("tbody tr a").evaluateAll((as) => as.map((a) => (a as HTMLAnchorElement).getAttribute("href")));
+    const hrefs = await admin
+      .locator("tbody tr a")
+      .evaluateAll((as) => as.map((a) => (a as HTMLAnchorElement).getAttribute("href")));
     await admin.goto(`${APP_URL}${hrefs.find((h) => h)!}/team`);
     await shot(admin, "team-page-admin");
     await admin.goto(`${APP_URL}/admin/audit`);
@@ -72,7 +74,9 @@ describe("sign-in and roles", () => {
     const resAdmin = await viewer.goto(`${APP_URL}/admin/audit`);
     expect(resAdmin?.status()).toBe(404);
     await viewer.goto(`${APP_URL}${own}/team`);
-    await expect(viewer.getByText("Only the project lead or an administrator changes thresholds.").count()).resolves.toBe(1);
+    await expect(
+      viewer.getByText("Only the project lead or an administrator changes thresholds.").count(),
+    ).resolves.toBe(1);
     await expect(viewer.getByRole("button", { name: "Send invitation" }).count()).resolves.toBe(0);
     await shot(viewer, "team-page-viewer");
     await viewer.close();

@@ -32,7 +32,11 @@ describe("compound registry", () => {
     await page.locator(".ag-row", { hasText: "BS-003" }).first().waitFor({ timeout: 15_000 });
     // AG Grid positions rows absolutely, so the DOM order is not the display order: ask for row 0
     // (the exact name ranks before names that are only similar).
-    await page.waitForFunction(() => [...document.querySelectorAll('.ag-row[row-index="0"]')].some((r) => r.textContent?.includes("BS-003")), undefined, { timeout: 15_000 });
+    await page.waitForFunction(
+      () => [...document.querySelectorAll('.ag-row[row-index="0"]')].some((r) => r.textContent?.includes("BS-003")),
+      undefined,
+      { timeout: 15_000 },
+    );
 
     await page.fill('input[name="q"]', "");
     await page.fill('input[name="substructure"]', "c1ccc2[nH]cnc2c1");
@@ -81,8 +85,13 @@ describe("compound registry", () => {
     const page = await newPage(browser);
     await signIn(page, "chemist@example.org");
     const lines = ["smiles,name"];
-    for (let i = 0; i < 700; i++) lines.push(`${"C".repeat(1 + (i % 25))}Oc1ccc(cc1)S(=O)(=O)N${"C".repeat(1 + Math.floor(i / 25))}${i % 2 ? "Cl" : "Br"},E2E-W-${i + 1} (invented)`);
-    const up = await page.request.post(`${APP_URL}/api/compound-imports`, { multipart: { file: { name: "workers.csv", mimeType: "text/csv", buffer: Buffer.from(lines.join("\n")) } } });
+    for (let i = 0; i < 700; i++)
+      lines.push(
+        `${"C".repeat(1 + (i % 25))}Oc1ccc(cc1)S(=O)(=O)N${"C".repeat(1 + Math.floor(i / 25))}${i % 2 ? "Cl" : "Br"},E2E-W-${i + 1} (invented)`,
+      );
+    const up = await page.request.post(`${APP_URL}/api/compound-imports`, {
+      multipart: { file: { name: "workers.csv", mimeType: "text/csv", buffer: Buffer.from(lines.join("\n")) } },
+    });
     expect(up.status()).toBe(202);
     const { id } = (await up.json()) as { id: string };
     let job: { status: string; preview?: { threads: number; valid: number } } = { status: "stored" };
@@ -119,9 +128,16 @@ describe("compound registry", () => {
     await page.getByText("Outcome").waitFor({ timeout: 30_000 });
     await expect(page.locator('section[aria-label="Outcome"]').innerText()).resolves.toMatch(/9 registered/);
     await shot(page, "compound-import-done");
-    const report = await page.request.get(`${page.url().replace("/compounds/import/", "/api/compound-imports/")}/report`);
+    const report = await page.request.get(
+      `${page.url().replace("/compounds/import/", "/api/compound-imports/")}/report`,
+    );
     const text = await report.text();
-    expect(text.split("\r\n").filter((l) => l.includes(",not registered,")).map((l) => Number(l.split(",")[0]))).toEqual([4, 8, 11]);
+    expect(
+      text
+        .split("\r\n")
+        .filter((l) => l.includes(",not registered,"))
+        .map((l) => Number(l.split(",")[0])),
+    ).toEqual([4, 8, 11]);
     await page.close();
   });
 });

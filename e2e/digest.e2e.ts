@@ -34,11 +34,18 @@ describe("weekly digest", () => {
     await result.waitFor({ timeout: 60_000 });
     const week = (await result.innerText()).match(/Week of (\d{4}-\d{2}-\d{2})/)![1]!;
     const thisWeek = async () =>
-      ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.filter((m) => m.subject.includes(`week of ${week}`) && (m.html ?? "").includes(`${campaignPath}/`));
+      ((await (await fetch(`${MAIL}/__outbox`)).json()) as { data: Msg[] }).data.filter(
+        (m) => m.subject.includes(`week of ${week}`) && (m.html ?? "").includes(`${campaignPath}/`),
+      );
     // (A send the worker had in flight at that moment lands within seconds.)
     await expect.poll(async () => (await thisWeek()).length, { timeout: 20_000 }).toBe(4);
     const all = await thisWeek();
-    expect(all.map((m) => m.to[0]).sort()).toEqual(["assay@example.org", "chemist@example.org", "lead@example.org", "viewer@example.org"]);
+    expect(all.map((m) => m.to[0]).sort()).toEqual([
+      "assay@example.org",
+      "chemist@example.org",
+      "lead@example.org",
+      "viewer@example.org",
+    ]);
 
     // A second press sends nothing new.
     await page.getByRole("button", { name: "Send now" }).click();

@@ -20,7 +20,8 @@ afterAll(async () => {
   await browser?.close();
 });
 
-const firstId = (p: Page, row = 0) => p.locator(`.ag-row[row-index="${row}"] [data-testid="open-panel"]`).first().innerText();
+const firstId = (p: Page, row = 0) =>
+  p.locator(`.ag-row[row-index="${row}"] [data-testid="open-panel"]`).first().innerText();
 const count = async (p: Page) => Number((await p.getByTestId("hit-count").innerText()).replace(/[^0-9]/g, ""));
 
 describe("hit triage", () => {
@@ -50,14 +51,23 @@ describe("hit triage", () => {
     await shot(page, "hits-grid");
 
     // Filter: unreviewed, clean fits only.
-    await page.getByRole("group", { name: "Filter by triage status" }).getByRole("button", { name: "unreviewed" }).click();
+    await page
+      .getByRole("group", { name: "Filter by triage status" })
+      .getByRole("button", { name: "unreviewed" })
+      .click();
     await page.getByLabel("Fit quality").selectOption("false");
     await expect.poll(() => count(page), { timeout: 30_000 }).toBeLessThan(all);
     // Sort by IC50, ascending (a click on the header).
     await page.locator('.ag-header-cell[col-id="ic50"] .ag-header-cell-label').click();
-    await expect.poll(async () => (await page.getByText("Sorted by IC50, ascending").count()) > 0, { timeout: 30_000 }).toBe(true);
+    await expect
+      .poll(async () => (await page.getByText("Sorted by IC50, ascending").count()) > 0, { timeout: 30_000 })
+      .toBe(true);
     await page.waitForTimeout(500);
-    const api = (await (await page.request.get(`${APP_URL}/api${campaignPath}/hits?sort=ic50&dir=asc&status=unreviewed&flagged=false&limit=5`)).json()) as { items: { registryId: string }[]; total: number };
+    const api = (await (
+      await page.request.get(
+        `${APP_URL}/api${campaignPath}/hits?sort=ic50&dir=asc&status=unreviewed&flagged=false&limit=5`,
+      )
+    ).json()) as { items: { registryId: string }[]; total: number };
     await expect.poll(() => firstId(page), { timeout: 30_000 }).toBe(api.items[0]!.registryId);
     expect(await firstId(page, 1)).toBe(api.items[1]!.registryId);
     expect(await count(page)).toBe(api.total);
@@ -65,7 +75,10 @@ describe("hit triage", () => {
 
     // Export the view: the CSV has the same rows in the same order, with units in the headers.
     const [csvDownload] = await Promise.all([page.waitForEvent("download"), page.getByTestId("export-csv").click()]);
-    const csv = fs.readFileSync((await csvDownload.path())!, "utf8").trim().split("\r\n");
+    const csv = fs
+      .readFileSync((await csvDownload.path())!, "utf8")
+      .trim()
+      .split("\r\n");
     expect(csv[0]).toContain("Ki (µM)");
     expect(csv[0]).toContain("IC50 (µM)");
     expect(csv.length - 1).toBe(api.total);
@@ -79,13 +92,20 @@ describe("hit triage", () => {
     await page.locator('.ag-row[row-index="0"] [data-testid="open-panel"]').click();
     const panel = page.getByTestId("hit-panel");
     await panel.getByText("Triage decision").waitFor();
-    await panel.locator(".js-plotly-plot").first().waitFor({ timeout: 30_000 }).catch(() => undefined);
+    await panel
+      .locator(".js-plotly-plot")
+      .first()
+      .waitFor({ timeout: 30_000 })
+      .catch(() => undefined);
     await shot(page, "hits-panel");
     await panel.getByLabel("New status").selectOption("confirmed");
     await panel.locator('input[name="comment"]').fill("Clean curve; confirm in the mechanism study (e2e, invented)");
     await panel.getByRole("button", { name: "Record" }).click();
     await panel.getByText("Recorded: confirmed.").waitFor({ timeout: 30_000 });
-    await panel.getByTestId("status-history").getByText("Clean curve; confirm in the mechanism study").waitFor({ timeout: 30_000 });
+    await panel
+      .getByTestId("status-history")
+      .getByText("Clean curve; confirm in the mechanism study")
+      .waitFor({ timeout: 30_000 });
     await shot(page, "hits-panel-decided");
     await panel.getByRole("button", { name: "Close the compound panel" }).click();
 
@@ -102,7 +122,9 @@ describe("hit triage", () => {
     await shot(page, "hits-selection");
     await bar.getByRole("button", { name: "Set status for 2" }).click();
     await page.getByText('Status "on hold" recorded for 2 compounds').waitFor({ timeout: 30_000 });
-    const held = (await (await page.request.get(`${APP_URL}/api${campaignPath}/hits?status=on-hold&limit=100`)).json()) as { items: { registryId: string }[] };
+    const held = (await (
+      await page.request.get(`${APP_URL}/api${campaignPath}/hits?status=on-hold&limit=100`)
+    ).json()) as { items: { registryId: string }[] };
     expect(held.items.map((i) => i.registryId)).toEqual(expect.arrayContaining([a, b]));
   });
 

@@ -39,7 +39,10 @@ describe("plates", () => {
     await page.getByText("Imported single-dose-96.map.csv.").waitFor();
     await page.getByText("The plate map is complete").waitFor();
     await page.fill('input[name="name"]', "E2E single-dose 96 (invented)");
-    await Promise.all([page.waitForURL(/\/plates\/maps\/[0-9a-f-]{36}$/, { timeout: 30_000 }), page.getByRole("button", { name: "Save as a new plate map" }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/plates\/maps\/[0-9a-f-]{36}$/, { timeout: 30_000 }),
+      page.getByRole("button", { name: "Save as a new plate map" }).click(),
+    ]);
     await expect(page.locator("h1").innerText()).resolves.toBe("E2E single-dose 96 (invented)");
     await shot(page, "plate-map-editor");
   });
@@ -52,7 +55,10 @@ describe("plates", () => {
     await report.getByText("CSV, long table, endpoint: 96-well plate, 96 wells").waitFor({ timeout: 30_000 });
     await report.getByText("would pass").waitFor();
     await shot(page, "plate-upload-preview");
-    await Promise.all([page.waitForURL(/\/plates\/runs\/[0-9a-f-]{36}$/, { timeout: 60_000 }), page.getByRole("button", { name: "Store and parse" }).click()]);
+    await Promise.all([
+      page.waitForURL(/\/plates\/runs\/[0-9a-f-]{36}$/, { timeout: 60_000 }),
+      page.getByRole("button", { name: "Store and parse" }).click(),
+    ]);
     await page.getByTestId("heatmap-raw").locator(".js-plotly-plot").waitFor({ timeout: 30_000 });
     await page.getByTestId("heatmap-inhibition").locator(".js-plotly-plot").waitFor({ timeout: 30_000 });
     await expect(page.getByRole("region", { name: "Quality control" }).getByText("Z′-factor").count()).resolves.toBe(1);
@@ -67,7 +73,9 @@ describe("plates", () => {
     await page.getByRole("button", { name: "Mask A3" }).click();
     await page.getByText(/Well A3 masked\. QC recomputed/).waitFor({ timeout: 30_000 });
     // Once in the well inspector ("masked because"), once in the mask history.
-    await expect.poll(() => page.getByRole("cell", { name: "bubble seen at dispensing (e2e)" }).count(), { timeout: 30_000 }).toBe(2);
+    await expect
+      .poll(() => page.getByRole("cell", { name: "bubble seen at dispensing (e2e)" }).count(), { timeout: 30_000 })
+      .toBe(2);
     await shot(page, "plate-run-masked");
   });
 
@@ -85,7 +93,10 @@ describe("plates", () => {
     await page.goto(platesUrl);
     await page.getByRole("link", { name: "screen-13.csv" }).click();
     await page.getByTestId("heatmap-raw").locator(".js-plotly-plot").waitFor({ timeout: 30_000 });
-    await page.getByText(/edge effect/).first().waitFor();
+    await page
+      .getByText(/edge effect/)
+      .first()
+      .waitFor();
     await shot(page, "plate-run-edge");
     await page.goto(platesUrl);
     await page.getByRole("link", { name: "mechanism-01.csv" }).click();

@@ -17,14 +17,26 @@ const files = fs
   .filter((f) => only.length === 0 || only.some((o) => f.startsWith(o)))
   .sort();
 
-const stack = await startStack({ name: "bench", ports: { pg: 55229, s3: 5469, mail: 4925 }, database: "inhibitrack_bench", freshDatabase: true });
-const env = { ...process.env, ...stack.env, NEXT_TELEMETRY_DISABLED: "1", AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: "true" };
+const stack = await startStack({
+  name: "bench",
+  ports: { pg: 55229, s3: 5469, mail: 4925 },
+  database: "inhibitrack_bench",
+  freshDatabase: true,
+});
+const env = {
+  ...process.env,
+  ...stack.env,
+  NEXT_TELEMETRY_DISABLED: "1",
+  AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: "true",
+};
 let failed = 0;
 try {
   migrate(env);
   for (const f of files) {
     console.log(`\n### bench/${f}\n`);
-    const args = f.endsWith(".ts") ? ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", `bench/${f}`] : [`bench/${f}`];
+    const args = f.endsWith(".ts")
+      ? ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", `bench/${f}`]
+      : [`bench/${f}`];
     const r = spawnSync(process.execPath, args, { cwd: root, env, stdio: "inherit" });
     if (r.status !== 0) failed += 1;
   }

@@ -28,7 +28,9 @@ if (held) {
 }
 if (!(await portFree(port))) {
   fs.rmSync(lockFile, { force: true });
-  console.error(`Port ${port} on 127.0.0.1 is already in use by another program. Set PORT to another port, e.g. PORT=3001 npm start.`);
+  console.error(
+    `Port ${port} on 127.0.0.1 is already in use by another program. Set PORT to another port, e.g. PORT=3001 npm start.`,
+  );
   process.exit(1);
 }
 
@@ -72,7 +74,11 @@ try {
   };
   migrate(env);
   const tsx = path.join(root, "node_modules/tsx/dist/cli.mjs");
-  const seed = spawnSync(process.execPath, [tsx, "--conditions=react-server", "src/cli/seed.ts", "--if-empty"], { cwd: root, env, stdio: "inherit" });
+  const seed = spawnSync(process.execPath, [tsx, "--conditions=react-server", "src/cli/seed.ts", "--if-empty"], {
+    cwd: root,
+    env,
+    stdio: "inherit",
+  });
   if (seed.status !== 0) throw new Error("Loading the demo data failed (see above).");
 
   const next = path.join(root, "node_modules/next/dist/bin/next");
@@ -81,7 +87,11 @@ try {
       log("The production build is up to date.");
     } else {
       log("Building the app (next build, about a minute)…");
-      const b = spawnSync(process.execPath, [next, "build"], { cwd: root, env: { ...env, NODE_ENV: "production" }, stdio: "inherit" });
+      const b = spawnSync(process.execPath, [next, "build"], {
+        cwd: root,
+        env: { ...env, NODE_ENV: "production" },
+        stdio: "inherit",
+      });
       if (b.status !== 0) throw new Error("next build failed (see above).");
       writeBuildStamp();
     }
@@ -99,7 +109,11 @@ try {
     }
   });
   if (fs.existsSync(path.join(root, "src/cli/worker.ts"))) {
-    const worker = spawn(process.execPath, [tsx, "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], { cwd: root, env, stdio: "inherit" });
+    const worker = spawn(process.execPath, [tsx, "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], {
+      cwd: root,
+      env,
+      stdio: "inherit",
+    });
     children.push(worker);
   }
   await waitForHttp(`${appUrl}/api/health`, 120_000);

@@ -19,12 +19,16 @@ const want = (step) => only.length === 0 || only.includes(step);
 
 function aptInstall(pkgs) {
   execFileSync("apt-get", ["update", "-qq"], { stdio: "inherit" });
-  execFileSync("apt-get", ["install", "-y", "-qq", "--no-install-recommends", ...pkgs], { stdio: "inherit", env: { ...process.env, DEBIAN_FRONTEND: "noninteractive" } });
+  execFileSync("apt-get", ["install", "-y", "-qq", "--no-install-recommends", ...pkgs], {
+    stdio: "inherit",
+    env: { ...process.env, DEBIAN_FRONTEND: "noninteractive" },
+  });
 }
 
 function ensureChromium() {
   for (const p of ["/usr/bin/chromium", "/usr/bin/chromium-browser"]) if (fs.existsSync(p)) return p;
-  if (!isRoot) throw new Error("Debian's chromium is needed for the end-to-end tests: sudo apt-get install -y chromium");
+  if (!isRoot)
+    throw new Error("Debian's chromium is needed for the end-to-end tests: sudo apt-get install -y chromium");
   log("Installing Debian's chromium for the end-to-end tests…");
   aptInstall(["chromium", "fonts-dejavu-core"]);
   return "/usr/bin/chromium";
@@ -32,7 +36,8 @@ function ensureChromium() {
 
 function ensureScipy() {
   if (spawnSync("python3", ["-c", "import scipy"], { stdio: "ignore" }).status === 0) return;
-  if (!isRoot) throw new Error("SciPy is the reference oracle of the numerical tests: sudo apt-get install -y python3-scipy");
+  if (!isRoot)
+    throw new Error("SciPy is the reference oracle of the numerical tests: sudo apt-get install -y python3-scipy");
   log("Installing Debian's python3-scipy (reference oracle for the numerical tests)…");
   aptInstall(["python3-scipy"]);
 }
@@ -57,14 +62,31 @@ function runStep(name, cmd, args, env) {
 
 function runVitest(name, config, env) {
   log(`▶ ${name}`);
-  const out = path.join(root, ".local", `vitest-${name}${process.env.TEST_SLOT ? `-${process.env.TEST_SLOT}` : ""}.json`);
+  const out = path.join(
+    root,
+    ".local",
+    `vitest-${name}${process.env.TEST_SLOT ? `-${process.env.TEST_SLOT}` : ""}.json`,
+  );
   fs.rmSync(out, { force: true });
   const t0 = Date.now();
-  const r = spawnSync(process.execPath, ["node_modules/vitest/vitest.mjs", "run", "--config", config, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`, ...(process.env.TEST_FILTER ? process.env.TEST_FILTER.split(" ") : [])], {
-    cwd: root,
-    env,
-    stdio: "inherit",
-  });
+  const r = spawnSync(
+    process.execPath,
+    [
+      "node_modules/vitest/vitest.mjs",
+      "run",
+      "--config",
+      config,
+      "--reporter=default",
+      "--reporter=json",
+      `--outputFile.json=${out}`,
+      ...(process.env.TEST_FILTER ? process.env.TEST_FILTER.split(" ") : []),
+    ],
+    {
+      cwd: root,
+      env,
+      stdio: "inherit",
+    },
+  );
   let p = 0;
   let f = 0;
   try {
@@ -113,7 +135,13 @@ try {
   const chromium = want("e2e") ? ensureChromium() : "";
   const lockPort = await portFree(ports.s3);
   if (!lockPort) throw new Error(`Port ${ports.s3} is in use: is another \`npm test\` running?`);
-  stack = await startStack({ name: slot ? `test${slot}` : "test", ports, database: "inhibitrack_test", freshDatabase: true, log });
+  stack = await startStack({
+    name: slot ? `test${slot}` : "test",
+    ports,
+    database: "inhibitrack_test",
+    freshDatabase: true,
+    log,
+  });
   const appUrl = `http://127.0.0.1:${appPort}`;
   const env = {
     ...process.env,
@@ -128,12 +156,24 @@ try {
   };
   migrate(env);
 
-  if (want("typecheck")) runStep("typecheck (tsc --noEmit)", process.execPath, ["node_modules/typescript/bin/tsc", "--noEmit", "-p", "tsconfig.json"], env);
-  if (want("lint")) runStep("lint (eslint)", process.execPath, ["node_modules/eslint/bin/eslint.js", "--max-warnings=0", "."], env);
+  if (want("typecheck"))
+    runStep(
+      "typecheck (tsc --noEmit)",
+      process.execPath,
+      ["node_modules/typescript/bin/tsc", "--noEmit", "-p", "tsconfig.json"],
+      env,
+    );
+  if (want("lint"))
+    runStep("lint (eslint)", process.execPath, ["node_modules/eslint/bin/eslint.js", "--max-warnings=0", "."], env);
   if (want("unit")) runVitest("unit-and-integration", "vitest.config.ts", env);
 
   if (want("e2e") || want("build")) {
-    const built = runStep("production build (next build)", process.execPath, ["node_modules/next/dist/bin/next", "build"], { ...env, NODE_ENV: "production" });
+    const built = runStep(
+      "production build (next build)",
+      process.execPath,
+      ["node_modules/next/dist/bin/next", "build"],
+      { ...env, NODE_ENV: "production" },
+    );
     if (built && want("e2e")) {
       // The e2e journeys run against the built app with the demo data, in a database of their own.
       const e2eUrl = new URL(env.DATABASE_URL);
@@ -143,19 +183,31 @@ try {
       await ensureDatabase(adminUrl.toString(), e2eUrl.pathname.slice(1), { fresh: true });
       env.DATABASE_URL = e2eUrl.toString();
       migrate(env);
-      const seed = spawnSync(process.execPath, ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", "src/cli/seed.ts", "--if-empty"], { cwd: root, env: { ...env, DEMO_DATA: "1" }, stdio: "inherit" });
+      const seed = spawnSync(
+        process.execPath,
+        ["node_modules/tsx/dist/cli.mjs", "--conditions=react-server", "src/cli/seed.ts", "--if-empty"],
+        { cwd: root, env: { ...env, DEMO_DATA: "1" }, stdio: "inherit" },
+      );
       if (seed.status !== 0) throw new Error("Seeding the e2e database failed.");
-      app = spawn(process.execPath, ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(appPort)], {
-        cwd: root,
-        env: { ...env, NODE_ENV: "production", DEMO_DATA: "1" },
-        stdio: ["ignore", "inherit", "inherit"],
-      });
+      app = spawn(
+        process.execPath,
+        ["node_modules/next/dist/bin/next", "start", "-H", "127.0.0.1", "-p", String(appPort)],
+        {
+          cwd: root,
+          env: { ...env, NODE_ENV: "production", DEMO_DATA: "1" },
+          stdio: ["ignore", "inherit", "inherit"],
+        },
+      );
       // The background worker runs analyses started from the UI, as under `npm start`.
-      worker = spawn(process.execPath, ["node_modules/tsx/dist/cli.mjs", "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], {
-        cwd: root,
-        env: { ...env, NODE_ENV: "production" },
-        stdio: ["ignore", "inherit", "inherit"],
-      });
+      worker = spawn(
+        process.execPath,
+        ["node_modules/tsx/dist/cli.mjs", "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"],
+        {
+          cwd: root,
+          env: { ...env, NODE_ENV: "production" },
+          stdio: ["ignore", "inherit", "inherit"],
+        },
+      );
       await waitForHttp(`${appUrl}/api/health`, 90_000);
       fs.mkdirSync(env.E2E_ARTIFACTS, { recursive: true });
       runVitest("e2e", "vitest.e2e.config.ts", env);

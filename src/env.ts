@@ -22,7 +22,10 @@ const schema = z.object({
   MAIL_FROM: z.string().default("Inhibitrack <no-reply@inhibitrack.invalid>"),
   /** Secret for signed links (digest opt-out). Defaults to a fixed value outside production mode. */
   LINK_SIGNING_SECRET: z.string().min(16).optional(),
-  REGISTRY_PREFIX: z.string().regex(/^[A-Z][A-Z0-9]{0,7}-$/, "REGISTRY_PREFIX must look like INH-").default("INH-"),
+  REGISTRY_PREFIX: z
+    .string()
+    .regex(/^[A-Z][A-Z0-9]{0,7}-$/, "REGISTRY_PREFIX must look like INH-")
+    .default("INH-"),
 });
 
 const parsed = schema.safeParse(process.env);

@@ -79,14 +79,19 @@ function send(res, status, obj, type = "application/json") {
   res.end(payload);
 }
 
-const esc = (s) => String(s ?? "").replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]);
+const esc = (s) =>
+  String(s ?? "").replace(
+    /[&<>"']/g,
+    (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c],
+  );
 
 function page(messages) {
   const rows = messages
     .slice()
     .reverse()
     .map(
-      (m) => `<tr><td>${esc(m.created_at.replace("T", " ").slice(0, 19))}</td><td>${esc(m.to.join(", "))}</td><td><a href="/__outbox/${esc(m.id)}/html">${esc(m.subject)}</a></td><td><a href="/__outbox/${esc(m.id)}">json</a></td></tr>`,
+      (m) =>
+        `<tr><td>${esc(m.created_at.replace("T", " ").slice(0, 19))}</td><td>${esc(m.to.join(", "))}</td><td><a href="/__outbox/${esc(m.id)}/html">${esc(m.subject)}</a></td><td><a href="/__outbox/${esc(m.id)}">json</a></td></tr>`,
     )
     .join("");
   return `<!doctype html><html><head><meta charset="utf-8"><title>Local outbox</title>
@@ -105,7 +110,8 @@ const server = http.createServer((req, res) => {
   });
   req.on("end", () => {
     try {
-      if (req.method === "GET" && url.pathname === "/") return send(res, 200, page(listMessages()), "text/html; charset=utf-8");
+      if (req.method === "GET" && url.pathname === "/")
+        return send(res, 200, page(listMessages()), "text/html; charset=utf-8");
       if (req.method === "GET" && url.pathname === "/health") return send(res, 200, { ok: true });
       if (req.method === "GET" && url.pathname === "/__outbox") return send(res, 200, { data: listMessages() });
       if (req.method === "DELETE" && url.pathname === "/__outbox") {
@@ -123,7 +129,11 @@ const server = http.createServer((req, res) => {
       }
       const auth = req.headers.authorization ?? "";
       if (!auth.startsWith("Bearer ") || auth.length < 10) {
-        return send(res, 401, { statusCode: 401, name: "missing_api_key", message: "Missing API key in the authorization header." });
+        return send(res, 401, {
+          statusCode: 401,
+          name: "missing_api_key",
+          message: "Missing API key in the authorization header.",
+        });
       }
       if (req.method === "POST" && (url.pathname === "/emails" || url.pathname === "/emails/batch")) {
         let body;
@@ -135,7 +145,12 @@ const server = http.createServer((req, res) => {
         const idem = req.headers["idempotency-key"];
         const key = Array.isArray(idem) ? idem[0] : idem;
         if (url.pathname === "/emails/batch") {
-          if (!Array.isArray(body)) return send(res, 422, { statusCode: 422, name: "validation_error", message: "Batch body must be an array." });
+          if (!Array.isArray(body))
+            return send(res, 422, {
+              statusCode: 422,
+              name: "validation_error",
+              message: "Batch body must be an array.",
+            });
           for (const b of body) {
             const err = validate(b);
             if (err) return send(res, 422, { statusCode: 422, name: "validation_error", message: err });
@@ -154,7 +169,11 @@ const server = http.createServer((req, res) => {
         if (!m) return send(res, 404, { statusCode: 404, name: "not_found", message: "Email not found" });
         return send(res, 200, { object: "email", ...m, last_event: "delivered" });
       }
-      return send(res, 404, { statusCode: 404, name: "not_found", message: "Route not found in the local e-mail fake." });
+      return send(res, 404, {
+        statusCode: 404,
+        name: "not_found",
+        message: "Route not found in the local e-mail fake.",
+      });
     } catch (e) {
       console.error(e);
       return send(res, 500, { statusCode: 500, name: "application_error", message: "The local e-mail fake failed." });

@@ -39,7 +39,14 @@ export function ensurePostgresBinaries(log = console.log) {
     env: { ...process.env, DEBIAN_FRONTEND: "noninteractive" },
   });
   // Debian's package starts a cluster as a system service; the project never uses it.
-  spawnSync("sh", ["-c", "command -v pg_ctlcluster >/dev/null && pg_lsclusters -h 2>/dev/null | awk '{print $1, $2}' | while read v c; do pg_ctlcluster $v $c stop; done"], { stdio: "ignore" });
+  spawnSync(
+    "sh",
+    [
+      "-c",
+      "command -v pg_ctlcluster >/dev/null && pg_lsclusters -h 2>/dev/null | awk '{print $1, $2}' | while read v c; do pg_ctlcluster $v $c stop; done",
+    ],
+    { stdio: "ignore" },
+  );
   bin = findBinDir();
   if (!bin) throw new Error("Installed `postgresql` but still found no initdb under /usr/lib/postgresql/*/bin.");
   return bin;
@@ -93,9 +100,29 @@ export function startPostgres({ dir, port, user = "inhibitrack", log = console.l
   if (!fs.existsSync(path.join(data, "PG_VERSION"))) {
     fs.mkdirSync(data, { recursive: true });
     chownToPostgres(dir);
-    const r = run(path.join(bin, "initdb"), ["-D", data, "-U", user, "--auth=trust", "-E", "UTF8", "--locale=C.UTF-8", "--no-sync"]);
+    const r = run(path.join(bin, "initdb"), [
+      "-D",
+      data,
+      "-U",
+      user,
+      "--auth=trust",
+      "-E",
+      "UTF8",
+      "--locale=C.UTF-8",
+      "--no-sync",
+    ]);
     if (r.status !== 0) {
-      const r2 = run(path.join(bin, "initdb"), ["-D", data, "-U", user, "--auth=trust", "-E", "UTF8", "--locale=C", "--no-sync"]);
+      const r2 = run(path.join(bin, "initdb"), [
+        "-D",
+        data,
+        "-U",
+        user,
+        "--auth=trust",
+        "-E",
+        "UTF8",
+        "--locale=C",
+        "--no-sync",
+      ]);
       if (r2.status !== 0) throw new Error(`initdb failed:\n${r.stderr}\n${r2.stderr}`);
     }
     // Loopback only, and a little more room for the test suite's parallel connections.
@@ -110,7 +137,18 @@ export function startPostgres({ dir, port, user = "inhibitrack", log = console.l
   if (status.status === 0) {
     alreadyRunning = true;
   } else {
-    const r = run(path.join(bin, "pg_ctl"), ["-D", data, "-o", `-k ${sock} -p ${port} -h 127.0.0.1`, "-l", logFile, "-w", "-t", "60", "start"]);
+    const r = run(path.join(bin, "pg_ctl"), [
+      "-D",
+      data,
+      "-o",
+      `-k ${sock} -p ${port} -h 127.0.0.1`,
+      "-l",
+      logFile,
+      "-w",
+      "-t",
+      "60",
+      "start",
+    ]);
     if (r.status !== 0) {
       let tail = "";
       try {

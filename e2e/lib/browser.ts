@@ -42,5 +42,8 @@ export async function signIn(page: Page, email: string, password = DEMO_PASSWORD
   await page.goto(`${APP_URL}/sign-in`);
   await page.fill('input[name="email"]', email);
   await page.fill('input[name="password"]', password);
-  await Promise.all([page.waitForURL((u) => !u.pathname.startsWith("/sign-in"), { timeout: 30_000 }), page.click('button[type="submit"]')]);
+  await Promise.all([
+    page.waitForURL((u) => !u.pathname.startsWith("/sign-in"), { timeout: 30_000 }),
+    page.click('button[type="submit"]'),
+  ]);
 }

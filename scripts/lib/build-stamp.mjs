@@ -5,7 +5,15 @@ import path from "node:path";
 import crypto from "node:crypto";
 import { root } from "./stack.mjs";
 
-const inputs = ["src", "public", "next.config.ts", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json", "package-lock.json"];
+const inputs = [
+  "src",
+  "public",
+  "next.config.ts",
+  "tailwind.config.ts",
+  "postcss.config.mjs",
+  "tsconfig.json",
+  "package-lock.json",
+];
 
 function walk(p, out) {
   if (!fs.existsSync(p)) return;
@@ -27,7 +35,10 @@ const stampFile = () => path.join(root, ".next", "inhibitrack-build-stamp");
 
 export function buildIsCurrent() {
   try {
-    return fs.existsSync(path.join(root, ".next", "BUILD_ID")) && fs.readFileSync(stampFile(), "utf8") === sourceFingerprint();
+    return (
+      fs.existsSync(path.join(root, ".next", "BUILD_ID")) &&
+      fs.readFileSync(stampFile(), "utf8") === sourceFingerprint()
+    );
   } catch {
     return false;
   }

@@ -49,7 +49,11 @@ const children = [];
 function spawnService(name, args, logFile, env = {}) {
   fs.mkdirSync(path.dirname(logFile), { recursive: true });
   const out = fs.openSync(logFile, "a");
-  const child = spawn(process.execPath, args, { cwd: root, stdio: ["ignore", out, out], env: { ...process.env, ...env } });
+  const child = spawn(process.execPath, args, {
+    cwd: root,
+    stdio: ["ignore", out, out],
+    env: { ...process.env, ...env },
+  });
   child.serviceName = name;
   children.push(child);
   return child;
@@ -79,10 +83,24 @@ export async function startStack({ name, ports, database, freshDatabase = false,
 
   // S3
   if (process.env.S3_ENDPOINT || process.env.S3_USE_AWS === "1") {
-    for (const k of ["S3_ENDPOINT", "S3_REGION", "S3_BUCKET", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"]) if (process.env[k]) env[k] = process.env[k];
+    for (const k of ["S3_ENDPOINT", "S3_REGION", "S3_BUCKET", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"])
+      if (process.env[k]) env[k] = process.env[k];
   } else {
-    if (!(await portFree(ports.s3))) throw new Error(`Port ${ports.s3} (S3 fake) is already in use. Is another Inhibitrack running?`);
-    spawnService("s3", ["docker-local-fakes/s3/server.mjs", "--port", String(ports.s3), "--dir", path.join(localDir, "s3"), "--bucket", "inhibitrack-raw"], path.join(localDir, "s3.log"));
+    if (!(await portFree(ports.s3)))
+      throw new Error(`Port ${ports.s3} (S3 fake) is already in use. Is another Inhibitrack running?`);
+    spawnService(
+      "s3",
+      [
+        "docker-local-fakes/s3/server.mjs",
+        "--port",
+        String(ports.s3),
+        "--dir",
+        path.join(localDir, "s3"),
+        "--bucket",
+        "inhibitrack-raw",
+      ],
+      path.join(localDir, "s3.log"),
+    );
     Object.assign(env, {
       S3_ENDPOINT: `http://127.0.0.1:${ports.s3}`,
       S3_REGION: "us-east-1",
@@ -96,8 +114,13 @@ export async function startStack({ name, ports, database, freshDatabase = false,
   if (process.env.RESEND_BASE_URL || process.env.RESEND_USE_REAL === "1") {
     for (const k of ["RESEND_BASE_URL", "RESEND_API_KEY", "MAIL_FROM"]) if (process.env[k]) env[k] = process.env[k];
   } else {
-    if (!(await portFree(ports.mail))) throw new Error(`Port ${ports.mail} (e-mail fake) is already in use. Is another Inhibitrack running?`);
-    spawnService("mail", ["docker-local-fakes/mail/server.mjs", "--port", String(ports.mail), "--dir", path.join(localDir, "mail")], path.join(localDir, "mail.log"));
+    if (!(await portFree(ports.mail)))
+      throw new Error(`Port ${ports.mail} (e-mail fake) is already in use. Is another Inhibitrack running?`);
+    spawnService(
+      "mail",
+      ["docker-local-fakes/mail/server.mjs", "--port", String(ports.mail), "--dir", path.join(localDir, "mail")],
+      path.join(localDir, "mail.log"),
+    );
     Object.assign(env, {
       RESEND_BASE_URL: `http://127.0.0.1:${ports.mail}`,
       RESEND_API_KEY: "re_local_fake_key",

@@ -34,12 +34,17 @@ function expectBadInput(r: ReturnType<typeof run>, pattern: RegExp): void {
   expect(lines[0]).toMatch(pattern);
 }
 
-const mechanismCsv = "Rate,SUBSTRATE,inhibitor\n" + ISDALS_INHIBITOR.map((p) => `${p.rate},${p.substrate},${p.inhibitor}`).join("\n") + "\n";
+const mechanismCsv =
+  "Rate,SUBSTRATE,inhibitor\n" +
+  ISDALS_INHIBITOR.map((p) => `${p.rate},${p.substrate},${p.inhibitor}`).join("\n") +
+  "\n";
 const doseCsv =
   "compound,concentration,response\n" +
   DNASE_RUN1.conc.map((c, k) => `DNase run 1,${c},${DNASE_RUN1.density[k]}`).join("\n") +
   "\n" +
-  [30, 10, 3, 1, 0.3, 0.1, 0.03, 0.01].map((c) => `IT-0042 (invented),${c},${(100 / (1 + c / 0.5)).toFixed(3)}`).join("\n") +
+  [30, 10, 3, 1, 0.3, 0.1, 0.03, 0.01]
+    .map((c) => `IT-0042 (invented),${c},${(100 / (1 + c / 0.5)).toFixed(3)}`)
+    .join("\n") +
   "\n";
 
 describe("analyze mechanism (isdals inhibitor data; expected values science.md [calc, SciPy])", () => {
@@ -65,7 +70,15 @@ describe("analyze mechanism (isdals inhibitor data; expected values science.md [
   });
 
   it("accepts substrate-0 rows and units in the header", () => {
-    const text = "substrate (uM),inhibitor (uM),rate\n0,0,0.01\n0,50,0.0\n" + mechanismCsv.split("\n").slice(1).map((l) => l.split(",")).filter((c) => c.length === 3).map(([r, s, i]) => `${s},${i},${r}`).join("\n");
+    const text =
+      "substrate (uM),inhibitor (uM),rate\n0,0,0.01\n0,50,0.0\n" +
+      mechanismCsv
+        .split("\n")
+        .slice(1)
+        .map((l) => l.split(","))
+        .filter((c) => c.length === 3)
+        .map(([r, s, i]) => `${s},${i},${r}`)
+        .join("\n");
     const r = run(["mechanism", csv("zero.csv", text)]);
     expect(r.status).toBe(0);
     expect(JSON.parse(r.stdout).best).toBe("competitive");
@@ -94,26 +107,50 @@ describe("analyze dose-response (R DNase run 1; expected values science.md [calc
 
 describe("analyze: bad input → one stderr line with line and column, exit 2, nothing on stdout", () => {
   it("missing column", () => {
-    expectBadInput(run(["mechanism", csv("nocol.csv", "substrate,inhibitor,velocity\n1,0,2\n")]), /line 1, column "rate": missing column/);
-    expectBadInput(run(["dose-response", csv("nocol2.csv", "compound,conc,response\nA,1,2\n")]), /line 1, column "concentration": missing column/);
+    expectBadInput(
+      run(["mechanism", csv("nocol.csv", "substrate,inhibitor,velocity\n1,0,2\n")]),
+      /line 1, column "rate": missing column/,
+    );
+    expectBadInput(
+      run(["dose-response", csv("nocol2.csv", "compound,conc,response\nA,1,2\n")]),
+      /line 1, column "concentration": missing column/,
+    );
   });
 
   it("non-numeric cell", () => {
     const text = doseCsv.replace("DNase run 1,0.1953125,0.121", "DNase run 1,0.1953125,n/a");
     expectBadInput(run(["dose-response", csv("nan.csv", text)]), /line 4, column "response": "n\/a" is not a number/);
-    expectBadInput(run(["mechanism", csv("empty.csv", "substrate,inhibitor,rate\n1,,2\n")]), /line 2, column "inhibitor": empty cell/);
+    expectBadInput(
+      run(["mechanism", csv("empty.csv", "substrate,inhibitor,rate\n1,,2\n")]),
+      /line 2, column "inhibitor": empty cell/,
+    );
   });
 
   it("negative concentration", () => {
     const text = doseCsv.replace("IT-0042 (invented),30,", "IT-0042 (invented),-30,");
-    expectBadInput(run(["dose-response", csv("neg.csv", text)]), /line 18, column "concentration": negative concentration -30/);
-    expectBadInput(run(["mechanism", csv("neg2.csv", mechanismCsv.replace("\n0.542,10,0\n", "\n0.542,-10,0\n"))]), /line 2, column "substrate": negative concentration/);
+    expectBadInput(
+      run(["dose-response", csv("neg.csv", text)]),
+      /line 18, column "concentration": negative concentration -30/,
+    );
+    expectBadInput(
+      run(["mechanism", csv("neg2.csv", mechanismCsv.replace("\n0.542,10,0\n", "\n0.542,-10,0\n"))]),
+      /line 2, column "substrate": negative concentration/,
+    );
   });
 
   it("too few points", () => {
-    expectBadInput(run(["dose-response", csv("few.csv", "compound,concentration,response\nX,1,90\nX,10,50\nX,100,10\n")]), /line 4, column "concentration": too few points: compound "X" has 3/);
-    const oneLevel = "substrate,inhibitor,rate\n" + [1, 2, 5, 10, 20, 50, 100, 200].map((s) => `${s},0,${s / (s + 10)}`).join("\n") + "\n";
-    expectBadInput(run(["mechanism", csv("few2.csv", oneLevel)]), /line 9, column "inhibitor": too few points: only one inhibitor concentration/);
+    expectBadInput(
+      run(["dose-response", csv("few.csv", "compound,concentration,response\nX,1,90\nX,10,50\nX,100,10\n")]),
+      /line 4, column "concentration": too few points: compound "X" has 3/,
+    );
+    const oneLevel =
+      "substrate,inhibitor,rate\n" +
+      [1, 2, 5, 10, 20, 50, 100, 200].map((s) => `${s},0,${s / (s + 10)}`).join("\n") +
+      "\n";
+    expectBadInput(
+      run(["mechanism", csv("few2.csv", oneLevel)]),
+      /line 9, column "inhibitor": too few points: only one inhibitor concentration/,
+    );
   });
 
   it("unknown command, missing file, unknown option", () => {

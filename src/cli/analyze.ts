@@ -46,7 +46,10 @@ function parseOptions(args: string[], allowed: readonly string[]): Record<string
   const out: Record<string, string> = {};
   for (const a of args) {
     const m = /^--([a-z-]+)=(.*)$/.exec(a);
-    if (!m || !allowed.includes(m[1]!)) throw new UsageError(`unknown option ${JSON.stringify(a)} (allowed: ${allowed.map((o) => `--${o}=…`).join(", ") || "none"})`);
+    if (!m || !allowed.includes(m[1]!))
+      throw new UsageError(
+        `unknown option ${JSON.stringify(a)} (allowed: ${allowed.map((o) => `--${o}=…`).join(", ") || "none"})`,
+      );
     out[m[1]!] = m[2]!;
   }
   return out;
@@ -56,7 +59,8 @@ function optionNumber(options: Record<string, string>, name: string): number | u
   const raw = options[name];
   if (raw === undefined) return undefined;
   const v = Number(raw);
-  if (raw.trim() === "" || !Number.isFinite(v)) throw new UsageError(`--${name} needs a number (got ${JSON.stringify(raw)})`);
+  if (raw.trim() === "" || !Number.isFinite(v))
+    throw new UsageError(`--${name} needs a number (got ${JSON.stringify(raw)})`);
   return v;
 }
 
@@ -81,14 +85,18 @@ function modelView(m: MechanismModelFit) {
 
 function mechanismCommand(text: string, options: Record<string, string>): string {
   const weighting = options.weighting ?? "none";
-  if (weighting !== "none" && weighting !== "relative") throw new UsageError(`--weighting must be none or relative (got ${JSON.stringify(weighting)})`);
+  if (weighting !== "none" && weighting !== "relative")
+    throw new UsageError(`--weighting must be none or relative (got ${JSON.stringify(weighting)})`);
   const rows = readMechanismCsv(text);
   if (weighting === "relative") {
     // Find a non-positive rate at S > 0 before the engine refuses it, so the message names the line.
     const bad = rows.find((p) => p.substrate > 0 && !(p.rate > 0));
     if (bad) throw new TableInputError(bad.line, "rate", `relative weighting needs a positive rate (got ${bad.rate})`);
   }
-  const r = fitMechanism(rows.map(({ substrate, inhibitor, rate }) => ({ substrate, inhibitor, rate })), { weighting });
+  const r = fitMechanism(
+    rows.map(({ substrate, inhibitor, rate }) => ({ substrate, inhibitor, rate })),
+    { weighting },
+  );
   const models = Object.fromEntries(INHIBITION_MODELS.map((m) => [m, modelView(r.models[m])]));
   return toJson({ best: r.best, label: r.label, models }, 2) + "\n";
 }
@@ -118,7 +126,8 @@ function doseResponseCommand(text: string, options: Record<string, string>): str
 export function runAnalyze(argv: readonly string[], readFile: (path: string) => string): string {
   const [command, file, ...rest] = argv;
   if (command === undefined || command === "--help" || command === "-h" || command === "help") return USAGE;
-  if (command !== "mechanism" && command !== "dose-response") throw new UsageError(`unknown command ${JSON.stringify(command)}; use mechanism or dose-response (see --help)`);
+  if (command !== "mechanism" && command !== "dose-response")
+    throw new UsageError(`unknown command ${JSON.stringify(command)}; use mechanism or dose-response (see --help)`);
   if (file === undefined) throw new UsageError(`${command} needs a CSV file (see --help)`);
   let text: string;
   try {

@@ -15,7 +15,9 @@ async function main(): Promise<void> {
     await mkdir(dirname(path), { recursive: true });
     await writeFile(path, f.contents);
   }
-  console.log(`wrote ${set.files.length} invented plate fixture files to ${base} (${set.good.length} good exports, ${set.bad.length} bad files)`);
+  console.log(
+    `wrote ${set.files.length} invented plate fixture files to ${base} (${set.good.length} good exports, ${set.bad.length} bad files)`,
+  );
 }
 
 main().catch((err: unknown) => {

@@ -33,16 +33,24 @@ async function main() {
   console.log(`[seed] invented demo accounts and 2 campaigns loaded (${Date.now() - t0} ms)`);
   const tc = Date.now();
   const comp = await seedCompounds(db, ctx);
-  console.log(`[seed] invented demo compounds: ${comp.compounds} registered with ${comp.batches} batches and ${comp.stocks} stock solutions (${Date.now() - tc} ms)`);
+  console.log(
+    `[seed] invented demo compounds: ${comp.compounds} registered with ${comp.batches} batches and ${comp.stocks} stock solutions (${Date.now() - tc} ms)`,
+  );
   const t1 = Date.now();
   const plates = await seedPlates(db, ctx);
-  console.log(`[seed] invented demo plates: ${plates.runs} runs stored with QC, ${plates.accepted} accepted (${Date.now() - t1} ms)`);
+  console.log(
+    `[seed] invented demo plates: ${plates.runs} runs stored with QC, ${plates.accepted} accepted (${Date.now() - t1} ms)`,
+  );
   const t2 = Date.now();
   const an = await seedAnalyses(db, ctx);
-  console.log(`[seed] invented demo analyses: ${an.experiments} experiments, ${an.results} compound results (${Date.now() - t2} ms)`);
+  console.log(
+    `[seed] invented demo analyses: ${an.experiments} experiments, ${an.results} compound results (${Date.now() - t2} ms)`,
+  );
   const t3 = Date.now();
   const hits = await seedHits(db, ctx);
-  console.log(`[seed] invented demo triage: ${hits.decisions} decisions, ${hits.comments} comments (${Date.now() - t3} ms)`);
+  console.log(
+    `[seed] invented demo triage: ${hits.decisions} decisions, ${hits.comments} comments (${Date.now() - t3} ms)`,
+  );
 }
 
 main()

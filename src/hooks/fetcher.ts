@@ -3,7 +3,11 @@
 /** An API error as the route handlers send it: `{ error, code, details?, … }` and the HTTP status. */
 export class ApiError extends Error {
   readonly status: number;
-  readonly body: { error?: string; code?: string; details?: { record?: number; line?: number; field?: string; message: string }[] } & Record<string, unknown>;
+  readonly body: {
+    error?: string;
+    code?: string;
+    details?: { record?: number; line?: number; field?: string; message: string }[];
+  } & Record<string, unknown>;
   constructor(status: number, body: ApiError["body"]) {
     super(body.error ?? `The server answered ${status}.`);
     this.status = status;

@@ -86,7 +86,13 @@ export type ImportJobView = {
     sample: { record: number; line: number; name: string | null; smiles: string; formula: string; mw: number }[];
     prepareMs: number;
   };
-  result: null | { mode: string; registered: number; notRegistered: number; firstRegistryId: string | null; lastRegistryId: string | null };
+  result: null | {
+    mode: string;
+    registered: number;
+    notRegistered: number;
+    firstRegistryId: string | null;
+    lastRegistryId: string | null;
+  };
 };
 
 export const importJobUrl = (id: string) => `/api/compound-imports/${id}`;
@@ -94,6 +100,7 @@ export const importJobUrl = (id: string) => `/api/compound-imports/${id}`;
 /** An import job, polled every second while it is being prepared (a reload shows the same progress). */
 export function useImportJob(id: string) {
   return useSWR<ImportJobView>(importJobUrl(id), fetchJson, {
-    refreshInterval: (data) => (!data || data.status === "stored" || data.status === "preparing" || data.status === "committing" ? 1000 : 0),
+    refreshInterval: (data) =>
+      !data || data.status === "stored" || data.status === "preparing" || data.status === "committing" ? 1000 : 0,
   });
 }

@@ -9,8 +9,10 @@ export type { HitItem };
 export type HitPage = { items: HitItem[]; total: number; limit: number; offset: number };
 
 export const hitsBase = (campaignId: string) => `/api/campaigns/${campaignId}/hits`;
-export const hitsUrl = (campaignId: string, q: HitQueryParams, limit: number, offset: number) => `${hitsBase(campaignId)}?${hitQueryString(q, { limit, offset })}`;
-export const hitsExportUrl = (campaignId: string, q: HitQueryParams, format: "xlsx" | "csv") => `${hitsBase(campaignId)}/export?${hitQueryString({ ...q, format })}`;
+export const hitsUrl = (campaignId: string, q: HitQueryParams, limit: number, offset: number) =>
+  `${hitsBase(campaignId)}?${hitQueryString(q, { limit, offset })}`;
+export const hitsExportUrl = (campaignId: string, q: HitQueryParams, format: "xlsx" | "csv") =>
+  `${hitsBase(campaignId)}/export?${hitQueryString({ ...q, format })}`;
 export const hitStructureUrl = (campaignId: string, registryId: string, size: "thumb" | "large" = "thumb") =>
   `${hitsBase(campaignId)}/${encodeURIComponent(registryId)}/structure${size === "large" ? "?size=large" : ""}`;
 
@@ -41,15 +43,50 @@ export function useHitPages(campaignId: string) {
 
 export type HitDetail = {
   row: HitItem;
-  compound: { registryId: string; name: string | null; smiles: string; formula: string; mw: number; clogp: number; heavyAtoms: number } | null;
-  results: { kind: "single-dose" | "dose-response" | "mechanism"; experimentId: string; experimentName: string; substrateUm: number | null; analysedAt: string | null; nPoints: number; flags: string[]; override: { model: string; reason: string } | null; detail: unknown }[];
-  batches: { batchNumber: number; supplier: string | null; purityPct: number | null; saltForm: string | null; batchDate: string | null }[];
-  history: { id: string; from: string; to: string; fromLabel: string; toLabel: string; comment: string | null; at: string; by: string | null }[];
+  compound: {
+    registryId: string;
+    name: string | null;
+    smiles: string;
+    formula: string;
+    mw: number;
+    clogp: number;
+    heavyAtoms: number;
+  } | null;
+  results: {
+    kind: "single-dose" | "dose-response" | "mechanism";
+    experimentId: string;
+    experimentName: string;
+    substrateUm: number | null;
+    analysedAt: string | null;
+    nPoints: number;
+    flags: string[];
+    override: { model: string; reason: string } | null;
+    detail: unknown;
+  }[];
+  batches: {
+    batchNumber: number;
+    supplier: string | null;
+    purityPct: number | null;
+    saltForm: string | null;
+    batchDate: string | null;
+  }[];
+  history: {
+    id: string;
+    from: string;
+    to: string;
+    fromLabel: string;
+    toLabel: string;
+    comment: string | null;
+    at: string;
+    by: string | null;
+  }[];
   comments: { id: string; body: string; at: string; by: string | null }[];
 };
 
 export function useHitDetail(campaignId: string, registryId: string | null) {
-  return useSWR<HitDetail>(registryId ? `${hitsBase(campaignId)}/${encodeURIComponent(registryId)}` : null, fetchJson, { revalidateOnFocus: false });
+  return useSWR<HitDetail>(registryId ? `${hitsBase(campaignId)}/${encodeURIComponent(registryId)}` : null, fetchJson, {
+    revalidateOnFocus: false,
+  });
 }
 
 export type SavedView = { id: string; name: string; state: SavedViewState; updatedAt: string };
@@ -59,13 +96,26 @@ export function useHitViews(campaignId: string) {
 }
 
 const send = (url: string, method: string, body?: unknown) =>
-  fetchJson<unknown>(url, { method, headers: body === undefined ? undefined : { "content-type": "application/json" }, body: body === undefined ? undefined : JSON.stringify(body) });
+  fetchJson<unknown>(url, {
+    method,
+    headers: body === undefined ? undefined : { "content-type": "application/json" },
+    body: body === undefined ? undefined : JSON.stringify(body),
+  });
 
 export const hitActions = {
-  setStatus: (campaignId: string, registryId: string, status: string, comment?: string) => send(`${hitsBase(campaignId)}/${encodeURIComponent(registryId)}`, "PATCH", { status, comment: comment || undefined }),
+  setStatus: (campaignId: string, registryId: string, status: string, comment?: string) =>
+    send(`${hitsBase(campaignId)}/${encodeURIComponent(registryId)}`, "PATCH", {
+      status,
+      comment: comment || undefined,
+    }),
   setStatusMany: (campaignId: string, registryIds: string[], status: string, comment?: string) =>
-    send(hitsBase(campaignId), "PATCH", { registryIds, status, comment: comment || undefined }) as Promise<{ changed: number; unchanged: number }>,
-  comment: (campaignId: string, registryId: string, body: string) => send(`${hitsBase(campaignId)}/${encodeURIComponent(registryId)}/comments`, "POST", { body }),
-  saveView: (campaignId: string, name: string, state: SavedViewState) => send(`${hitsBase(campaignId)}/views`, "POST", { name, state }),
+    send(hitsBase(campaignId), "PATCH", { registryIds, status, comment: comment || undefined }) as Promise<{
+      changed: number;
+      unchanged: number;
+    }>,
+  comment: (campaignId: string, registryId: string, body: string) =>
+    send(`${hitsBase(campaignId)}/${encodeURIComponent(registryId)}/comments`, "POST", { body }),
+  saveView: (campaignId: string, name: string, state: SavedViewState) =>
+    send(`${hitsBase(campaignId)}/views`, "POST", { name, state }),
   deleteView: (campaignId: string, id: string) => send(`${hitsBase(campaignId)}/views/${id}`, "DELETE"),
 };

@@ -26,7 +26,15 @@ export type Capability =
   | "team:manage";
 
 const caps: Record<CampaignRole, readonly Capability[]> = {
-  lead: ["campaign:read", "campaign:comment", "analysis:run", "analysis:override", "triage:write", "campaign:settings", "digest:send"],
+  lead: [
+    "campaign:read",
+    "campaign:comment",
+    "analysis:run",
+    "analysis:override",
+    "triage:write",
+    "campaign:settings",
+    "digest:send",
+  ],
   chemist: ["campaign:read", "campaign:comment", "compound:write"],
   assay: ["campaign:read", "campaign:comment", "plate:write", "analysis:run", "analysis:override"],
   viewer: ["campaign:read"],

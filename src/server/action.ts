@@ -13,7 +13,10 @@ export type ActionState<T = unknown> =
  * sentence for the form, never a stack. Server actions are public endpoints; Next.js itself
  * refuses an action whose Origin does not match the host.
  */
-export function formAction<S extends z.ZodType, T>(schema: S, fn: (input: z.infer<S>) => Promise<ActionState<T> | void>) {
+export function formAction<S extends z.ZodType, T>(
+  schema: S,
+  fn: (input: z.infer<S>) => Promise<ActionState<T> | void>,
+) {
   return async (_prev: ActionState<T>, form: FormData): Promise<ActionState<T>> => {
     const raw: Record<string, unknown> = {};
     for (const [k, v] of form.entries()) {

@@ -40,13 +40,26 @@ export function zodDetails(e: ZodError): ErrorDetail[] {
 }
 
 /** Turns anything thrown into what the user may see, logging what they may not. */
-export function toPublicError(e: unknown): { status: number; body: { error: string; code: ErrorCode; details?: ErrorDetail[] } & Record<string, unknown> } {
+export function toPublicError(e: unknown): {
+  status: number;
+  body: { error: string; code: ErrorCode; details?: ErrorDetail[] } & Record<string, unknown>;
+} {
   if (e instanceof AppError) {
-    return { status: e.status, body: { error: e.message, code: e.code, ...(e.details ? { details: e.details } : {}), ...(e.extra ?? {}) } };
+    return {
+      status: e.status,
+      body: { error: e.message, code: e.code, ...(e.details ? { details: e.details } : {}), ...(e.extra ?? {}) },
+    };
   }
   if (e instanceof ZodError) {
     const details = zodDetails(e);
-    return { status: 400, body: { error: details.map((d) => (d.field ? `${d.field}: ${d.message}` : d.message)).join("; "), code: "bad_request", details } };
+    return {
+      status: 400,
+      body: {
+        error: details.map((d) => (d.field ? `${d.field}: ${d.message}` : d.message)).join("; "),
+        code: "bad_request",
+        details,
+      },
+    };
   }
   console.error("[inhibitrack] unexpected error", e);
   return { status: 500, body: { error: errorCodes.internal.message, code: "internal" } };
@@ -55,5 +68,8 @@ export function toPublicError(e: unknown): { status: number; body: { error: stri
 /** Next's redirect()/notFound() signal by throwing; they must pass through our wrappers untouched. */
 export function isNextControlFlow(e: unknown): boolean {
   const digest = (e as { digest?: unknown } | null)?.digest;
-  return typeof digest === "string" && (digest.startsWith("NEXT_REDIRECT") || digest.startsWith("NEXT_HTTP_ERROR_FALLBACK") || digest === "NEXT_NOT_FOUND");
+  return (
+    typeof digest === "string" &&
+    (digest.startsWith("NEXT_REDIRECT") || digest.startsWith("NEXT_HTTP_ERROR_FALLBACK") || digest === "NEXT_NOT_FOUND")
+  );
 }

@@ -6,7 +6,17 @@ import { describe, it, expect, beforeAll, afterAll } from "vitest";
 import fs from "node:fs";
 import path from "node:path";
 import { registry, allActors, type RegistryActor } from "./registry";
-import { makeWorld, userOf, callRoute, callAction, deniedRoute, deniedAction, newTestUser, TEST_PASSWORD, type World } from "@/test/harness";
+import {
+  makeWorld,
+  userOf,
+  callRoute,
+  callAction,
+  deniedRoute,
+  deniedAction,
+  newTestUser,
+  TEST_PASSWORD,
+  type World,
+} from "@/test/harness";
 import { db } from "@/server/db/client";
 import { memberships } from "@/server/db/schema";
 
@@ -57,8 +67,10 @@ import * as stopDigest from "@/app/(auth)/digest/actions";
 
 type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
 
-const route = (mod: unknown, path: string, method = "GET", body?: unknown): Invoke => async (actor, w) =>
-  deniedRoute((await callRoute(mod, { user: userOf(w, actor), path, method, body })).status);
+const route =
+  (mod: unknown, path: string, method = "GET", body?: unknown): Invoke =>
+  async (actor, w) =>
+    deniedRoute((await callRoute(mod, { user: userOf(w, actor), path, method, body })).status);
 
 const invokers: Record<string, Invoke> = {
   "src/app/api/health/route.ts#GET": route(health.GET, "/api/health"),
@@ -74,239 +86,647 @@ const invokers: Record<string, Invoke> = {
     return !(o.kind === "redirect" && o.to === "/sign-in");
   },
   "src/app/(auth)/actions.ts#requestResetAction": async (actor, w) =>
-    deniedAction(await callAction(authActions.requestResetAction, { email: `nobody-${actor}@test.invalid` }, userOf(w, actor))),
+    deniedAction(
+      await callAction(authActions.requestResetAction, { email: `nobody-${actor}@test.invalid` }, userOf(w, actor)),
+    ),
   "src/app/(auth)/actions.ts#resetPasswordAction": async (actor, w) =>
-    deniedAction(await callAction(authActions.resetPasswordAction, { token: "x".repeat(40), password: "a-long-new-password" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        authActions.resetPasswordAction,
+        { token: "x".repeat(40), password: "a-long-new-password" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(auth)/actions.ts#acceptInviteAction": async (actor, w) =>
-    deniedAction(await callAction(authActions.acceptInviteAction, { token: "y".repeat(40), name: "N", password: "a-long-new-password" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        authActions.acceptInviteAction,
+        { token: "y".repeat(40), name: "N", password: "a-long-new-password" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/settings/actions.ts#changePasswordAction": async (actor, w) => {
     // A wrong current password: allowed callers reach the check (400), others are refused first.
-    const o = await callAction(settingsActions.changePasswordAction, { current: "wrong-password", password: "another-long-password" }, userOf(w, actor));
+    const o = await callAction(
+      settingsActions.changePasswordAction,
+      { current: "wrong-password", password: "another-long-password" },
+      userOf(w, actor),
+    );
     return deniedAction(o);
   },
   "src/app/(workspace)/campaigns/actions.ts#createCampaignAction": async (actor, w) =>
-    deniedAction(await callAction(campaignActions.createCampaignAction, { name: `Matrix ${actor}`, targetEnzyme: "Invented enzyme" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        campaignActions.createCampaignAction,
+        { name: `Matrix ${actor}`, targetEnzyme: "Invented enzyme" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#inviteAction": async (actor, w) =>
-    deniedAction(await callAction(teamActions.inviteAction, { campaignId: w.campaignId, email: `invitee-${actor}-${w.tag}@test.invalid`, role: "viewer" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        teamActions.inviteAction,
+        { campaignId: w.campaignId, email: `invitee-${actor}-${w.tag}@test.invalid`, role: "viewer" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#changeRoleAction": async (actor, w) =>
-    deniedAction(await callAction(teamActions.changeRoleAction, { campaignId: w.campaignId, userId: w.people.viewer.id, role: "viewer" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        teamActions.changeRoleAction,
+        { campaignId: w.campaignId, userId: w.people.viewer.id, role: "viewer" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#removeMemberAction": async (actor, w) => {
     const target = await newTestUser(`removable-${actor}`);
     await db.insert(memberships).values({ campaignId: w.campaignId, userId: target.id, role: "viewer" });
-    return deniedAction(await callAction(teamActions.removeMemberAction, { campaignId: w.campaignId, userId: target.id }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        teamActions.removeMemberAction,
+        { campaignId: w.campaignId, userId: target.id },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/team/actions.ts#updateThresholdsAction": async (actor, w) =>
     deniedAction(
-      await callAction(teamActions.updateThresholdsAction, { campaignId: w.campaignId, qcMinZPrime: "0.5", qcMaxCvPct: "20", hitThresholdPct: "50" }, userOf(w, actor)),
+      await callAction(
+        teamActions.updateThresholdsAction,
+        { campaignId: w.campaignId, qcMinZPrime: "0.5", qcMaxCvPct: "20", hitThresholdPct: "50" },
+        userOf(w, actor),
+      ),
     ),
   // Plates: allowed callers get 200/201 (or 409 for a repeat), refused ones 401/403/404.
   "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#GET": async (actor, w) =>
-    deniedRoute((await callRoute(plateMapsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-maps`, params: { campaignId: w.campaignId } })).status),
+    deniedRoute(
+      (
+        await callRoute(plateMapsRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/plate-maps`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    ),
   "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#POST": async (actor, w) => {
     await platesWorld(w); // registers the compounds the map names
     const form = new FormData();
     form.append("name", `Matrix import ${actor}`);
     form.append("format", "96");
     form.append("file", new File([plateMapToCsv(smallMap())], "map.csv", { type: "text/csv" }));
-    return deniedRoute((await callRoute(plateMapsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/plate-maps`, params: { campaignId: w.campaignId }, body: form })).status);
+    return deniedRoute(
+      (
+        await callRoute(plateMapsRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/plate-maps`,
+          params: { campaignId: w.campaignId },
+          body: form,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/plate-runs/route.ts#GET": async (actor, w) =>
-    deniedRoute((await callRoute(plateRunsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs`, params: { campaignId: w.campaignId } })).status),
+    deniedRoute(
+      (
+        await callRoute(plateRunsRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/plate-runs`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    ),
   "src/app/api/campaigns/[campaignId]/plate-runs/route.ts#POST": async (actor, w) => {
     const { mapId } = await platesWorld(w);
     const form = new FormData();
     form.append("plateMapId", mapId);
     form.append("file", new File([smallExport(1000 + actor.length)], `matrix-${actor}.csv`, { type: "text/csv" }));
-    return deniedRoute((await callRoute(plateRunsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/plate-runs`, params: { campaignId: w.campaignId }, body: form })).status);
+    return deniedRoute(
+      (
+        await callRoute(plateRunsRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/plate-runs`,
+          params: { campaignId: w.campaignId },
+          body: form,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/plate-runs/preview/route.ts#POST": async (actor, w) => {
     const { mapId } = await platesWorld(w);
     const form = new FormData();
     form.append("plateMapId", mapId);
     form.append("file", new File([smallExport(2000)], "preview.csv", { type: "text/csv" }));
-    return deniedRoute((await callRoute(plateRunPreview.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/plate-runs/preview`, params: { campaignId: w.campaignId }, body: form })).status);
+    return deniedRoute(
+      (
+        await callRoute(plateRunPreview.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/plate-runs/preview`,
+          params: { campaignId: w.campaignId },
+          body: form,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/route.ts#GET": async (actor, w) => {
     const { runId } = await platesWorld(w);
-    return deniedRoute((await callRoute(plateRunRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}`, params: { campaignId: w.campaignId, runId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(plateRunRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}`,
+          params: { campaignId: w.campaignId, runId },
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/file/route.ts#GET": async (actor, w) => {
     const { runId } = await platesWorld(w);
-    return deniedRoute((await callRoute(plateRunFile.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}/file`, params: { campaignId: w.campaignId, runId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(plateRunFile.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}/file`,
+          params: { campaignId: w.campaignId, runId },
+        })
+      ).status,
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#savePlateMapAction": async (actor, w) => {
     await platesWorld(w);
     const m = smallMap();
     const mapJson = JSON.stringify({ format: 96, wells: m.wells.filter((x) => x.role !== "empty") });
-    return deniedAction(await callAction(plateActions.savePlateMapAction, { campaignId: w.campaignId, name: `Matrix editor ${actor}`, signalDirection: "falls", mapJson }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        plateActions.savePlateMapAction,
+        { campaignId: w.campaignId, name: `Matrix editor ${actor}`, signalDirection: "falls", mapJson },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#maskWellAction": async (actor, w) => {
     const { runId } = await platesWorld(w);
-    return deniedAction(await callAction(plateActions.maskWellAction, { campaignId: w.campaignId, runId, well: `C${2 + actor.length}`, reason: "bubble seen in well" }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        plateActions.maskWellAction,
+        { campaignId: w.campaignId, runId, well: `C${2 + actor.length}`, reason: "bubble seen in well" },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#unmaskWellAction": async (actor, w) => {
     const { runId } = await platesWorld(w);
     const well = `D${1 + actor.length}`;
     await maskWell(w.people.assay, w.campaignId, runId, well, "set-up for the unmask check").catch(() => undefined);
-    return deniedAction(await callAction(plateActions.unmaskWellAction, { campaignId: w.campaignId, runId, well, reason: "reading is fine after review" }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        plateActions.unmaskWellAction,
+        { campaignId: w.campaignId, runId, well, reason: "reading is fine after review" },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/plates/actions.ts#decideRunAction": async (actor, w) => {
     const { runId } = await platesWorld(w);
-    return deniedAction(await callAction(plateActions.decideRunAction, { campaignId: w.campaignId, runId, decision: "rejected", reason: "role-matrix check" }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        plateActions.decideRunAction,
+        { campaignId: w.campaignId, runId, decision: "rejected", reason: "role-matrix check" },
+        userOf(w, actor),
+      ),
+    );
   },
   // Compounds: allowed callers get 200/201/202 (or 409 for a repeat), refused ones 401/403.
   "src/app/api/compounds/route.ts#GET": route(compoundsRoute.GET, "/api/compounds?q=INH&limit=5"),
   "src/app/api/compounds/route.ts#POST": async (actor, w) =>
-    deniedRoute((await callRoute(compoundsRoute.POST, { user: userOf(w, actor), method: "POST", path: "/api/compounds", body: { smiles: uniqueSmiles(), name: `Matrix ${actor}` } })).status),
+    deniedRoute(
+      (
+        await callRoute(compoundsRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: "/api/compounds",
+          body: { smiles: uniqueSmiles(), name: `Matrix ${actor}` },
+        })
+      ).status,
+    ),
   "src/app/api/compounds/[registryId]/route.ts#GET": async (actor, w) => {
     const { registryId } = await compoundsWorld(w);
-    return deniedRoute((await callRoute(compoundRoute.GET, { user: userOf(w, actor), path: `/api/compounds/${registryId}`, params: { registryId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(compoundRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/compounds/${registryId}`,
+          params: { registryId },
+        })
+      ).status,
+    );
   },
   "src/app/api/compound-imports/route.ts#POST": async (actor, w) => {
     const form = new FormData();
-    form.append("file", new File([`smiles,name\n${uniqueSmiles()},M-${actor}\n`], `matrix-${actor}.csv`, { type: "text/csv" }));
-    return deniedRoute((await callRoute(compoundImportsRoute.POST, { user: userOf(w, actor), method: "POST", path: "/api/compound-imports", body: form })).status);
+    form.append(
+      "file",
+      new File([`smiles,name\n${uniqueSmiles()},M-${actor}\n`], `matrix-${actor}.csv`, { type: "text/csv" }),
+    );
+    return deniedRoute(
+      (
+        await callRoute(compoundImportsRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: "/api/compound-imports",
+          body: form,
+        })
+      ).status,
+    );
   },
   "src/app/api/compound-imports/[importId]/route.ts#GET": async (actor, w) => {
     const { importId } = await compoundsWorld(w);
-    return deniedRoute((await callRoute(compoundImportRoute.GET, { user: userOf(w, actor), path: `/api/compound-imports/${importId}`, params: { importId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(compoundImportRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/compound-imports/${importId}`,
+          params: { importId },
+        })
+      ).status,
+    );
   },
   "src/app/api/compound-imports/[importId]/commit/route.ts#POST": async (actor, w) => {
     const importId = await importFile(w, `commit-${actor}.csv`, `smiles,name\n${uniqueSmiles()},C-${actor}\n`);
-    return deniedRoute((await callRoute(compoundImportCommit.POST, { user: userOf(w, actor), method: "POST", path: `/api/compound-imports/${importId}/commit`, params: { importId }, body: { mode: "valid_only" } })).status);
+    return deniedRoute(
+      (
+        await callRoute(compoundImportCommit.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/compound-imports/${importId}/commit`,
+          params: { importId },
+          body: { mode: "valid_only" },
+        })
+      ).status,
+    );
   },
   "src/app/api/compound-imports/[importId]/report/route.ts#GET": async (actor, w) => {
     const { importId } = await compoundsWorld(w);
-    return deniedRoute((await callRoute(compoundImportReport.GET, { user: userOf(w, actor), path: `/api/compound-imports/${importId}/report`, params: { importId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(compoundImportReport.GET, {
+          user: userOf(w, actor),
+          path: `/api/compound-imports/${importId}/report`,
+          params: { importId },
+        })
+      ).status,
+    );
   },
   "src/app/(workspace)/compounds/actions.ts#registerCompoundAction": async (actor, w) =>
-    deniedAction(await callAction(compoundActions.registerCompoundAction, { smiles: uniqueSmiles(), name: `Matrix form ${actor}`, "batch.supplier": "Invented Supplier" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        compoundActions.registerCompoundAction,
+        { smiles: uniqueSmiles(), name: `Matrix form ${actor}`, "batch.supplier": "Invented Supplier" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/compounds/actions.ts#addBatchAction": async (actor, w) => {
     const { registryId } = await compoundsWorld(w);
-    return deniedAction(await callAction(compoundActions.addBatchAction, { registryId, "batch.supplier": `Supplier ${actor}`, "batch.purityPct": "97" }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        compoundActions.addBatchAction,
+        { registryId, "batch.supplier": `Supplier ${actor}`, "batch.purityPct": "97" },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/compounds/actions.ts#addStockAction": async (actor, w) => {
     const { registryId } = await compoundsWorld(w);
-    return deniedAction(await callAction(compoundActions.addStockAction, { registryId, batchNumber: "1", "stock.concentrationMm": "10", "stock.solvent": "DMSO" }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        compoundActions.addStockAction,
+        { registryId, batchNumber: "1", "stock.concentrationMm": "10", "stock.solvent": "DMSO" },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/compounds/actions.ts#editCompoundAction": async (actor, w) => {
     const { registryId } = await compoundsWorld(w);
-    return deniedAction(await callAction(compoundActions.editCompoundAction, { registryId, name: `Renamed by ${actor} (invented)` }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        compoundActions.editCompoundAction,
+        { registryId, name: `Renamed by ${actor} (invented)` },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/compounds/actions.ts#createLibraryAction": async (actor, w) =>
-    deniedAction(await callAction(compoundActions.createLibraryAction, { name: `Matrix library ${actor} ${w.tag}` }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        compoundActions.createLibraryAction,
+        { name: `Matrix library ${actor} ${w.tag}` },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/compounds/actions.ts#addToLibraryAction": async (actor, w) => {
     const { registryId, libraryId } = await compoundsWorld(w);
-    return deniedAction(await callAction(compoundActions.addToLibraryAction, { libraryId, ids: registryId }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(compoundActions.addToLibraryAction, { libraryId, ids: registryId }, userOf(w, actor)),
+    );
   },
   "src/app/(workspace)/compounds/actions.ts#removeFromLibraryAction": async (actor, w) => {
     const { registryId, libraryId } = await compoundsWorld(w);
     await addToLibrary(w.people.admin, libraryId, registryId);
-    return deniedAction(await callAction(compoundActions.removeFromLibraryAction, { libraryId, registryId }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(compoundActions.removeFromLibraryAction, { libraryId, registryId }, userOf(w, actor)),
+    );
   },
   "src/app/api/campaigns/[campaignId]/experiments/route.ts#GET": async (actor, w) =>
-    deniedRoute((await callRoute(experimentsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/experiments`, params: { campaignId: w.campaignId } })).status),
+    deniedRoute(
+      (
+        await callRoute(experimentsRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/experiments`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    ),
   "src/app/api/campaigns/[campaignId]/experiments/route.ts#POST": async (actor, w) => {
     const { runId } = await analysesWorld(w);
-    const r = await callRoute(experimentsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/experiments`, params: { campaignId: w.campaignId }, body: { name: `E ${actor}`, kind: "single-dose", runIds: [runId] } });
+    const r = await callRoute(experimentsRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/experiments`,
+      params: { campaignId: w.campaignId },
+      body: { name: `E ${actor}`, kind: "single-dose", runIds: [runId] },
+    });
     return deniedRoute(r.status);
   },
   "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/route.ts#POST": async (actor, w) => {
     const { experimentId } = await analysesWorld(w);
-    const r = await callRoute(analysesRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}/analyses`, params: { campaignId: w.campaignId, experimentId } });
+    const r = await callRoute(analysesRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}/analyses`,
+      params: { campaignId: w.campaignId, experimentId },
+    });
     return deniedRoute(r.status);
   },
-  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route.ts#GET": async (actor, w) => {
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route.ts#GET": async (
+    actor,
+    w,
+  ) => {
     const { experimentId, analysisId } = await analysesWorld(w);
     const path = `/api/campaigns/${w.campaignId}/experiments/${experimentId}/analyses/${analysisId}`;
-    return deniedRoute((await callRoute(analysisRoute.GET, { user: userOf(w, actor), path, params: { campaignId: w.campaignId, experimentId, analysisId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(analysisRoute.GET, {
+          user: userOf(w, actor),
+          path,
+          params: { campaignId: w.campaignId, experimentId, analysisId },
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route.ts#GET": async (actor, w) => {
     const { experimentId } = await analysesWorld(w);
     const path = `/api/campaigns/${w.campaignId}/experiments/${experimentId}/results`;
-    return deniedRoute((await callRoute(resultsRoute.GET, { user: userOf(w, actor), path, params: { campaignId: w.campaignId, experimentId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(resultsRoute.GET, {
+          user: userOf(w, actor),
+          path,
+          params: { campaignId: w.campaignId, experimentId },
+        })
+      ).status,
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#createExperimentAction": async (actor, w) => {
     const { runId } = await analysesWorld(w);
-    return deniedAction(await callAction(analysisActions.createExperimentAction, { campaignId: w.campaignId, name: `Form ${actor}`, kind: "single-dose", runIds: runId }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        analysisActions.createExperimentAction,
+        { campaignId: w.campaignId, name: `Form ${actor}`, kind: "single-dose", runIds: runId },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#startAnalysisAction": async (actor, w) => {
     const { experimentId } = await analysesWorld(w);
-    return deniedAction(await callAction(analysisActions.startAnalysisAction, { campaignId: w.campaignId, experimentId }, userOf(w, actor)));
+    return deniedAction(
+      await callAction(
+        analysisActions.startAnalysisAction,
+        { campaignId: w.campaignId, experimentId },
+        userOf(w, actor),
+      ),
+    );
   },
   "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#overrideMechanismAction": async (actor, w) => {
     // A single-dose experiment has no model choice: allowed callers reach that check (400).
     const { experimentId } = await analysesWorld(w);
     return deniedAction(
-      await callAction(analysisActions.overrideMechanismAction, { campaignId: w.campaignId, experimentId, compoundId: "INH-000001", model: "mixed", reason: "matrix test reason" }, userOf(w, actor)),
+      await callAction(
+        analysisActions.overrideMechanismAction,
+        {
+          campaignId: w.campaignId,
+          experimentId,
+          compoundId: "INH-000001",
+          model: "mixed",
+          reason: "matrix test reason",
+        },
+        userOf(w, actor),
+      ),
     );
   },
   "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#planMechanismPlateAction": async (actor, w) => {
     await analysesWorld(w);
     return deniedAction(
-      await callAction(analysisActions.planMechanismPlateAction, { campaignId: w.campaignId, compoundId: "INH-000001", ic50Um: "2", kmUm: "20", format: "384", name: `Plan ${actor} ${w.tag}` }, userOf(w, actor)),
+      await callAction(
+        analysisActions.planMechanismPlateAction,
+        {
+          campaignId: w.campaignId,
+          compoundId: "INH-000001",
+          ic50Um: "2",
+          kmUm: "20",
+          format: "384",
+          name: `Plan ${actor} ${w.tag}`,
+        },
+        userOf(w, actor),
+      ),
     );
   },
   // Hit triage: the world's single-dose analysis gives INH-000001…INH-000012 hit rows.
   "src/app/api/campaigns/[campaignId]/hits/route.ts#GET": async (actor, w) => {
     await analysesWorld(w);
-    return deniedRoute((await callRoute(hitsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits?sort=ki&limit=5`, params: { campaignId: w.campaignId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitsRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/hits?sort=ki&limit=5`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/route.ts#PATCH": async (actor, w) => {
     await analysesWorld(w);
     const body = { registryIds: ["INH-000003", "INH-000004"], status: "on hold", comment: `matrix ${actor}` };
-    return deniedRoute((await callRoute(hitsRoute.PATCH, { user: userOf(w, actor), method: "PATCH", path: `/api/campaigns/${w.campaignId}/hits`, params: { campaignId: w.campaignId }, body })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitsRoute.PATCH, {
+          user: userOf(w, actor),
+          method: "PATCH",
+          path: `/api/campaigns/${w.campaignId}/hits`,
+          params: { campaignId: w.campaignId },
+          body,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/[registryId]/route.ts#GET": async (actor, w) => {
     await analysesWorld(w);
     const params = { campaignId: w.campaignId, registryId: "INH-000001" };
-    return deniedRoute((await callRoute(hitRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/INH-000001`, params })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/hits/INH-000001`,
+          params,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/[registryId]/route.ts#PATCH": async (actor, w) => {
     await analysesWorld(w);
     const params = { campaignId: w.campaignId, registryId: "INH-000002" };
-    return deniedRoute((await callRoute(hitRoute.PATCH, { user: userOf(w, actor), method: "PATCH", path: `/api/campaigns/${w.campaignId}/hits/INH-000002`, params, body: { status: "confirmed" } })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitRoute.PATCH, {
+          user: userOf(w, actor),
+          method: "PATCH",
+          path: `/api/campaigns/${w.campaignId}/hits/INH-000002`,
+          params,
+          body: { status: "confirmed" },
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/[registryId]/comments/route.ts#POST": async (actor, w) => {
     await analysesWorld(w);
     const params = { campaignId: w.campaignId, registryId: "INH-000001" };
-    const r = await callRoute(hitCommentsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/hits/INH-000001/comments`, params, body: { body: `matrix note by ${actor}` } });
+    const r = await callRoute(hitCommentsRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/hits/INH-000001/comments`,
+      params,
+      body: { body: `matrix note by ${actor}` },
+    });
     return deniedRoute(r.status);
   },
   "src/app/api/campaigns/[campaignId]/hits/[registryId]/structure/route.ts#GET": async (actor, w) => {
     await analysesWorld(w);
     const params = { campaignId: w.campaignId, registryId: "INH-000001" };
-    return deniedRoute((await callRoute(hitStructureRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/INH-000001/structure`, params })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitStructureRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/hits/INH-000001/structure`,
+          params,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/export/route.ts#GET": async (actor, w) => {
     await analysesWorld(w);
-    return deniedRoute((await callRoute(hitExportRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/export?format=csv`, params: { campaignId: w.campaignId } })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitExportRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/hits/export?format=csv`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/views/route.ts#GET": async (actor, w) =>
-    deniedRoute((await callRoute(hitViewsRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/hits/views`, params: { campaignId: w.campaignId } })).status),
+    deniedRoute(
+      (
+        await callRoute(hitViewsRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/hits/views`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    ),
   "src/app/api/campaigns/[campaignId]/hits/views/route.ts#POST": async (actor, w) => {
-    const body = { name: `Matrix view ${actor}`, state: { columns: [{ colId: "ki", width: 120 }], query: { sort: "ki", status: "unreviewed" } } };
-    return deniedRoute((await callRoute(hitViewsRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/hits/views`, params: { campaignId: w.campaignId }, body })).status);
+    const body = {
+      name: `Matrix view ${actor}`,
+      state: { columns: [{ colId: "ki", width: 120 }], query: { sort: "ki", status: "unreviewed" } },
+    };
+    return deniedRoute(
+      (
+        await callRoute(hitViewsRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/hits/views`,
+          params: { campaignId: w.campaignId },
+          body,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/hits/views/[viewId]/route.ts#DELETE": async (actor, w) => {
     // Each member deletes a view of their own; others name a view id that is not theirs.
     const owner = actor === "signedOut" || actor === "nonMember" ? w.people.lead : w.people[actor];
     const { id: viewId } = await saveView(owner.id, w.campaignId, `To delete ${actor}`, { columns: [], query: {} });
     const params = { campaignId: w.campaignId, viewId };
-    return deniedRoute((await callRoute(hitViewRoute.DELETE, { user: userOf(w, actor), method: "DELETE", path: `/api/campaigns/${w.campaignId}/hits/views/${viewId}`, params })).status);
+    return deniedRoute(
+      (
+        await callRoute(hitViewRoute.DELETE, {
+          user: userOf(w, actor),
+          method: "DELETE",
+          path: `/api/campaigns/${w.campaignId}/hits/views/${viewId}`,
+          params,
+        })
+      ).status,
+    );
   },
   "src/app/api/campaigns/[campaignId]/digest/route.ts#POST": async (actor, w) =>
-    deniedRoute((await callRoute(digestRoute.POST, { user: userOf(w, actor), method: "POST", path: `/api/campaigns/${w.campaignId}/digest`, params: { campaignId: w.campaignId }, body: { preview: true } })).status),
+    deniedRoute(
+      (
+        await callRoute(digestRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/digest`,
+          params: { campaignId: w.campaignId },
+          body: { preview: true },
+        })
+      ).status,
+    ),
   "src/app/api/campaigns/[campaignId]/digest/log/route.ts#GET": async (actor, w) =>
-    deniedRoute((await callRoute(digestLogRoute.GET, { user: userOf(w, actor), path: `/api/campaigns/${w.campaignId}/digest/log`, params: { campaignId: w.campaignId } })).status),
+    deniedRoute(
+      (
+        await callRoute(digestLogRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/digest/log`,
+          params: { campaignId: w.campaignId },
+        })
+      ).status,
+    ),
   "src/app/(workspace)/campaigns/[campaignId]/digest/actions.ts#sendDigestNowAction": async (actor, w) =>
     deniedAction(await callAction(digestActions.sendDigestNowAction, { campaignId: w.campaignId }, userOf(w, actor))),
   "src/app/(workspace)/campaigns/[campaignId]/digest/actions.ts#setDigestScheduleAction": async (actor, w) =>
-    deniedAction(await callAction(digestActions.setDigestScheduleAction, { campaignId: w.campaignId, digestWeekday: "1", digestHour: "7", timeZone: "UTC" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(
+        digestActions.setDigestScheduleAction,
+        { campaignId: w.campaignId, digestWeekday: "1", digestHour: "7", timeZone: "UTC" },
+        userOf(w, actor),
+      ),
+    ),
   "src/app/(workspace)/settings/actions.ts#setMyDigestAction": async (actor, w) =>
-    deniedAction(await callAction(settingsActions.setMyDigestAction, { campaignId: w.campaignId, receive: "1" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(settingsActions.setMyDigestAction, { campaignId: w.campaignId, receive: "1" }, userOf(w, actor)),
+    ),
   "src/app/(auth)/digest/actions.ts#stopDigestAction": async (actor, w) =>
-    deniedAction(await callAction(stopDigest.stopDigestAction, { token: "not-a-valid-token.at-all" }, userOf(w, actor))),
+    deniedAction(
+      await callAction(stopDigest.stopDigestAction, { token: "not-a-valid-token.at-all" }, userOf(w, actor)),
+    ),
 };
 
 function walk(dir: string, out: string[] = []): string[] {
@@ -325,7 +745,10 @@ function discovered(): string[] {
     const src = fs.readFileSync(file, "utf8");
     const rel = file.split(path.sep).join("/");
     if (path.basename(file) === "route.ts") {
-      for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE|HEAD|OPTIONS)\b/g)) ids.push(`${rel}#${m[1]}`);
+      for (const m of src.matchAll(
+        /export\s+(?:const|async\s+function|function)\s+(GET|POST|PUT|PATCH|DELETE|HEAD|OPTIONS)\b/g,
+      ))
+        ids.push(`${rel}#${m[1]}`);
     } else if (/^\s*(["'])use server\1/.test(src)) {
       for (const m of src.matchAll(/export\s+(?:const|async\s+function|function)\s+(\w+)/g)) ids.push(`${rel}#${m[1]}`);
     }
@@ -337,8 +760,14 @@ describe("route and action registry", () => {
   it("lists every route handler and server action in src/app, and nothing that does not exist", () => {
     const found = discovered();
     const listed = registry.map((e) => e.id).sort();
-    expect(found.filter((id) => !listed.includes(id)), "routes/actions missing from src/server/registry.ts").toEqual([]);
-    expect(listed.filter((id) => !found.includes(id)), "registry entries with no route/action").toEqual([]);
+    expect(
+      found.filter((id) => !listed.includes(id)),
+      "routes/actions missing from src/server/registry.ts",
+    ).toEqual([]);
+    expect(
+      listed.filter((id) => !found.includes(id)),
+      "registry entries with no route/action",
+    ).toEqual([]);
   });
   it("has an invoker in this test for every registry entry", () => {
     expect(registry.map((e) => e.id).filter((id) => !invokers[id])).toEqual([]);

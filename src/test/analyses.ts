@@ -14,7 +14,11 @@ export function analysesWorld(w: World) {
       const { runId } = await platesWorld(w);
       await decideRun(w.people.assay, w.campaignId, runId, "accepted", "QC passes (test)").catch(() => {});
       const campaign = await campaignRow(w.campaignId);
-      const { id: experimentId } = await createExperiment(w.people.assay, campaign, { name: `Matrix experiment ${w.tag}`, kind: "single-dose", runIds: [runId] });
+      const { id: experimentId } = await createExperiment(w.people.assay, campaign, {
+        name: `Matrix experiment ${w.tag}`,
+        kind: "single-dose",
+        runIds: [runId],
+      });
       const a = await requestAnalysis(w.people.assay, campaign, experimentId);
       await runAnalysis(a.id);
       return { experimentId, analysisId: a.id, runId };

@@ -7,7 +7,14 @@ import { db } from "@/server/db/client";
 import { compounds } from "@/server/db/schema";
 import { env } from "@/env";
 import { demoCompounds } from "@/lib/chem/demo-compounds";
-import { registerCompound, createLibrary, formatRegistryId, insertCompounds, prepareStructure, type PreparedCompound } from "@/server/services/compounds";
+import {
+  registerCompound,
+  createLibrary,
+  formatRegistryId,
+  insertCompounds,
+  prepareStructure,
+  type PreparedCompound,
+} from "@/server/services/compounds";
 import { startImport } from "@/server/services/compound-imports";
 import type { World } from "./harness";
 
@@ -18,7 +25,9 @@ import type { World } from "./harness";
  * repeat is refused as already registered (seen once in CI).
  */
 export function uniqueSmiles(): string {
-  const chain = [...crypto.randomBytes(8)].map((b) => "C".repeat(1 + (b % 4)) + ["O", "N", "S"][Math.floor(b / 4) % 3]).join("");
+  const chain = [...crypto.randomBytes(8)]
+    .map((b) => "C".repeat(1 + (b % 4)) + ["O", "N", "S"][Math.floor(b / 4) % 3])
+    .join("");
   return `C${chain}COc1ccc(cc1)C(=O)NC`;
 }
 
@@ -30,7 +39,11 @@ export function compoundsWorld(w: World) {
   if (!p) {
     p = (async () => {
       const admin = w.people.admin;
-      const c = await registerCompound(admin, { smiles: `c1ccc2ccccc2c1C(=O)N${"C".repeat(2 + (parseInt(w.tag, 16) % 50))}O`, name: `World ${w.tag} (invented)`, batch: { supplier: "Invented Supplier" } });
+      const c = await registerCompound(admin, {
+        smiles: `c1ccc2ccccc2c1C(=O)N${"C".repeat(2 + (parseInt(w.tag, 16) % 50))}O`,
+        name: `World ${w.tag} (invented)`,
+        batch: { supplier: "Invented Supplier" },
+      });
       const lib = await createLibrary(admin, { name: `World library ${w.tag}` });
       const imp = await importFile(w, `world-${w.tag}.csv`, `smiles,name\n${uniqueSmiles()},W1\n`);
       return { registryId: c.registryId, libraryId: lib.id, importId: imp };
@@ -42,7 +55,11 @@ export function compoundsWorld(w: World) {
 
 /** Starts an import as the world's admin and waits until it is prepared; returns its id. */
 export async function importFile(w: World, name: string, text: string): Promise<string> {
-  const { job, done } = await startImport(w.people.admin, { fileName: name, contentType: "text/csv", bytes: new TextEncoder().encode(text) });
+  const { job, done } = await startImport(w.people.admin, {
+    fileName: name,
+    contentType: "text/csv",
+    bytes: new TextEncoder().encode(text),
+  });
   await done;
   return job.id;
 }
@@ -64,7 +81,9 @@ export async function ensureCompoundsRegistered(ids: string[]): Promise<void> {
   await db.transaction(async (tx) => {
     // One at a time across test files: the sequence and the unique structure keys are shared.
     await tx.execute(sql`select pg_advisory_xact_lock(5005)`);
-    const seqRow = await tx.execute<{ last_value: string; is_called: boolean }>(sql`select last_value, is_called from compound_number_seq`);
+    const seqRow = await tx.execute<{ last_value: string; is_called: boolean }>(
+      sql`select last_value, is_called from compound_number_seq`,
+    );
     const last = seqRow[0]!.is_called ? Number(seqRow[0]!.last_value) : 0;
     const taken = new Set((await tx.select({ key: compounds.structureKey }).from(compounds)).map((r) => r.key));
     const pool: PreparedCompound[] = [];
@@ -73,16 +92,33 @@ export async function ensureCompoundsRegistered(ids: string[]): Promise<void> {
       const p = prepareStructure({ smiles: d.smiles });
       if (taken.has(p.properties.structureKey)) continue;
       taken.add(p.properties.structureKey);
-      pool.push({ properties: p.properties, fingerprintBits: p.fingerprintBits, name: `${d.name} (invented, test)`, aliases: [], batches: [], stocks: [] });
+      pool.push({
+        properties: p.properties,
+        fingerprintBits: p.fingerprintBits,
+        name: `${d.name} (invented, test)`,
+        aliases: [],
+        batches: [],
+        stocks: [],
+      });
     }
     if (max > last) await insertCompounds(tx, null, pool.splice(0, max - last));
-    const present = new Set((await tx.select({ n: compounds.registryNumber }).from(compounds).where(inArray(compounds.registryNumber, wanted))).map((r) => r.n));
+    const present = new Set(
+      (
+        await tx
+          .select({ n: compounds.registryNumber })
+          .from(compounds)
+          .where(inArray(compounds.registryNumber, wanted))
+      ).map((r) => r.n),
+    );
     for (const n of wanted.filter((x) => !present.has(x))) {
       const p = pool.shift();
       if (!p) throw new Error("ensureCompoundsRegistered: ran out of invented structures");
       const [row] = await insertCompounds(tx, null, [p]);
       // Renumber the row just made to the skipped number.
-      await tx.update(compounds).set({ registryNumber: n, registryId: formatRegistryId(n) }).where(eq(compounds.id, row!.id));
+      await tx
+        .update(compounds)
+        .set({ registryNumber: n, registryId: formatRegistryId(n) })
+        .where(eq(compounds.id, row!.id));
     }
   });
 }

@@ -26,8 +26,14 @@ export type World = {
 export async function makeWorld(tag = crypto.randomBytes(4).toString("hex")): Promise<World> {
   hashed ??= hashPassword(TEST_PASSWORD);
   const passwordHash = await hashed;
-  const [c1] = await db.insert(campaigns).values({ name: `Test campaign ${tag}`, targetEnzyme: "Test enzyme (invented)" }).returning();
-  const [c2] = await db.insert(campaigns).values({ name: `Other campaign ${tag}`, targetEnzyme: "Other enzyme (invented)" }).returning();
+  const [c1] = await db
+    .insert(campaigns)
+    .values({ name: `Test campaign ${tag}`, targetEnzyme: "Test enzyme (invented)" })
+    .returning();
+  const [c2] = await db
+    .insert(campaigns)
+    .values({ name: `Other campaign ${tag}`, targetEnzyme: "Other enzyme (invented)" })
+    .returning();
   const people = {} as World["people"];
   for (const a of actors) {
     if (a === "signedOut") continue;
@@ -47,7 +53,11 @@ export async function makeWorld(tag = crypto.randomBytes(4).toString("hex")): Pr
 
 export async function newTestUser(tag: string, globalRole: "admin" | "member" = "member"): Promise<TestUser> {
   hashed ??= hashPassword(TEST_PASSWORD);
-  const u = { id: crypto.randomUUID(), email: `u-${tag}-${crypto.randomBytes(3).toString("hex")}@test.invalid`, name: `User ${tag}` };
+  const u = {
+    id: crypto.randomUUID(),
+    email: `u-${tag}-${crypto.randomBytes(3).toString("hex")}@test.invalid`,
+    name: `User ${tag}`,
+  };
   await db.insert(users).values({ ...u, passwordHash: await hashed, globalRole });
   return u;
 }
@@ -59,7 +69,11 @@ export function userOf(world: World, actor: Actor): TestUser | null {
 const HOST = "127.0.0.1:3000";
 
 /** Runs fn as `user` (a fresh session) inside a request scope. */
-export async function as<T>(user: TestUser | null, fn: () => Promise<T>, extraHeaders: Record<string, string> = {}): Promise<T> {
+export async function as<T>(
+  user: TestUser | null,
+  fn: () => Promise<T>,
+  extraHeaders: Record<string, string> = {},
+): Promise<T> {
   const cookies: Record<string, string> = {};
   if (user) cookies[SESSION_COOKIE] = await createSessionId(user.id);
   return withRequest({ cookies, headers: { host: HOST, "x-forwarded-for": "203.0.113.7", ...extraHeaders } }, fn);
@@ -69,10 +83,21 @@ type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) 
 
 export async function callRoute(
   handler: unknown,
-  opts: { user: TestUser | null; method?: string; path: string; params?: Record<string, string>; body?: unknown; headers?: Record<string, string> },
+  opts: {
+    user: TestUser | null;
+    method?: string;
+    path: string;
+    params?: Record<string, string>;
+    body?: unknown;
+    headers?: Record<string, string>;
+  },
 ): Promise<{ status: number; json: unknown; response: Response }> {
   const method = opts.method ?? "GET";
-  const headers: Record<string, string> = { host: HOST, ...(method !== "GET" ? { origin: `http://${HOST}` } : {}), ...(opts.headers ?? {}) };
+  const headers: Record<string, string> = {
+    host: HOST,
+    ...(method !== "GET" ? { origin: `http://${HOST}` } : {}),
+    ...(opts.headers ?? {}),
+  };
   let body: BodyInit | undefined;
   if (opts.body instanceof FormData) body = opts.body;
   else if (opts.body !== undefined) {
@@ -95,12 +120,17 @@ export async function callRoute(
   );
 }
 
-export type ActionOutcome = { kind: "state"; state: ActionState } | { kind: "redirect"; to: string } | { kind: "notFound" };
+export type ActionOutcome =
+  { kind: "state"; state: ActionState } | { kind: "redirect"; to: string } | { kind: "notFound" };
 
 type FormActionFn = (prev: ActionState, form: FormData) => Promise<ActionState>;
 
 /** Calls a server action like a form post would; redirect()/notFound() become outcomes. */
-export async function callAction(action: unknown, fields: Record<string, string>, user: TestUser | null): Promise<ActionOutcome> {
+export async function callAction(
+  action: unknown,
+  fields: Record<string, string>,
+  user: TestUser | null,
+): Promise<ActionOutcome> {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) form.append(k, v);
   return as(user, async () => {
@@ -128,7 +158,16 @@ export function deniedAction(o: ActionOutcome): boolean {
 }
 
 /** The e-mail fake's outbox, read the way the tests are meant to read it. */
-export async function outbox(): Promise<{ id: string; to: string[]; subject: string; text: string | null; html: string | null; idempotency_key: string | null }[]> {
+export async function outbox(): Promise<
+  {
+    id: string;
+    to: string[];
+    subject: string;
+    text: string | null;
+    html: string | null;
+    idempotency_key: string | null;
+  }[]
+> {
   const base = process.env.RESEND_BASE_URL;
   if (!base) throw new Error("RESEND_BASE_URL is not set: run the tests with `npm test`.");
   const r = await fetch(`${base}/__outbox`);

@@ -6,8 +6,14 @@ import { AsyncLocalStorage } from "node:async_hooks";
 type Store = { cookies: Map<string, string>; headers: Headers };
 export const requestStore = new AsyncLocalStorage<Store>();
 
-export function withRequest<T>(init: { cookies?: Record<string, string>; headers?: Record<string, string> }, fn: () => Promise<T>): Promise<T> {
-  const store: Store = { cookies: new Map(Object.entries(init.cookies ?? {})), headers: new Headers(init.headers ?? {}) };
+export function withRequest<T>(
+  init: { cookies?: Record<string, string>; headers?: Record<string, string> },
+  fn: () => Promise<T>,
+): Promise<T> {
+  const store: Store = {
+    cookies: new Map(Object.entries(init.cookies ?? {})),
+    headers: new Headers(init.headers ?? {}),
+  };
   return requestStore.run(store, fn);
 }
 

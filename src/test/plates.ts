@@ -19,13 +19,19 @@ export function smallMap(swap = false) {
   const wells: PlateMapWell[] = [];
   NEUTRAL.forEach((_, i) => wells.push({ well: `A${i + 1}`, role: swap ? "full" : "neutral" }));
   FULL.forEach((_, i) => wells.push({ well: `B${i + 1}`, role: swap ? "neutral" : "full" }));
-  for (let c = 1; c <= 12; c++) wells.push({ well: `C${c}`, role: "sample", compound: `INH-${String(c).padStart(6, "0")}`, concentrationUm: 10 });
+  for (let c = 1; c <= 12; c++)
+    wells.push({ well: `C${c}`, role: "sample", compound: `INH-${String(c).padStart(6, "0")}`, concentrationUm: 10 });
   return plateMapFromWells(96, wells);
 }
 
 /** A long endpoint export for smallMap; `salt` changes one digit so each file has its own SHA-256. */
 export function smallExport(salt = 0, extra: string[] = []): Uint8Array<ArrayBuffer> {
-  const lines = [`Invented test plate ${salt}`, "well,value", ...NEUTRAL.map((v, i) => `A${i + 1},${v}`), ...FULL.map((v, i) => `B${i + 1},${v}`)];
+  const lines = [
+    `Invented test plate ${salt}`,
+    "well,value",
+    ...NEUTRAL.map((v, i) => `A${i + 1},${v}`),
+    ...FULL.map((v, i) => `B${i + 1},${v}`),
+  ];
   for (let c = 1; c <= 12; c++) lines.push(`C${c},${c === 1 ? 550 : 900 + c}`);
   lines.push(...extra);
   return new TextEncoder().encode(lines.join("\n") + "\n");
@@ -44,8 +50,16 @@ export function platesWorld(w: World): Promise<{ mapId: string; runId: string }>
   if (!p) {
     p = (async () => {
       await ensureCompoundsRegistered(registryIds(12));
-      const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, { name: `Matrix map ${w.tag}`, map: smallMap() });
-      const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: `matrix-${w.tag}.csv`, contentType: "text/csv", bytes: smallExport(Number.parseInt(w.tag, 16)) });
+      const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, {
+        name: `Matrix map ${w.tag}`,
+        map: smallMap(),
+      });
+      const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+        plateMapId: mapId,
+        fileName: `matrix-${w.tag}.csv`,
+        contentType: "text/csv",
+        bytes: smallExport(Number.parseInt(w.tag, 16)),
+      });
       return { mapId, runId: run.id };
     })();
     cache.set(w.tag, p);

@@ -24,7 +24,11 @@ export async function signOutAction(): Promise<void> {
 
 export const requestResetAction = formAction(resetRequestSchema, async ({ email }) => {
   await requestPasswordReset(email, await clientAddress());
-  return { ok: true, message: "If an account uses that address, a link to choose a new password is on its way. It works once, for one hour." };
+  return {
+    ok: true,
+    message:
+      "If an account uses that address, a link to choose a new password is on its way. It works once, for one hour.",
+  };
 });
 
 export const resetPasswordAction = formAction(resetSchema, async ({ token, password }) => {

@@ -3,7 +3,12 @@ import type { ActionState } from "@/server/action";
 
 export function FormMessage({ state }: { state: ActionState }) {
   if (!state) return null;
-  if (state.ok) return state.message ? <p role="status" className="rounded bg-pass-soft px-2 py-1.5 text-sm text-pass">{state.message}</p> : null;
+  if (state.ok)
+    return state.message ? (
+      <p role="status" className="rounded bg-pass-soft px-2 py-1.5 text-sm text-pass">
+        {state.message}
+      </p>
+    ) : null;
   return (
     <p role="alert" className="rounded bg-fail-soft px-2 py-1.5 text-sm text-fail">
       {state.error}

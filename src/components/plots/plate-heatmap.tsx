@@ -46,7 +46,11 @@ export function PlateHeatmap({
   const { data, layout } = useMemo(() => {
     const z: (number | null)[][] = Array.from({ length: rows }, () => new Array<number | null>(columns).fill(null));
     const text: string[][] = Array.from({ length: rows }, () => new Array<string>(columns).fill(""));
-    const marks = { neutral: { x: [] as number[], y: [] as string[] }, full: { x: [] as number[], y: [] as string[] }, masked: { x: [] as number[], y: [] as string[] } };
+    const marks = {
+      neutral: { x: [] as number[], y: [] as string[] },
+      full: { x: [] as number[], y: [] as string[] },
+      masked: { x: [] as number[], y: [] as string[] },
+    };
     for (const w of wells) {
       const r = Math.floor(w.index / columns);
       const c = w.index % columns;
@@ -78,9 +82,33 @@ export function PlateHeatmap({
         ygap: 1,
         colorbar: { title: { text: unit, side: "right" }, thickness: 10, len: 0.9 },
       },
-      { type: "scatter", mode: "markers", name: "neutral control", x: marks.neutral.x, y: marks.neutral.y, hoverinfo: "skip", marker: { symbol: "circle-open", size: markerSize, color: "#1d2630", line: { width: 1.5 } } },
-      { type: "scatter", mode: "markers", name: "full-inhibition control", x: marks.full.x, y: marks.full.y, hoverinfo: "skip", marker: { symbol: "square-open", size: markerSize, color: "#ffffff", line: { width: 1.5 } } },
-      { type: "scatter", mode: "markers", name: "masked", x: marks.masked.x, y: marks.masked.y, hoverinfo: "skip", marker: { symbol: "x-thin-open", size: markerSize + 2, color: "#b42318", line: { width: 2.5 } } },
+      {
+        type: "scatter",
+        mode: "markers",
+        name: "neutral control",
+        x: marks.neutral.x,
+        y: marks.neutral.y,
+        hoverinfo: "skip",
+        marker: { symbol: "circle-open", size: markerSize, color: "#1d2630", line: { width: 1.5 } },
+      },
+      {
+        type: "scatter",
+        mode: "markers",
+        name: "full-inhibition control",
+        x: marks.full.x,
+        y: marks.full.y,
+        hoverinfo: "skip",
+        marker: { symbol: "square-open", size: markerSize, color: "#ffffff", line: { width: 1.5 } },
+      },
+      {
+        type: "scatter",
+        mode: "markers",
+        name: "masked",
+        x: marks.masked.x,
+        y: marks.masked.y,
+        hoverinfo: "skip",
+        marker: { symbol: "x-thin-open", size: markerSize + 2, color: "#b42318", line: { width: 2.5 } },
+      },
     ];
     const sel = selected ? /^([A-Z]{1,2})(\d+)$/.exec(selected) : null;
     const layout: PlotParams["layout"] = {
@@ -89,10 +117,35 @@ export function PlateHeatmap({
       height,
       // The symbols are explained in words beside the chart (a white square vanishes in a legend).
       showlegend: false,
-      xaxis: { side: "top", tickmode: "array", tickvals: x.filter((c) => columns <= 24 || c % 4 === 0 || c === 1), ticks: "", showgrid: false, fixedrange: true },
-      yaxis: { autorange: "reversed", tickmode: "array", tickvals: y.filter((_, i) => rows <= 16 || i % 2 === 0), ticks: "", showgrid: false, fixedrange: true },
+      xaxis: {
+        side: "top",
+        tickmode: "array",
+        tickvals: x.filter((c) => columns <= 24 || c % 4 === 0 || c === 1),
+        ticks: "",
+        showgrid: false,
+        fixedrange: true,
+      },
+      yaxis: {
+        autorange: "reversed",
+        tickmode: "array",
+        tickvals: y.filter((_, i) => rows <= 16 || i % 2 === 0),
+        ticks: "",
+        showgrid: false,
+        fixedrange: true,
+      },
       shapes: sel
-        ? [{ type: "rect", xref: "x", yref: "y", x0: Number(sel[2]) - 0.5, x1: Number(sel[2]) + 0.5, y0: y.indexOf(sel[1]!) - 0.5, y1: y.indexOf(sel[1]!) + 0.5, line: { color: "#0f766e", width: 2.5 } }]
+        ? [
+            {
+              type: "rect",
+              xref: "x",
+              yref: "y",
+              x0: Number(sel[2]) - 0.5,
+              x1: Number(sel[2]) + 0.5,
+              y0: y.indexOf(sel[1]!) - 0.5,
+              y1: y.indexOf(sel[1]!) + 0.5,
+              line: { color: "#0f766e", width: 2.5 },
+            },
+          ]
         : [],
     };
     return { data, layout };

@@ -8,10 +8,18 @@ import type { PlotParams } from "react-plotly.js";
  */
 export const Plot = dynamic<PlotParams>(
   async () => {
-    const [{ default: Plotly }, { default: createPlotlyComponent }] = await Promise.all([import("plotly.js-dist-min"), import("react-plotly.js/factory")]);
+    const [{ default: Plotly }, { default: createPlotlyComponent }] = await Promise.all([
+      import("plotly.js-dist-min"),
+      import("react-plotly.js/factory"),
+    ]);
     return createPlotlyComponent(Plotly);
   },
-  { ssr: false, loading: () => <div className="flex h-full min-h-40 items-center justify-center text-xs text-ink-faint">Loading chart…</div> },
+  {
+    ssr: false,
+    loading: () => (
+      <div className="flex h-full min-h-40 items-center justify-center text-xs text-ink-faint">Loading chart…</div>
+    ),
+  },
 );
 
 /** Calm defaults shared by every chart: the app's font and colours, no logo, small margins. */
@@ -22,4 +30,8 @@ export const baseLayout = {
   margin: { l: 44, r: 12, t: 28, b: 36 },
 } as const;
 
-export const baseConfig = { displaylogo: false, responsive: true, modeBarButtonsToRemove: ["lasso2d", "select2d", "autoScale2d"] } as PlotParams["config"];
+export const baseConfig = {
+  displaylogo: false,
+  responsive: true,
+  modeBarButtonsToRemove: ["lasso2d", "select2d", "autoScale2d"],
+} as PlotParams["config"];

@@ -81,16 +81,22 @@ function byCompound(readings: readonly AnalysisReading[]): Map<string, AnalysisR
     list.push(r);
     m.set(r.compoundId, list);
   }
-  for (const list of m.values()) list.sort((a, b) => (a.runId === b.runId ? a.well.localeCompare(b.well) : a.runId.localeCompare(b.runId)));
+  for (const list of m.values())
+    list.sort((a, b) => (a.runId === b.runId ? a.well.localeCompare(b.well) : a.runId.localeCompare(b.runId)));
   return new Map([...m.entries()].sort(([a], [b]) => a.localeCompare(b)));
 }
 
 // ---------------------------------------------------------------------------------------------
 // Single-dose
 
-export function analyseSingleDose(readings: readonly AnalysisReading[], rule: HitRule): { results: CompoundResult[]; threshold: number | null } {
+export function analyseSingleDose(
+  readings: readonly AnalysisReading[],
+  rule: HitRule,
+): { results: CompoundResult[]; threshold: number | null } {
   const groups = byCompound(readings);
-  const neutralPct = readings.filter((r) => r.role === "neutral" && !r.masked && r.inhibitionPct !== null).map((r) => r.inhibitionPct!);
+  const neutralPct = readings
+    .filter((r) => r.role === "neutral" && !r.masked && r.inhibitionPct !== null)
+    .map((r) => r.inhibitionPct!);
   const rows: { id: string; mean: number; sd: number | null; n: number; concs: number[] }[] = [];
   for (const [id, list] of groups) {
     const values = list.map((r) => r.inhibitionPct).filter((x): x is number => x !== null && Number.isFinite(x));
@@ -154,15 +160,25 @@ function ic50Summary(fit: Logistic4Fit, xs: number[]) {
   return { ic50, qualifier, rangeUm: [lo, hi] as [number, number] };
 }
 
-export function analyseDoseResponse(readings: readonly AnalysisReading[], opts: DoseResponseOptions = {}): CompoundResult[] {
+export function analyseDoseResponse(
+  readings: readonly AnalysisReading[],
+  opts: DoseResponseOptions = {},
+): CompoundResult[] {
   const out: CompoundResult[] = [];
   for (const [id, list] of byCompound(readings)) {
-    const pts = list.filter((r) => r.concentrationUm !== null && r.inhibitionPct !== null && Number.isFinite(r.inhibitionPct));
+    const pts = list.filter(
+      (r) => r.concentrationUm !== null && r.inhibitionPct !== null && Number.isFinite(r.inhibitionPct),
+    );
     const x = pts.map((r) => r.concentrationUm!);
     const y = pts.map((r) => r.inhibitionPct!);
     const distinct = new Set(x.filter((c) => c > 0)).size;
     if (distinct < 4 || pts.length < 5) {
-      out.push({ compoundId: id, nPoints: pts.length, flags: ["too-few-points"], detail: { points: pts.map((r) => [r.concentrationUm, r.inhibitionPct, r.runId, r.well]) } });
+      out.push({
+        compoundId: id,
+        nPoints: pts.length,
+        flags: ["too-few-points"],
+        detail: { points: pts.map((r) => [r.concentrationUm, r.inhibitionPct, r.runId, r.well]) },
+      });
       continue;
     }
     const fit = fitLogistic4(x, y, {
@@ -173,7 +189,14 @@ export function analyseDoseResponse(readings: readonly AnalysisReading[], opts: 
     const s = ic50Summary(fit, x);
     // % inhibition rises with concentration: the upper plateau is the maximum inhibition.
     if (fit.direction === "falling") flags.push("activation-not-inhibition");
-    if (fit.top !== null && fit.direction === "rising" && fit.top < 80 && !fit.flags.includes("plateau-not-reached") && s.qualifier === null) flags.push("partial-inhibition");
+    if (
+      fit.top !== null &&
+      fit.direction === "rising" &&
+      fit.top < 80 &&
+      !fit.flags.includes("plateau-not-reached") &&
+      s.qualifier === null
+    )
+      flags.push("partial-inhibition");
     if (fit.bottom !== null && Math.abs(fit.bottom) > 20) flags.push("baseline-offset");
     let morrison: Record<string, unknown> | null = null;
     const e = opts.enzymeUm ?? null;
@@ -278,17 +301,28 @@ export function summariseMechanism(fit: MechanismResult, chosen: InhibitionModel
   };
 }
 
-export function analyseMechanism(readings: readonly AnalysisReading[], opts: MechanismAnalysisOptions = {}): CompoundResult[] {
+export function analyseMechanism(
+  readings: readonly AnalysisReading[],
+  opts: MechanismAnalysisOptions = {},
+): CompoundResult[] {
   // Background: the mean rate of blank wells on each run, when there are any.
   const blanks = new Map<string, number[]>();
-  for (const r of readings) if (r.role === "blank" && !r.masked && r.signal !== null) blanks.set(r.runId, [...(blanks.get(r.runId) ?? []), r.signal]);
+  for (const r of readings)
+    if (r.role === "blank" && !r.masked && r.signal !== null)
+      blanks.set(r.runId, [...(blanks.get(r.runId) ?? []), r.signal]);
   const background = new Map([...blanks.entries()].map(([k, v]) => [k, v.reduce((a, b) => a + b, 0) / v.length]));
 
   const out: CompoundResult[] = [];
   for (const [id, list] of byCompound(readings)) {
     const pts = list
       .filter((r) => r.substrateUm !== null && r.signal !== null && Number.isFinite(r.signal))
-      .map((r) => ({ substrate: r.substrateUm!, inhibitor: r.concentrationUm ?? 0, rate: r.signal! - (background.get(r.runId) ?? 0), runId: r.runId, well: r.well }));
+      .map((r) => ({
+        substrate: r.substrateUm!,
+        inhibitor: r.concentrationUm ?? 0,
+        rate: r.signal! - (background.get(r.runId) ?? 0),
+        runId: r.runId,
+        well: r.well,
+      }));
     const levelsS = new Set(pts.map((p) => p.substrate)).size;
     const levelsI = new Set(pts.map((p) => p.inhibitor)).size;
     if (pts.length < 6 || levelsS < 3 || levelsI < 2) {
@@ -296,7 +330,10 @@ export function analyseMechanism(readings: readonly AnalysisReading[], opts: Mec
         compoundId: id,
         nPoints: pts.length,
         flags: ["too-few-points"],
-        detail: { reason: `needs at least 3 substrate and 2 inhibitor concentrations (has ${levelsS} and ${levelsI})`, points: pts },
+        detail: {
+          reason: `needs at least 3 substrate and 2 inhibitor concentrations (has ${levelsS} and ${levelsI})`,
+          points: pts,
+        },
       });
       continue;
     }
@@ -304,14 +341,20 @@ export function analyseMechanism(readings: readonly AnalysisReading[], opts: Mec
     try {
       fit = fitMechanism(pts, { weighting: opts.weighting ?? "none" });
     } catch (e) {
-      out.push({ compoundId: id, nPoints: pts.length, flags: ["fit-failed"], detail: { error: e instanceof Error ? e.message : String(e), points: pts } });
+      out.push({
+        compoundId: id,
+        nPoints: pts.length,
+        flags: ["fit-failed"],
+        detail: { error: e instanceof Error ? e.message : String(e), points: pts },
+      });
       continue;
     }
     const s = summariseMechanism(fit);
     const flags: string[] = [];
     if (fit.label === "ambiguous") flags.push("ambiguous-mechanism");
     if (!fit.models[fit.best].converged) flags.push("not-converged");
-    if (s.kiCi95Um[0] !== null && s.kiCi95Um[1] !== null && s.kiCi95Um[1] / Math.max(s.kiCi95Um[0], 1e-300) > 10) flags.push("ki-ci-wider-than-10-fold");
+    if (s.kiCi95Um[0] !== null && s.kiCi95Um[1] !== null && s.kiCi95Um[1] / Math.max(s.kiCi95Um[0], 1e-300) > 10)
+      flags.push("ki-ci-wider-than-10-fold");
     if (s.kiCi95Um[1] === null) flags.push("ki-ci-unbounded");
     const maxI = Math.max(...pts.map((p) => p.inhibitor));
     if (s.kiUm !== null && s.kiUm > 3 * maxI) flags.push("ki-above-tested-range");

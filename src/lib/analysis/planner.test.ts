@@ -29,6 +29,8 @@ describe("mechanism-study planner", () => {
     expect(validatePlateMap(plateMapFromWells(96, p.wells))).toEqual([]);
   });
   it("warns about tight binding when IC50 < 10·[E]", () => {
-    expect(planMechanismStudy({ compound: "X", ic50Um: 0.05, kmUm: 20, enzymeUm: 0.01 }).warnings[0]).toMatch(/tight binding/);
+    expect(planMechanismStudy({ compound: "X", ic50Um: 0.05, kmUm: 20, enzymeUm: 0.01 }).warnings[0]).toMatch(
+      /tight binding/,
+    );
   });
 });

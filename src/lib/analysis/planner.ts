@@ -45,15 +45,24 @@ export function planMechanismStudy(p: PlanInput): Plan {
   const substrateUm = substrateFactors.map((f) => sig(f * p.kmUm));
   const dims = plateDimensions(format);
   const levels = Math.min(6, Math.floor(dims.rows / replicates));
-  if (levels < 3) throw new RangeError(`A ${format}-well plate has too few rows for ${replicates} replicates of at least 3 inhibitor concentrations.`);
+  if (levels < 3)
+    throw new RangeError(
+      `A ${format}-well plate has too few rows for ${replicates} replicates of at least 3 inhibitor concentrations.`,
+    );
   // 0 and log-spaced multiples of the expected Ki from 0.3 to 10.
-  const multiples = levels >= 6 ? [0.3, 1, 2, 4, 10] : levels === 5 ? [0.3, 1, 3, 10] : levels === 4 ? [0.3, 1.5, 6] : [1, 5];
+  const multiples =
+    levels >= 6 ? [0.3, 1, 2, 4, 10] : levels === 5 ? [0.3, 1, 3, 10] : levels === 4 ? [0.3, 1.5, 6] : [1, 5];
   const inhibitorUm = [0, ...multiples.map((m) => sig(m * expectedKiUm))];
   const warnings: string[] = [];
   if (p.enzymeUm && p.ic50Um < 10 * p.enzymeUm) {
-    warnings.push(`IC50 is within 10 × the enzyme concentration: tight binding is likely, so fit the Morrison equation and lower [E] if possible.`);
+    warnings.push(
+      `IC50 is within 10 × the enzyme concentration: tight binding is likely, so fit the Morrison equation and lower [E] if possible.`,
+    );
   }
-  if (dims.columns < substrateUm.length + 2) throw new RangeError(`A ${format}-well plate is too narrow for 8 substrate concentrations and two control columns.`);
+  if (dims.columns < substrateUm.length + 2)
+    throw new RangeError(
+      `A ${format}-well plate is too narrow for 8 substrate concentrations and two control columns.`,
+    );
   const matrix = mechanismMatrix({ format, compound: p.compound, substrateUm, inhibitorUm, replicates, origin: "A3" });
   // Controls: neutral (no inhibitor, [S] = Km) in column 1, full inhibition (no enzyme) in column 2.
   const controlRows = Math.min(dims.rows, Math.max(4, inhibitorUm.length * replicates));
@@ -62,5 +71,13 @@ export function planMechanismStudy(p: PlanInput): Plan {
     controls.push({ well: `${rowLabel(r)}1`, role: "neutral", substrateUm: sig(p.kmUm) });
     controls.push({ well: `${rowLabel(r)}2`, role: "full", substrateUm: sig(p.kmUm) });
   }
-  return { expectedKiUm: sig(expectedKiUm), substrateUm, inhibitorUm, replicates, format, wells: [...controls, ...matrix], warnings };
+  return {
+    expectedKiUm: sig(expectedKiUm),
+    substrateUm,
+    inhibitorUm,
+    replicates,
+    format,
+    wells: [...controls, ...matrix],
+    warnings,
+  };
 }

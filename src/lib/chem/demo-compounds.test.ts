@@ -36,7 +36,9 @@ describe("demoCompounds (invented)", () => {
   it("every record passes the register schema", () => {
     for (const c of compounds) {
       for (const batch of c.batches) {
-        expect(registerCompoundSchema.safeParse({ smiles: c.smiles, name: c.name, aliases: c.aliases, batch }).success).toBe(true);
+        expect(
+          registerCompoundSchema.safeParse({ smiles: c.smiles, name: c.name, aliases: c.aliases, batch }).success,
+        ).toBe(true);
       }
       for (const { batchIndex, ...stock } of c.stocks) {
         expect(batchIndex).toBeLessThan(c.batches.length);

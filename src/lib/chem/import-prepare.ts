@@ -90,7 +90,12 @@ export function prepareImport(records: readonly ImportRecord[], options: Prepare
           message: `Kept the largest component; recorded "${salt}" as the batch's salt form.`,
         });
       } else {
-        warnings.push({ record: rec.recordNo, line: rec.line, field, message: `Kept the largest component; removed ${salt}.` });
+        warnings.push({
+          record: rec.recordNo,
+          line: rec.line,
+          field,
+          message: `Kept the largest component; removed ${salt}.`,
+        });
       }
     }
     prepared.push(out);

@@ -41,7 +41,12 @@ function splitRecords(text: string): SdfRecord[] | string {
       data.push({ name: (m[1] ?? "").trim(), value: value.join("\n").trim() });
       i = j;
     }
-    records.push({ line: start + 1, molfile: block.slice(0, ctabEnd).join("\n"), title: (block[0] ?? "").trim(), data });
+    records.push({
+      line: start + 1,
+      molfile: block.slice(0, ctabEnd).join("\n"),
+      title: (block[0] ?? "").trim(),
+      data,
+    });
   };
   for (let i = 0; i < lines.length; i++) {
     if ((lines[i] ?? "").trimEnd() === "$$$$") {
@@ -57,11 +62,14 @@ function splitRecords(text: string): SdfRecord[] | string {
 
 export function parseSdfImport(input: string | Uint8Array): ImportParseResult {
   const size = typeof input === "string" ? input.length : input.byteLength;
-  if (size > MAX_IMPORT_BYTES) return emptyResult("sdf", [`The file is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MB.`]);
+  if (size > MAX_IMPORT_BYTES)
+    return emptyResult("sdf", [`The file is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MB.`]);
   const text = typeof input === "string" ? input : new TextDecoder("utf-8").decode(input);
   const split = splitRecords(text.replace(/^\uFEFF/, ""));
   if (typeof split === "string") {
-    return emptyResult("sdf", [`The file has ${split}; the limit is ${MAX_IMPORT_RECORDS.toLocaleString("en")}. Split it into several files.`]);
+    return emptyResult("sdf", [
+      `The file has ${split}; the limit is ${MAX_IMPORT_RECORDS.toLocaleString("en")}. Split it into several files.`,
+    ]);
   }
   if (split.length === 0) return emptyResult("sdf", ["The file contains no SDF records."]);
 

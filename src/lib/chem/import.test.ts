@@ -119,10 +119,14 @@ describe("normaliseHeader", () => {
 describe("prepareImport", () => {
   it("reports duplicate structures inside the file, and stereo forms as warnings", () => {
     const r = parseCsvImport(
-      ["smiles,name", "CC(=O)Oc1ccccc1C(O)=O,a", "OC(=O)c1ccccc1OC(C)=O,b", "C[C@H](N)C(=O)O,c", "CC(N)C(=O)O,d"].join("\n"),
+      ["smiles,name", "CC(=O)Oc1ccccc1C(O)=O,a", "OC(=O)c1ccccc1OC(C)=O,b", "C[C@H](N)C(=O)O,c", "CC(N)C(=O)O,d"].join(
+        "\n",
+      ),
     );
     const prep = prepareImport(r.records);
-    expect(prep.issues).toEqual([{ record: 2, line: 3, field: "smiles", message: "Same structure as record 1 (line 2)." }]);
+    expect(prep.issues).toEqual([
+      { record: 2, line: 3, field: "smiles", message: "Same structure as record 1 (line 2)." },
+    ]);
     expect(prep.warnings).toEqual([
       {
         record: 4,
@@ -190,7 +194,9 @@ describe("parseSdfImport", () => {
       batch: { supplier: "Imaginary Chemicals", purityPct: 97.5 },
     });
     expect(r.records[0]?.molfile).toMatch(/M {2}END$/);
-    expect(r.issues).toEqual([{ record: 2, line: 21, field: "purity", message: "Purity (%) must be between 0 and 100." }]);
+    expect(r.issues).toEqual([
+      { record: 2, line: 21, field: "purity", message: "Purity (%) must be between 0 and 100." },
+    ]);
     expect(r.ignoredFields).toEqual(["Registry note"]);
     expect(prepareImport(r.records).prepared[0]?.properties.formula).toBe("C2H6O");
   });

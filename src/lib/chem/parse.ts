@@ -171,12 +171,7 @@ function heavyAtomCount(mol: Molecule): number {
  * Steps 1–4 of the module doc. Mutates and returns `mol`'s normalised parent (a new molecule when
  * components were removed).
  */
-function normalise(
-  mol: Molecule,
-  format: StructureFormat,
-  label: string,
-  options: ParseOptions,
-): ParseResult {
+function normalise(mol: Molecule, format: StructureFormat, label: string, options: ParseOptions): ParseResult {
   if (mol.getAllAtoms() === 0) return { ok: false, format, error: `${label} is empty: it contains no atoms.` };
   const valence = valenceProblem(mol);
   if (valence) return { ok: false, format, error: `${label} is not a valid structure: ${valence}.` };
@@ -263,7 +258,8 @@ export function parseSmiles(input: string, options: ParseOptions = {}): ParseRes
  */
 export function parseMolfile(input: string, options: ParseOptions = {}): ParseResult {
   const label = "Molfile";
-  if (input.trim() === "") return { ok: false, format: "molfile", error: "Molfile is empty: paste or upload a structure." };
+  if (input.trim() === "")
+    return { ok: false, format: "molfile", error: "Molfile is empty: paste or upload a structure." };
   if (input.length > MAX_MOLFILE_LENGTH) {
     return { ok: false, format: "molfile", error: `Molfile is larger than ${MAX_MOLFILE_LENGTH} characters.` };
   }

@@ -144,7 +144,8 @@ export function exactSearchPage<T extends { structureKey: string }>(
   let matched = 0;
   let checked = 0;
   for (const c of candidates) {
-    if (!options.countAll && matched >= offset + limit) return { items, matched, checked, complete: false, timedOut: false };
+    if (!options.countAll && matched >= offset + limit)
+      return { items, matched, checked, complete: false, timedOut: false };
     if ((checked & 31) === 0 && performance.now() - start > budget) {
       return { items, matched, checked, complete: false, timedOut: true };
     }

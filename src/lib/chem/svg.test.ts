@@ -52,7 +52,7 @@ describe("structureSvg", () => {
   });
 
   it("the safety check refuses scripts and handlers", () => {
-    expect(() => assertSafeSvg('<svg><script>alert(1)</script></svg>')).toThrow(/forbidden element <script>/);
+    expect(() => assertSafeSvg("<svg><script>alert(1)</script></svg>")).toThrow(/forbidden element <script>/);
     expect(() => assertSafeSvg('<svg onload="x()"></svg>')).toThrow(/forbidden attribute onload/);
     expect(() => assertSafeSvg('<svg><a href="javascript:x"></a></svg>')).toThrow(/forbidden/);
   });

@@ -25,7 +25,18 @@ export interface SvgOptions {
   stereoLabels?: boolean;
 }
 
-const ALLOWED_ELEMENTS = new Set(["svg", "style", "text", "line", "polygon", "polyline", "path", "circle", "rect", "g"]);
+const ALLOWED_ELEMENTS = new Set([
+  "svg",
+  "style",
+  "text",
+  "line",
+  "polygon",
+  "polyline",
+  "path",
+  "circle",
+  "rect",
+  "g",
+]);
 const ALLOWED_ATTRIBUTES = new Set([
   "id",
   "xmlns",

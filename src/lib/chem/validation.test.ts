@@ -41,7 +41,7 @@ describe("registerCompoundSchema", () => {
   });
 
   it("refuses formula-like text (OWASP CSV Injection)", () => {
-    const e = errors({ smiles: "C", name: "=HYPERLINK(\"x\")", aliases: ["@SUM(1)"] });
+    const e = errors({ smiles: "C", name: '=HYPERLINK("x")', aliases: ["@SUM(1)"] });
     expect(e.map((x) => x.field)).toEqual(["name", "aliases.0"]);
     expect(e[0]?.message).toMatch(/starts with "=", which a spreadsheet may run as a formula/);
   });
@@ -50,7 +50,9 @@ describe("registerCompoundSchema", () => {
     expect(normaliseAmountUnit("ug")).toBe("µg");
     expect(normaliseAmountUnit("ML")).toBe("mL");
     expect(normaliseAmountUnit("kg")).toBeUndefined();
-    expect(registerCompoundSchema.parse({ smiles: "C", batch: { amount: 1, amountUnit: "mcg" } }).batch?.amountUnit).toBe("µg");
+    expect(
+      registerCompoundSchema.parse({ smiles: "C", batch: { amount: 1, amountUnit: "mcg" } }).batch?.amountUnit,
+    ).toBe("µg");
   });
 
   it("import records take no distinctReason", () => {

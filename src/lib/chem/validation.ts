@@ -21,12 +21,12 @@ export type AmountUnit = (typeof AMOUNT_UNITS)[number];
 const UNIT_ALIASES: Record<string, AmountUnit> = {
   ug: "µg",
   mcg: "µg",
-  "μg": "µg", // Greek mu (U+03BC) → micro sign (U+00B5)
+  μg: "µg", // Greek mu (U+03BC) → micro sign (U+00B5)
   µg: "µg",
   mg: "mg",
   g: "g",
   ul: "µL",
-  "μl": "µL",
+  μl: "µL",
   µl: "µL",
   ml: "mL",
 };
@@ -35,7 +35,8 @@ export function normaliseAmountUnit(raw: string): AmountUnit | undefined {
   return UNIT_ALIASES[raw.trim().toLowerCase()];
 }
 
-const blankToUndefined = (v: unknown) => (v === "" || v === null || (typeof v === "string" && v.trim() === "") ? undefined : v);
+const blankToUndefined = (v: unknown) =>
+  v === "" || v === null || (typeof v === "string" && v.trim() === "") ? undefined : v;
 
 /** Required text, max `max` characters, refusing formula-like text; trimmed after the check. */
 export function safeTextRequired(max: number) {
@@ -55,7 +56,9 @@ export function safeText(max: number) {
 }
 
 function optionalNumber(min: number, max: number, what: string, { exclusiveMin = false } = {}) {
-  const base = z.coerce.number({ error: `${what} must be a number.` }).refine(Number.isFinite, `${what} must be a number.`);
+  const base = z.coerce
+    .number({ error: `${what} must be a number.` })
+    .refine(Number.isFinite, `${what} must be a number.`);
   const ranged = exclusiveMin
     ? base.refine((n) => n > min && n <= max, `${what} must be greater than ${min} and at most ${max}.`)
     : base.refine((n) => n >= min && n <= max, `${what} must be between ${min} and ${max}.`);
@@ -68,7 +71,10 @@ const isoDate = z.preprocess(
     .string()
     .trim()
     .regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2025-03-14.")
-    .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), "Not a calendar date.")
+    .refine(
+      (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+      "Not a calendar date.",
+    )
     .optional(),
 );
 

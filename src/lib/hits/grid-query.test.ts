@@ -13,7 +13,17 @@ describe("grid request to hit query", () => {
       },
       { status: ["unreviewed", "on-hold"], mechanism: ["competitive"], flagged: "false" },
     );
-    expect(q).toEqual({ sort: "ki", dir: "desc", ic50Min: "0.1", ic50Max: "3", leMin: "0.3", q: "INH-0001", status: "unreviewed,on-hold", mechanism: "competitive", flagged: "false" });
+    expect(q).toEqual({
+      sort: "ki",
+      dir: "desc",
+      ic50Min: "0.1",
+      ic50Max: "3",
+      leMin: "0.3",
+      q: "INH-0001",
+      status: "unreviewed,on-hold",
+      mechanism: "competitive",
+      flagged: "false",
+    });
   });
   it("round-trips through a saved view", () => {
     const q = { sort: "lipe", dir: "asc", kiMax: "0.5", status: "confirmed", owner: "Lars" };

@@ -10,7 +10,12 @@ export type GridSort = { colId: string; sort: "asc" | "desc" }[];
 export type GridNumberFilter = { filterType: "number"; type: string; filter?: number | null; filterTo?: number | null };
 export type GridTextFilter = { filterType: "text"; type: string; filter?: string | null };
 export type GridFilterModel = Record<string, GridNumberFilter | GridTextFilter | { filterType?: string }>;
-export type Toolbar = { status?: string[]; mechanism?: string[]; flagged?: "" | "true" | "false"; hit?: "" | "true" | "false" };
+export type Toolbar = {
+  status?: string[];
+  mechanism?: string[];
+  flagged?: "" | "true" | "false";
+  hit?: "" | "true" | "false";
+};
 
 const isRange = (f: string): f is RangeField => (rangeFields as readonly string[]).includes(f);
 const isSort = (f: string): f is SortField => (sortFields as readonly string[]).includes(f);
@@ -52,19 +57,37 @@ export function gridToQuery(sortModel: GridSort, filterModel: GridFilterModel, t
 }
 
 /** The reverse, for restoring a saved view into the grid: filter model and toolbar from query parameters. */
-export function queryToGrid(q: HitQueryParams): { sortModel: GridSort; filterModel: GridFilterModel; toolbar: Toolbar } {
-  const sortModel: GridSort = q.sort && isSort(q.sort) && q.sort !== "default" ? [{ colId: q.sort, sort: q.dir === "desc" ? "desc" : "asc" }] : [];
+export function queryToGrid(q: HitQueryParams): {
+  sortModel: GridSort;
+  filterModel: GridFilterModel;
+  toolbar: Toolbar;
+} {
+  const sortModel: GridSort =
+    q.sort && isSort(q.sort) && q.sort !== "default"
+      ? [{ colId: q.sort, sort: q.dir === "desc" ? "desc" : "asc" }]
+      : [];
   const filterModel: GridFilterModel = {};
   for (const f of rangeFields) {
     const min = q[`${f}Min`];
     const max = q[`${f}Max`];
-    if (min !== undefined && max !== undefined) filterModel[f] = { filterType: "number", type: "inRange", filter: Number(min), filterTo: Number(max) };
-    else if (min !== undefined) filterModel[f] = { filterType: "number", type: "greaterThanOrEqual", filter: Number(min) };
+    if (min !== undefined && max !== undefined)
+      filterModel[f] = { filterType: "number", type: "inRange", filter: Number(min), filterTo: Number(max) };
+    else if (min !== undefined)
+      filterModel[f] = { filterType: "number", type: "greaterThanOrEqual", filter: Number(min) };
     else if (max !== undefined) filterModel[f] = { filterType: "number", type: "lessThanOrEqual", filter: Number(max) };
   }
   if (q.q) filterModel.registryId = { filterType: "text", type: "contains", filter: q.q };
   if (q.owner) filterModel.owner = { filterType: "text", type: "contains", filter: q.owner };
   const flagged = q.flagged === "true" || q.flagged === "false" ? q.flagged : "";
   const hit = q.hit === "true" || q.hit === "false" ? q.hit : "";
-  return { sortModel, filterModel, toolbar: { status: q.status ? q.status.split(",") : [], mechanism: q.mechanism ? q.mechanism.split(",") : [], flagged, hit } };
+  return {
+    sortModel,
+    filterModel,
+    toolbar: {
+      status: q.status ? q.status.split(",") : [],
+      mechanism: q.mechanism ? q.mechanism.split(",") : [],
+      flagged,
+      hit,
+    },
+  };
 }

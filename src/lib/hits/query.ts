@@ -17,7 +17,14 @@ export const triageLabels: Record<TriageStatus, string> = {
   dropped: "dropped",
 };
 
-export const mechanismFilterValues = ["competitive", "uncompetitive", "noncompetitive", "mixed", "ambiguous", "none"] as const;
+export const mechanismFilterValues = [
+  "competitive",
+  "uncompetitive",
+  "noncompetitive",
+  "mixed",
+  "ambiguous",
+  "none",
+] as const;
 
 /** Sortable fields (API name → meaning). `default` is the ranked order. */
 export const sortFields = [
@@ -45,7 +52,21 @@ export const sortFields = [
 export type SortField = (typeof sortFields)[number];
 
 /** Numeric fields with `<field>Min` / `<field>Max` filters (inclusive). */
-export const rangeFields = ["ki", "kic", "kiu", "alpha", "ic50", "hill", "pctInhibition", "le", "lipe", "mw", "clogp", "heavyAtoms", "comments"] as const;
+export const rangeFields = [
+  "ki",
+  "kic",
+  "kiu",
+  "alpha",
+  "ic50",
+  "hill",
+  "pctInhibition",
+  "le",
+  "lipe",
+  "mw",
+  "clogp",
+  "heavyAtoms",
+  "comments",
+] as const;
 export type RangeField = (typeof rangeFields)[number];
 
 export const fieldUnits: Partial<Record<SortField, string>> = {
@@ -61,8 +82,18 @@ export const fieldUnits: Partial<Record<SortField, string>> = {
 const list = <T extends readonly [string, ...string[]]>(values: T, what: string) =>
   z
     .string()
-    .transform((s) => s.split(",").map((x) => x.trim()).filter(Boolean).map((x) => (x === "on hold" ? "on-hold" : x)))
-    .pipe(z.array(z.enum(values, { error: () => `${what} must be one or more of: ${values.join(", ")} (comma-separated).` })));
+    .transform((s) =>
+      s
+        .split(",")
+        .map((x) => x.trim())
+        .filter(Boolean)
+        .map((x) => (x === "on hold" ? "on-hold" : x)),
+    )
+    .pipe(
+      z.array(
+        z.enum(values, { error: () => `${what} must be one or more of: ${values.join(", ")} (comma-separated).` }),
+      ),
+    );
 
 const num = (field: string) =>
   z
@@ -77,17 +108,20 @@ const num = (field: string) =>
       return v;
     });
 
-const bool = (field: string) => z.enum(["true", "false"], { error: () => `${field} must be true or false.` }).transform((s) => s === "true");
+const bool = (field: string) =>
+  z.enum(["true", "false"], { error: () => `${field} must be true or false.` }).transform((s) => s === "true");
 const isoDate = (field: string) =>
   z
     .string()
     .refine((s) => !Number.isNaN(Date.parse(s)), { message: `${field} must be a date (YYYY-MM-DD).` })
     .transform((s) => new Date(s));
 
-const rangeShape = Object.fromEntries(rangeFields.flatMap((f) => [[`${f}Min`, num(`${f}Min`).optional()], [`${f}Max`, num(`${f}Max`).optional()]])) as Record<
-  `${RangeField}${"Min" | "Max"}`,
-  z.ZodOptional<ReturnType<typeof num>>
->;
+const rangeShape = Object.fromEntries(
+  rangeFields.flatMap((f) => [
+    [`${f}Min`, num(`${f}Min`).optional()],
+    [`${f}Max`, num(`${f}Max`).optional()],
+  ]),
+) as Record<`${RangeField}${"Min" | "Max"}`, z.ZodOptional<ReturnType<typeof num>>>;
 
 /** Filters and sort (no paging): what the grid, the API and the export share. */
 export const hitFilterSchema = z.object({
@@ -106,8 +140,18 @@ export const hitFilterSchema = z.object({
 export type HitFilter = z.infer<typeof hitFilterSchema>;
 
 export const hitListSchema = hitFilterSchema.extend({
-  limit: z.coerce.number({ error: () => "limit must be a number." }).int("limit must be a whole number.").min(1, "limit is at least 1.").max(500, "limit is at most 500.").default(100),
-  offset: z.coerce.number({ error: () => "offset must be a number." }).int("offset must be a whole number.").min(0, "offset is at least 0.").max(10_000_000).default(0),
+  limit: z.coerce
+    .number({ error: () => "limit must be a number." })
+    .int("limit must be a whole number.")
+    .min(1, "limit is at least 1.")
+    .max(500, "limit is at most 500.")
+    .default(100),
+  offset: z.coerce
+    .number({ error: () => "offset must be a number." })
+    .int("offset must be a whole number.")
+    .min(0, "offset is at least 0.")
+    .max(10_000_000)
+    .default(0),
 });
 
 export const hitExportSchema = hitFilterSchema.extend({
@@ -127,9 +171,18 @@ export function hitQueryString(p: HitQueryParams, extra: Record<string, string |
 /** A saved view: the grid's column state plus the query (filters and sort). */
 export const savedViewStateSchema = z.object({
   columns: z
-    .array(z.object({ colId: z.string().max(40), hide: z.boolean().optional().nullable(), width: z.number().min(10).max(2000).optional().nullable(), pinned: z.enum(["left", "right"]).optional().nullable() }))
+    .array(
+      z.object({
+        colId: z.string().max(40),
+        hide: z.boolean().optional().nullable(),
+        width: z.number().min(10).max(2000).optional().nullable(),
+        pinned: z.enum(["left", "right"]).optional().nullable(),
+      }),
+    )
     .max(60),
-  query: z.record(z.string().max(40), z.string().max(400)).refine((q) => Object.keys(q).length <= 60, "A view holds at most 60 filters."),
+  query: z
+    .record(z.string().max(40), z.string().max(400))
+    .refine((q) => Object.keys(q).length <= 60, "A view holds at most 60 filters."),
 });
 export type SavedViewState = z.infer<typeof savedViewStateSchema>;
 
@@ -139,12 +192,18 @@ export const saveViewSchema = z.object({
 });
 
 export const triageSchema = z.object({
-  status: z.preprocess((s) => (s === "on hold" ? "on-hold" : s), z.enum(triageStatuses, { error: () => `status must be one of: ${triageStatuses.join(", ")}.` })),
+  status: z.preprocess(
+    (s) => (s === "on hold" ? "on-hold" : s),
+    z.enum(triageStatuses, { error: () => `status must be one of: ${triageStatuses.join(", ")}.` }),
+  ),
   comment: z.string().trim().max(2000, "A comment is at most 2,000 characters.").optional(),
 });
 
 export const bulkTriageSchema = triageSchema.extend({
-  registryIds: z.array(z.string().trim().min(1).max(40)).min(1, "Choose at least one compound.").max(5000, "At most 5,000 compounds at once."),
+  registryIds: z
+    .array(z.string().trim().min(1).max(40))
+    .min(1, "Choose at least one compound.")
+    .max(5000, "At most 5,000 compounds at once."),
 });
 
 export const commentSchema = z.object({

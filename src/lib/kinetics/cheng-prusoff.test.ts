@@ -56,7 +56,12 @@ describe("Morrison tight-binding equation (Morrison 1969; Copeland et al. 1995; 
     expect(f.kApp).toBeCloseTo(1, 8);
     expect(f.v0).toBeCloseTo(250, 6);
     expect(f.ic50).toBeCloseTo(6, 8);
-    const fixed = fitMorrison(i, v.map((x) => x / 250), 10, { fixedV0: 1 });
+    const fixed = fitMorrison(
+      i,
+      v.map((x) => x / 250),
+      10,
+      { fixedV0: 1 },
+    );
     expect(fixed.kApp).toBeCloseTo(1, 8);
     expect(fixed.v0Se).toBeNull();
   });

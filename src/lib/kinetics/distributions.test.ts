@@ -1,5 +1,12 @@
 import { describe, expect, it } from "vitest";
-import { fCdf, fSurvival, regularizedIncompleteBeta, studentTCdf, studentTQuantile, tCritical95 } from "./distributions";
+import {
+  fCdf,
+  fSurvival,
+  regularizedIncompleteBeta,
+  studentTCdf,
+  studentTQuantile,
+  tCritical95,
+} from "./distributions";
 import { runScipyOracle } from "./testdata/python-oracle";
 
 const dfs = [1, 2, 3, 4, 5, 6, 8, 10, 12, 20, 32, 50, 100, 1000, 100000];
@@ -29,7 +36,9 @@ describe("distribution functions against SciPy (scipy.stats / scipy.special, run
       [1e-5, 3, 0.5],
     ],
   };
-  const scipy = runScipyOracle<{ distributions: { tppf: number[]; tcdf: number[]; fsf: number[]; betainc: number[] } }>({ distributions: request }).distributions;
+  const scipy = runScipyOracle<{ distributions: { tppf: number[]; tcdf: number[]; fsf: number[]; betainc: number[] } }>(
+    { distributions: request },
+  ).distributions;
 
   it("Student t quantile matches scipy.stats.t.ppf to 1e-9 relative", () => {
     request.tppf.forEach(([p, df], k) => {

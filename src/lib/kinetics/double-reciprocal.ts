@@ -19,11 +19,15 @@ export interface ReciprocalPoint {
 }
 
 /** Transforms data points; rows with S ≤ 0 or v ≤ 0 have no reciprocal and are skipped. */
-export function doubleReciprocalPoints(points: readonly MechanismPoint[]): { points: ReciprocalPoint[]; skipped: number } {
+export function doubleReciprocalPoints(points: readonly MechanismPoint[]): {
+  points: ReciprocalPoint[];
+  skipped: number;
+} {
   const out: ReciprocalPoint[] = [];
   let skipped = 0;
   for (const p of points) {
-    if (p.substrate > 0 && p.rate > 0) out.push({ inverseSubstrate: 1 / p.substrate, inverseRate: 1 / p.rate, inhibitor: p.inhibitor });
+    if (p.substrate > 0 && p.rate > 0)
+      out.push({ inverseSubstrate: 1 / p.substrate, inverseRate: 1 / p.rate, inhibitor: p.inhibitor });
     else skipped++;
   }
   return { points: out, skipped };

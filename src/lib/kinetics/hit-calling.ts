@@ -10,9 +10,7 @@ import { mean, median, medianAbsoluteDeviation, sampleStandardDeviation } from "
 import { MAD_TO_SD } from "./plate-statistics";
 
 export type HitRule =
-  | { kind: "percent"; thresholdPercent: number }
-  | { kind: "sd"; k: number }
-  | { kind: "robust"; k: number };
+  { kind: "percent"; thresholdPercent: number } | { kind: "sd"; k: number } | { kind: "robust"; k: number };
 
 export interface HitCall {
   /** The % inhibition cut-off applied. */
@@ -26,7 +24,11 @@ export interface HitCall {
  * Calls hits among `samplePercentInhibition` under `rule`. For the "sd" and "robust" rules,
  * `neutralPercentInhibition` are the neutral controls expressed as % inhibition (≥ 2 wells).
  */
-export function callHits(samplePercentInhibition: readonly number[], rule: HitRule, neutralPercentInhibition: readonly number[] = []): HitCall {
+export function callHits(
+  samplePercentInhibition: readonly number[],
+  rule: HitRule,
+  neutralPercentInhibition: readonly number[] = [],
+): HitCall {
   let threshold: number;
   if (rule.kind === "percent") {
     threshold = rule.thresholdPercent;
@@ -34,7 +36,10 @@ export function callHits(samplePercentInhibition: readonly number[], rule: HitRu
     const c = neutralPercentInhibition as number[];
     if (c.length < 2) throw new RangeError("callHits: the mean + k·SD rules need at least 2 neutral control wells");
     if (!(rule.k >= 0)) throw new RangeError("callHits: k must be ≥ 0");
-    threshold = rule.kind === "sd" ? mean(c) + rule.k * sampleStandardDeviation(c) : median(c) + rule.k * MAD_TO_SD * medianAbsoluteDeviation(c);
+    threshold =
+      rule.kind === "sd"
+        ? mean(c) + rule.k * sampleStandardDeviation(c)
+        : median(c) + rule.k * MAD_TO_SD * medianAbsoluteDeviation(c);
   }
   if (!Number.isFinite(threshold)) throw new RangeError("callHits: threshold must be finite");
   const isHit = samplePercentInhibition.map((x) => Number.isFinite(x) && x >= threshold);

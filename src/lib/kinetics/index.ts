@@ -3,19 +3,82 @@
  * Results are for research use and need review by a qualified scientist.
  */
 export { ENGINE_VERSION } from "./version";
-export { regularizedIncompleteBeta, inverseRegularizedIncompleteBeta, studentTCdf, studentTQuantile, tCritical95, fCdf, fSurvival } from "./distributions";
-export { levenbergMarquardt, parameterCovariance, type LeastSquaresProblem, type LeastSquaresOptions, type LeastSquaresResult } from "./least-squares";
-export { summarizeControls, plateQuality, zFactor, zPrimeFromMoments, signalWindowFromMoments, MAD_TO_SD, type ControlSummary, type PlateQuality } from "./plate-statistics";
+export {
+  regularizedIncompleteBeta,
+  inverseRegularizedIncompleteBeta,
+  studentTCdf,
+  studentTQuantile,
+  tCritical95,
+  fCdf,
+  fSurvival,
+} from "./distributions";
+export {
+  levenbergMarquardt,
+  parameterCovariance,
+  type LeastSquaresProblem,
+  type LeastSquaresOptions,
+  type LeastSquaresResult,
+} from "./least-squares";
+export {
+  summarizeControls,
+  plateQuality,
+  zFactor,
+  zPrimeFromMoments,
+  signalWindowFromMoments,
+  MAD_TO_SD,
+  type ControlSummary,
+  type PlateQuality,
+} from "./plate-statistics";
 export { percentInhibition, percentActivity } from "./normalization";
 export { callHits, type HitRule, type HitCall } from "./hit-calling";
 export { initialRate, type InitialRate, type InitialRateOptions, type ProgressShape } from "./initial-rate";
 export { fitLogistic4, logistic4, type Logistic4Fit, type Logistic4Flag, type Logistic4Options } from "./logistic4";
-export { fitMichaelisMenten, michaelisMenten, type MichaelisMentenFit, type MichaelisMentenOptions } from "./michaelis-menten";
-export { INHIBITION_MODELS, MODEL_PARAMETER_COUNT, inhibitedRate, mixedRateReciprocal, apparentVmax, apparentKm, type InhibitionModel, type InhibitionConstants } from "./inhibition-models";
-export { fitMechanism, mechanismDataProblem, type MechanismPoint, type MechanismOptions, type MechanismModelFit, type MechanismResult } from "./mechanism-fit";
+export {
+  fitMichaelisMenten,
+  michaelisMenten,
+  type MichaelisMentenFit,
+  type MichaelisMentenOptions,
+} from "./michaelis-menten";
+export {
+  INHIBITION_MODELS,
+  MODEL_PARAMETER_COUNT,
+  inhibitedRate,
+  mixedRateReciprocal,
+  apparentVmax,
+  apparentKm,
+  type InhibitionModel,
+  type InhibitionConstants,
+} from "./inhibition-models";
+export {
+  fitMechanism,
+  mechanismDataProblem,
+  type MechanismPoint,
+  type MechanismOptions,
+  type MechanismModelFit,
+  type MechanismResult,
+} from "./mechanism-fit";
 export { aicc, akaikeWeights, extraSumOfSquaresFTest, type FTestResult } from "./model-selection";
 export { finiteOrNull, waldInterval95, reciprocalConstant, type Interval } from "./parameter-summary";
 export { ic50FromKi, kiFromIc50, type ChengPrusoffInput, type KiFromIc50Input } from "./cheng-prusoff";
-export { morrisonFractionalActivity, morrisonIc50, fitMorrison, type MorrisonFit, type MorrisonOptions } from "./morrison";
-export { doubleReciprocalPoints, doubleReciprocalLines, type ReciprocalPoint, type ReciprocalLine } from "./double-reciprocal";
-export { parseCsv, readMechanismCsv, readDoseResponseCsv, TableInputError, MIN_DOSE_RESPONSE_POINTS, MIN_DOSE_RESPONSE_CONCENTRATIONS, type DoseResponseSeries } from "./table-input";
+export {
+  morrisonFractionalActivity,
+  morrisonIc50,
+  fitMorrison,
+  type MorrisonFit,
+  type MorrisonOptions,
+} from "./morrison";
+export {
+  doubleReciprocalPoints,
+  doubleReciprocalLines,
+  type ReciprocalPoint,
+  type ReciprocalLine,
+} from "./double-reciprocal";
+export {
+  parseCsv,
+  readMechanismCsv,
+  readDoseResponseCsv,
+  TableInputError,
+  MIN_DOSE_RESPONSE_POINTS,
+  MIN_DOSE_RESPONSE_CONCENTRATIONS,
+  type DoseResponseSeries,
+} from "./table-input";

@@ -12,8 +12,16 @@ describe("initial rates from kinetic reads (common practice; slope checked again
   const linear = t.map((x) => 0.1 + 0.002 * x + 0.002 * z());
   const falling = t.map((x) => 1.1 - 0.0015 * x + 0.002 * z());
   const noisy = t.map((x) => 0.1 + 0.0005 * x + 0.02 * z());
-  const scipy = runScipyOracle<{ linregress: { slope: number; intercept: number; rSquared: number; slopeSe: number }[] }>({
-    linregress: { series: [[t, linear], [t, falling], [t, noisy]] },
+  const scipy = runScipyOracle<{
+    linregress: { slope: number; intercept: number; rSquared: number; slopeSe: number }[];
+  }>({
+    linregress: {
+      series: [
+        [t, linear],
+        [t, falling],
+        [t, noisy],
+      ],
+    },
   }).linregress;
 
   it("a linear read uses every point; slope, intercept, R² and SE match linregress", () => {

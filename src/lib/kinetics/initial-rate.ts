@@ -81,7 +81,12 @@ function lineFit(t: Float64Array, y: Float64Array, from: number, to: number): Li
 }
 
 /** Relative change of the rate across [from, to] from a quadratic fit, and its SE. */
-function rateChange(t: Float64Array, y: Float64Array, from: number, to: number): { change: number; se: number; meanRate: number } {
+function rateChange(
+  t: Float64Array,
+  y: Float64Array,
+  from: number,
+  to: number,
+): { change: number; se: number; meanRate: number } {
   const n = to - from + 1;
   // Centre and scale time for conditioning.
   const t0 = t[from]!;
@@ -93,15 +98,31 @@ function rateChange(t: Float64Array, y: Float64Array, from: number, to: number):
     v[k] = y[from + k]!;
   }
   // Normal equations of [1, u, u²] (3×3), solved by Cramer's rule on the symmetric system.
-  let s0 = 0, s1 = 0, s2 = 0, s3 = 0, s4 = 0, b0 = 0, b1 = 0, b2 = 0;
+  let s0 = 0,
+    s1 = 0,
+    s2 = 0,
+    s3 = 0,
+    s4 = 0,
+    b0 = 0,
+    b1 = 0,
+    b2 = 0;
   for (let k = 0; k < n; k++) {
     const uk = u[k]!;
     const u2 = uk * uk;
-    s0 += 1; s1 += uk; s2 += u2; s3 += u2 * uk; s4 += u2 * u2;
-    b0 += v[k]!; b1 += uk * v[k]!; b2 += u2 * v[k]!;
+    s0 += 1;
+    s1 += uk;
+    s2 += u2;
+    s3 += u2 * uk;
+    s4 += u2 * u2;
+    b0 += v[k]!;
+    b1 += uk * v[k]!;
+    b2 += u2 * v[k]!;
   }
   const m = [s0, s1, s2, s1, s2, s3, s2, s3, s4];
-  const det3 = (q: number[]): number => q[0]! * (q[4]! * q[8]! - q[5]! * q[7]!) - q[1]! * (q[3]! * q[8]! - q[5]! * q[6]!) + q[2]! * (q[3]! * q[7]! - q[4]! * q[6]!);
+  const det3 = (q: number[]): number =>
+    q[0]! * (q[4]! * q[8]! - q[5]! * q[7]!) -
+    q[1]! * (q[3]! * q[8]! - q[5]! * q[6]!) +
+    q[2]! * (q[3]! * q[7]! - q[4]! * q[6]!);
   const d = det3(m);
   const c1 = det3([s0, b0, s2, s1, b1, s3, s2, b2, s4]) / d;
   const c2 = det3([s0, s1, b0, s1, s2, b1, s2, s3, b2]) / d;
@@ -126,7 +147,11 @@ function isLinear(t: Float64Array, y: Float64Array, from: number, to: number, to
  * Initial rate of one kinetic read. `time` need not be sorted; reads are sorted by time first.
  * Throws on fewer than `minPoints` reads, non-finite values or repeated times.
  */
-export function initialRate(time: ArrayLike<number>, signal: ArrayLike<number>, options: InitialRateOptions = {}): InitialRate {
+export function initialRate(
+  time: ArrayLike<number>,
+  signal: ArrayLike<number>,
+  options: InitialRateOptions = {},
+): InitialRate {
   const minPoints = Math.max(3, options.minPoints ?? 4);
   const tolerance = options.tolerance ?? 0.1;
   const n = time.length;
@@ -134,7 +159,8 @@ export function initialRate(time: ArrayLike<number>, signal: ArrayLike<number>, 
   if (n < minPoints) throw new RangeError(`initialRate: ${n} reads; at least ${minPoints} are needed`);
   const order = Array.from({ length: n }, (_, k) => k);
   for (let k = 0; k < n; k++) {
-    if (!Number.isFinite(time[k]!) || !Number.isFinite(signal[k]!)) throw new RangeError(`initialRate: read ${k + 1} is not finite`);
+    if (!Number.isFinite(time[k]!) || !Number.isFinite(signal[k]!))
+      throw new RangeError(`initialRate: read ${k + 1} is not finite`);
   }
   order.sort((a, b) => time[a]! - time[b]! || a - b);
   const t = new Float64Array(n);
@@ -154,7 +180,12 @@ export function initialRate(time: ArrayLike<number>, signal: ArrayLike<number>, 
     const rest = Math.min(2, n - 4);
     const tail = rest > 0 ? lineFit(t, y, rest, n - 1) : null;
     const head = lineFit(t, y, 0, Math.min(rest, n - 1));
-    if (tail && Math.sign(head.slope) === Math.sign(tail.slope) && Math.abs(head.slope) > 2 * Math.abs(tail.slope) && isLinear(t, y, rest, n - 1, tolerance)) {
+    if (
+      tail &&
+      Math.sign(head.slope) === Math.sign(tail.slope) &&
+      Math.abs(head.slope) > 2 * Math.abs(tail.slope) &&
+      isLinear(t, y, rest, n - 1, tolerance)
+    ) {
       progress = "burst";
       start = rest;
     } else if (whole.change < 0) {

@@ -114,7 +114,14 @@ function sumSquares(r: Float64Array, n: number): number {
 }
 
 /** Forms A = JᵀJ and g = Jᵀr. */
-function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: number, a: Float64Array, g: Float64Array): void {
+function normalEquations(
+  jac: Float64Array,
+  r: Float64Array,
+  n: number,
+  p: number,
+  a: Float64Array,
+  g: Float64Array,
+): void {
   a.fill(0);
   g.fill(0);
   for (let i = 0; i < n; i++) {
@@ -130,7 +137,16 @@ function normalEquations(jac: Float64Array, r: Float64Array, n: number, p: numbe
 }
 
 /** True when the gradient is negligible for every parameter not held at a bound (MINPACK gtol). */
-function gradientSmall(a: Float64Array, g: Float64Array, theta: Float64Array, p: number, rss: number, gtol: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): boolean {
+function gradientSmall(
+  a: Float64Array,
+  g: Float64Array,
+  theta: Float64Array,
+  p: number,
+  rss: number,
+  gtol: number,
+  lower: ArrayLike<number> | undefined,
+  upper: ArrayLike<number> | undefined,
+): boolean {
   if (rss === 0) return true;
   const rnorm = Math.sqrt(rss);
   for (let j = 0; j < p; j++) {
@@ -151,7 +167,13 @@ function gradientSmall(a: Float64Array, g: Float64Array, theta: Float64Array, p:
  * orders of magnitude — concentrations in M next to rates in µM/s — are treated alike. Returns the
  * number of free parameters, or −1 when the damped matrix is not positive definite.
  */
-function dampedStep(ws: Workspace, theta: Float64Array, lambda: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): number {
+function dampedStep(
+  ws: Workspace,
+  theta: Float64Array,
+  lambda: number,
+  lower: ArrayLike<number> | undefined,
+  upper: ArrayLike<number> | undefined,
+): number {
   const { a, g, m, rhs, delta, free, scale, p } = ws;
   let nf = 0;
   for (let j = 0; j < p; j++) {
@@ -182,7 +204,13 @@ function dampedStep(ws: Workspace, theta: Float64Array, lambda: number, lower: A
 
 /** θ_trial = clip(θ + δ) into the box; δ becomes the actual (clipped) step. Returns true when
  * every component of the step is below xtol relative to its parameter. */
-function projectTrial(ws: Workspace, theta: Float64Array, xtol: number, lower: ArrayLike<number> | undefined, upper: ArrayLike<number> | undefined): boolean {
+function projectTrial(
+  ws: Workspace,
+  theta: Float64Array,
+  xtol: number,
+  lower: ArrayLike<number> | undefined,
+  upper: ArrayLike<number> | undefined,
+): boolean {
   const { delta, thetaTrial, p } = ws;
   let stepSmall = true;
   for (let j = 0; j < p; j++) {
@@ -215,7 +243,11 @@ function predictedReduction(ws: Workspace): number {
  * The loop body lives in small helpers: V8 optimises small functions after a few calls, while a
  * large function stays interpreted for about a thousand fits — which dominated batch runs.
  */
-export function levenbergMarquardt(problem: LeastSquaresProblem, start: ArrayLike<number>, options: LeastSquaresOptions = {}): LeastSquaresResult {
+export function levenbergMarquardt(
+  problem: LeastSquaresProblem,
+  start: ArrayLike<number>,
+  options: LeastSquaresOptions = {},
+): LeastSquaresResult {
   const maxIterations = options.maxIterations ?? DEFAULTS.maxIterations;
   const ftol = options.ftol ?? DEFAULTS.ftol;
   const xtol = options.xtol ?? DEFAULTS.xtol;

@@ -24,7 +24,10 @@ describe("4PL: R datasets::DNase run 1 (data src; fit values science.md [calc, S
   });
 
   it("does not depend on the units (concentration ×1e-9, response ×1e5)", () => {
-    const f = fitLogistic4(DNASE_RUN1.conc.map((x) => x * 1e-9), DNASE_RUN1.density.map((y) => y * 1e5));
+    const f = fitLogistic4(
+      DNASE_RUN1.conc.map((x) => x * 1e-9),
+      DNASE_RUN1.density.map((y) => y * 1e5),
+    );
     expect(f.ic50! / 1e-9).toBeCloseTo(4.515, 3);
     expect(f.hill!).toBeCloseTo(0.94111, 5);
     expect(f.top! / 1e5).toBeCloseTo(2.37724, 5);
@@ -44,7 +47,13 @@ describe("4PL behaviour (common practice)", () => {
   const exact = (h: number, ic50: number) => conc.map((x) => logistic4(x, 100, 0, Math.log10(ic50), h));
 
   it("recovers exact falling and rising curves without hand-tuned starting values", () => {
-    for (const [h, ic50] of [[1, 0.2], [2.5, 3], [0.6, 0.01], [-1, 0.5], [-1.8, 5]] as const) {
+    for (const [h, ic50] of [
+      [1, 0.2],
+      [2.5, 3],
+      [0.6, 0.01],
+      [-1, 0.5],
+      [-1.8, 5],
+    ] as const) {
       const f = fitLogistic4(conc, exact(h, ic50));
       expect(f.ic50!).toBeCloseTo(ic50, 8);
       expect(f.hill!).toBeCloseTo(Math.abs(h), 8);
@@ -68,7 +77,10 @@ describe("4PL behaviour (common practice)", () => {
     const f = fitLogistic4(conc, y);
     expect(f.flags).toContain("ic50-above-range");
     expect(f.flags).toContain("plateau-not-reached");
-    const steep = fitLogistic4(conc, exact(3, 0.5).map((v, k) => v + (k % 2 ? 0.5 : -0.5)));
+    const steep = fitLogistic4(
+      conc,
+      exact(3, 0.5).map((v, k) => v + (k % 2 ? 0.5 : -0.5)),
+    );
     expect(steep.flags).toContain("hill-outside-0.5-2");
   });
 
@@ -82,10 +94,19 @@ describe("4PL behaviour (common practice)", () => {
   });
 
   it("never reports NaN and is deterministic", () => {
-    const flat = fitLogistic4(conc, conc.map(() => 5));
+    const flat = fitLogistic4(
+      conc,
+      conc.map(() => 5),
+    );
     expect(JSON.stringify(flat)).not.toMatch(/NaN/);
-    const a = fitLogistic4(conc, exact(1.1, 0.3).map((v, k) => v + Math.sin(k)));
-    const b = fitLogistic4(conc, exact(1.1, 0.3).map((v, k) => v + Math.sin(k)));
+    const a = fitLogistic4(
+      conc,
+      exact(1.1, 0.3).map((v, k) => v + Math.sin(k)),
+    );
+    const b = fitLogistic4(
+      conc,
+      exact(1.1, 0.3).map((v, k) => v + Math.sin(k)),
+    );
     expect(JSON.stringify(a)).toBe(JSON.stringify(b));
   });
 

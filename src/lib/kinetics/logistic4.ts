@@ -20,7 +20,12 @@
  * better fit kept.
  * Concentration 0 is accepted (it sits on the low-concentration plateau).
  */
-import { levenbergMarquardt, parameterCovariance, type LeastSquaresProblem, type LeastSquaresResult } from "./least-squares";
+import {
+  levenbergMarquardt,
+  parameterCovariance,
+  type LeastSquaresProblem,
+  type LeastSquaresResult,
+} from "./least-squares";
 import { tCritical95 } from "./distributions";
 
 const LN10 = Math.LN10;
@@ -85,7 +90,12 @@ function logisticFraction(lx: number, l: number, h: number): number {
 /** Builds the least-squares problem over the free subset of [bottom, top, L, h]. */
 type Problem4 = LeastSquaresProblem & { unpack(theta: ArrayLike<number>): [number, number, number, number] };
 
-function makeProblem(lx: readonly number[], y: readonly number[], fixedTop: number | undefined, fixedBottom: number | undefined): Problem4 {
+function makeProblem(
+  lx: readonly number[],
+  y: readonly number[],
+  fixedTop: number | undefined,
+  fixedBottom: number | undefined,
+): Problem4 {
   const n = y.length;
   const freeBottom = fixedBottom === undefined;
   const freeTop = fixedTop === undefined;
@@ -152,7 +162,14 @@ interface Start {
 
 /** Grid start by variable projection: for fixed (IC50, h) the model is linear in Bottom and Top.
  * The grid needs no exponentials: 10^(h·(log10 x − log10 IC50)) = (x/IC50)^h with h ∈ {±½, ±1, ±2}. */
-function gridStart(x: ArrayLike<number>, lx: readonly number[], y: readonly number[], fixedTop: number | undefined, fixedBottom: number | undefined, hs: readonly number[]): Start {
+function gridStart(
+  x: ArrayLike<number>,
+  lx: readonly number[],
+  y: readonly number[],
+  fixedTop: number | undefined,
+  fixedBottom: number | undefined,
+  hs: readonly number[],
+): Start {
   const n = y.length;
   let lmin = Infinity;
   let lmax = -Infinity;
@@ -174,7 +191,13 @@ function gridStart(x: ArrayLike<number>, lx: readonly number[], y: readonly numb
   const steps = 8;
   const lo = lmin - 1;
   const hi = lmax + 1;
-  const best: Start = { bottom: fixedBottom ?? ymean, top: fixedTop ?? ymean, l: 0.5 * (lmin + lmax), h: 1, rss: Infinity };
+  const best: Start = {
+    bottom: fixedBottom ?? ymean,
+    top: fixedTop ?? ymean,
+    l: 0.5 * (lmin + lmax),
+    h: 1,
+    rss: Infinity,
+  };
   const g = gridScratch.length >= n ? gridScratch : (gridScratch = new Float64Array(n));
   for (const h of hs) {
     for (let s = 0; s <= steps; s++) {
@@ -268,9 +291,13 @@ export function fitLogistic4(x: ArrayLike<number>, y: ArrayLike<number>, options
   const problem = makeProblem(input.lx, input.y, fixedTop, fixedBottom);
   const p = problem.nParams;
   const n = input.n;
-  if (n < p + 1) throw new RangeError(`fitLogistic4: ${n} points cannot fit ${p} parameters with an error estimate; at least ${p + 1} are needed`);
+  if (n < p + 1)
+    throw new RangeError(
+      `fitLogistic4: ${n} points cannot fit ${p} parameters with an error estimate; at least ${p + 1} are needed`,
+    );
   const minDistinct = Math.max(3, p);
-  if (input.distinct < minDistinct) throw new RangeError(`fitLogistic4: ${input.distinct} distinct concentrations; at least ${minDistinct} are needed`);
+  if (input.distinct < minDistinct)
+    throw new RangeError(`fitLogistic4: ${input.distinct} distinct concentrations; at least ${minDistinct} are needed`);
   const res = solve(problem, x, input, fixedTop, fixedBottom);
   return summarise(problem, res, x, input, fixedTop, fixedBottom);
 }
@@ -285,11 +312,18 @@ interface Input {
   tss: number;
 }
 
-function prepareInput(x: ArrayLike<number>, y: ArrayLike<number>, fixedTop: number | undefined, fixedBottom: number | undefined): Input {
+function prepareInput(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  fixedTop: number | undefined,
+  fixedBottom: number | undefined,
+): Input {
   const n = x.length;
   if (y.length !== n) throw new RangeError("fitLogistic4: x and y must have the same length");
-  if (fixedTop !== undefined && !Number.isFinite(fixedTop)) throw new RangeError("fitLogistic4: fixedTop must be finite");
-  if (fixedBottom !== undefined && !Number.isFinite(fixedBottom)) throw new RangeError("fitLogistic4: fixedBottom must be finite");
+  if (fixedTop !== undefined && !Number.isFinite(fixedTop))
+    throw new RangeError("fitLogistic4: fixedTop must be finite");
+  if (fixedBottom !== undefined && !Number.isFinite(fixedBottom))
+    throw new RangeError("fitLogistic4: fixedBottom must be finite");
   // Plain arrays: small typed arrays cost an off-heap allocation each, which shows in batch runs.
   const lx: number[] = new Array<number>(n);
   const yy: number[] = new Array<number>(n);
@@ -299,7 +333,8 @@ function prepareInput(x: ArrayLike<number>, y: ArrayLike<number>, fixedTop: numb
   for (let i = 0; i < n; i++) {
     const xi = x[i]!;
     const yi = y[i]!;
-    if (!Number.isFinite(xi) || xi < 0) throw new RangeError(`fitLogistic4: concentration ${i + 1} must be a finite number ≥ 0 (got ${xi})`);
+    if (!Number.isFinite(xi) || xi < 0)
+      throw new RangeError(`fitLogistic4: concentration ${i + 1} must be a finite number ≥ 0 (got ${xi})`);
     if (!Number.isFinite(yi)) throw new RangeError(`fitLogistic4: response ${i + 1} must be finite (got ${yi})`);
     const l = xi > 0 ? Math.log10(xi) : -Infinity;
     lx[i] = l;
@@ -340,7 +375,14 @@ function countDistinct(x: ArrayLike<number>): number {
   return count;
 }
 
-function solveFrom(problem: Problem4, x: ArrayLike<number>, input: Input, fixedTop: number | undefined, fixedBottom: number | undefined, hs: readonly number[]): LeastSquaresResult {
+function solveFrom(
+  problem: Problem4,
+  x: ArrayLike<number>,
+  input: Input,
+  fixedTop: number | undefined,
+  fixedBottom: number | undefined,
+  hs: readonly number[],
+): LeastSquaresResult {
   const s = gridStart(x, input.lx, input.y, fixedTop, fixedBottom, hs);
   const start: number[] = [];
   if (fixedBottom === undefined) start.push(s.bottom);
@@ -349,7 +391,13 @@ function solveFrom(problem: Problem4, x: ArrayLike<number>, input: Input, fixedT
   return levenbergMarquardt(problem, start, LM_OPTIONS);
 }
 
-function solve(problem: Problem4, x: ArrayLike<number>, input: Input, fixedTop: number | undefined, fixedBottom: number | undefined): LeastSquaresResult {
+function solve(
+  problem: Problem4,
+  x: ArrayLike<number>,
+  input: Input,
+  fixedTop: number | undefined,
+  fixedBottom: number | undefined,
+): LeastSquaresResult {
   const bothFree = fixedTop === undefined && fixedBottom === undefined;
   let res = solveFrom(problem, x, input, fixedTop, fixedBottom, bothFree ? GRID_H_QUICK_FREE : GRID_H_QUICK_FIXED);
   if (!res.converged || !(res.rss <= 0.05 * input.tss)) {
@@ -370,7 +418,14 @@ function pow10(v: number): number {
   return Math.exp(v * LN10);
 }
 
-function summarise(problem: Problem4, res: LeastSquaresResult, x: ArrayLike<number>, input: Input, fixedTop: number | undefined, fixedBottom: number | undefined): Logistic4Fit {
+function summarise(
+  problem: Problem4,
+  res: LeastSquaresResult,
+  x: ArrayLike<number>,
+  input: Input,
+  fixedTop: number | undefined,
+  fixedBottom: number | undefined,
+): Logistic4Fit {
   const { n, tss } = input;
   const p = problem.nParams;
   const [b0, t0, l, h0] = problem.unpack(res.theta);
@@ -404,7 +459,19 @@ function summarise(problem: Problem4, res: LeastSquaresResult, x: ArrayLike<numb
       ci = [lo > 0 && Number.isFinite(lo) ? lo : null, Number.isFinite(hi) ? hi : null];
     }
   }
-  const flags = computeFlags(x, input, finite, l, h, ci, dof, rSquared, res.converged, fixedTop === undefined, fixedBottom === undefined);
+  const flags = computeFlags(
+    x,
+    input,
+    finite,
+    l,
+    h,
+    ci,
+    dof,
+    rSquared,
+    res.converged,
+    fixedTop === undefined,
+    fixedBottom === undefined,
+  );
   return {
     ic50,
     log10Ic50: finite ? l : null,
@@ -456,7 +523,8 @@ function computeFlags(
       if (g >= 0.8) nearTop.push(x[i]!);
       if (g <= 0.2) nearBottom.push(x[i]!);
     }
-    if ((topFree && countDistinct(nearTop) < 2) || (bottomFree && countDistinct(nearBottom) < 2)) flags.push("plateau-not-reached");
+    if ((topFree && countDistinct(nearTop) < 2) || (bottomFree && countDistinct(nearBottom) < 2))
+      flags.push("plateau-not-reached");
     const absH = Math.abs(h);
     if (absH < 0.5 || absH > 2) flags.push("hill-outside-0.5-2");
   }

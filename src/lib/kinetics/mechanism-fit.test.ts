@@ -39,8 +39,13 @@ describe("mechanism: isdals `inhibitor` matrix (Ekstrøm & Sørensen, R package 
   });
 
   it("does not depend on the units (concentrations ×1e-9 or ×1e3, rates ×1e4 or ×1e-9)", () => {
-    for (const [cs, rs] of [[1e-9, 1e4], [1e3, 1e-9]] as const) {
-      const scaled = fitMechanism(ISDALS_INHIBITOR.map((p) => ({ substrate: p.substrate * cs, inhibitor: p.inhibitor * cs, rate: p.rate * rs })));
+    for (const [cs, rs] of [
+      [1e-9, 1e4],
+      [1e3, 1e-9],
+    ] as const) {
+      const scaled = fitMechanism(
+        ISDALS_INHIBITOR.map((p) => ({ substrate: p.substrate * cs, inhibitor: p.inhibitor * cs, rate: p.rate * rs })),
+      );
       expect(scaled.best).toBe("competitive");
       expect(scaled.label).toBe("ambiguous");
       expect(scaled.models.competitive.kic! / cs).toBeCloseTo(34.845, 3);
@@ -61,7 +66,8 @@ describe("facts of the trade (common practice; Segel 1975, Cornish-Bowden [from 
   it("a noncompetitive inhibitor at [I] = Ki halves Vmax and leaves Km unchanged", () => {
     expect(apparentVmax(2, c)).toBeCloseTo(5, 12);
     expect(apparentKm(2, c)).toBeCloseTo(5, 12);
-    for (const s of [0.5, 5, 50]) expect(inhibitedRate("noncompetitive", s, 2, c)).toBeCloseTo(inhibitedRate("noncompetitive", s, 0, c) / 2, 12);
+    for (const s of [0.5, 5, 50])
+      expect(inhibitedRate("noncompetitive", s, 2, c)).toBeCloseTo(inhibitedRate("noncompetitive", s, 0, c) / 2, 12);
   });
 
   it("noncompetitive double-reciprocal lines share the x-intercept −1/Km", () => {
@@ -90,7 +96,10 @@ describe("facts of the trade (common practice; Segel 1975, Cornish-Bowden [from 
   });
 
   it("double-reciprocal points skip rows without a reciprocal", () => {
-    const t = doubleReciprocalPoints([{ substrate: 0, inhibitor: 0, rate: 0 }, { substrate: 2, inhibitor: 0, rate: 4 }]);
+    const t = doubleReciprocalPoints([
+      { substrate: 0, inhibitor: 0, rate: 0 },
+      { substrate: 2, inhibitor: 0, rate: 4 },
+    ]);
     expect(t.skipped).toBe(1);
     expect(t.points[0]).toEqual({ inverseSubstrate: 0.5, inverseRate: 0.25, inhibitor: 0 });
   });
@@ -127,7 +136,9 @@ describe("mechanism choice on exact data (common practice: the generating model 
   });
 
   it("a mixed fit at a boundary reports the missing constant as null, never NaN", () => {
-    const r = fitMechanism(exactMatrix("competitive").map((p, k) => ({ ...p, rate: p.rate * (1 + 0.01 * Math.sin(k * 1.7)) })));
+    const r = fitMechanism(
+      exactMatrix("competitive").map((p, k) => ({ ...p, rate: p.rate * (1 + 0.01 * Math.sin(k * 1.7)) })),
+    );
     const mixed = r.models.mixed;
     const json = JSON.stringify(r);
     expect(json).not.toMatch(/NaN|Infinity/);
@@ -136,14 +147,19 @@ describe("mechanism choice on exact data (common practice: the generating model 
   });
 
   it("relative weighting leaves out substrate-0 rows and still recovers the model", () => {
-    const r = fitMechanism(exactMatrix("uncompetitive", 10, 10, true).map((p) => (p.substrate === 0 ? { ...p, rate: 0 } : p)), { weighting: "relative" });
+    const r = fitMechanism(
+      exactMatrix("uncompetitive", 10, 10, true).map((p) => (p.substrate === 0 ? { ...p, rate: 0 } : p)),
+      { weighting: "relative" },
+    );
     expect(r.n).toBe(35);
     expect(r.best).toBe("uncompetitive");
     expect(r.models.uncompetitive.kiu!).toBeCloseTo(10, 6);
   });
 
   it("refuses data that cannot separate the models, with a reason", () => {
-    expect(() => fitMechanism(exactMatrix("competitive").filter((p) => p.inhibitor === 0))).toThrow(/inhibitor concentration/);
+    expect(() => fitMechanism(exactMatrix("competitive").filter((p) => p.inhibitor === 0))).toThrow(
+      /inhibitor concentration/,
+    );
     expect(() => fitMechanism(exactMatrix("competitive").slice(0, 5))).toThrow(/at least 7/);
   });
 });

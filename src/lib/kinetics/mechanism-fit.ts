@@ -58,7 +58,14 @@ export interface MechanismModelFit {
   /** Fitted reciprocal constants a = 1/Kic and b = 1/Kiu (0 where absent). */
   a: number;
   b: number;
-  se: { vmax: number | null; km: number | null; kic: number | null; kiu: number | null; a: number | null; b: number | null };
+  se: {
+    vmax: number | null;
+    km: number | null;
+    kic: number | null;
+    kiu: number | null;
+    a: number | null;
+    b: number | null;
+  };
   ci95: { vmax: Interval; km: Interval; kic: Interval; kiu: Interval };
   rss: number;
   aicc: number;
@@ -191,7 +198,12 @@ interface RawFit {
 function fitFrom(model: InhibitionModel, d: Data, start: number[]): RawFit {
   const problem = makeProblem(model, d);
   const res = levenbergMarquardt(problem, start);
-  return { theta: res.theta, rss: res.rss, cov: parameterCovariance(res, d.n, problem.nParams), converged: res.converged };
+  return {
+    theta: res.theta,
+    rss: res.rss,
+    cov: parameterCovariance(res, d.n, problem.nParams),
+    converged: res.converged,
+  };
 }
 
 function median(values: number[]): number {
@@ -204,12 +216,15 @@ function prepare(points: readonly MechanismPoint[], weighting: "none" | "relativ
   const rows: MechanismPoint[] = [];
   points.forEach((pt, k) => {
     const { substrate, inhibitor, rate } = pt;
-    if (!Number.isFinite(substrate) || substrate < 0) throw new RangeError(`fitMechanism: row ${k + 1}: substrate must be a finite number ≥ 0 (got ${substrate})`);
-    if (!Number.isFinite(inhibitor) || inhibitor < 0) throw new RangeError(`fitMechanism: row ${k + 1}: inhibitor must be a finite number ≥ 0 (got ${inhibitor})`);
+    if (!Number.isFinite(substrate) || substrate < 0)
+      throw new RangeError(`fitMechanism: row ${k + 1}: substrate must be a finite number ≥ 0 (got ${substrate})`);
+    if (!Number.isFinite(inhibitor) || inhibitor < 0)
+      throw new RangeError(`fitMechanism: row ${k + 1}: inhibitor must be a finite number ≥ 0 (got ${inhibitor})`);
     if (!Number.isFinite(rate)) throw new RangeError(`fitMechanism: row ${k + 1}: rate must be finite (got ${rate})`);
     if (weighting === "relative") {
       if (substrate === 0) return; // infinite weight; carries no information on the parameters
-      if (!(rate > 0)) throw new RangeError(`fitMechanism: row ${k + 1}: relative weighting needs a positive rate (got ${rate})`);
+      if (!(rate > 0))
+        throw new RangeError(`fitMechanism: row ${k + 1}: relative weighting needs a positive rate (got ${rate})`);
     }
     rows.push(pt);
   });
@@ -234,7 +249,8 @@ export function mechanismDataProblem(points: readonly MechanismPoint[]): string 
   }
   if (points.length < 7) return `${points.length} rows; at least 7 are needed to compare the four models`;
   if (inhibitors.size < 2) return `only one inhibitor concentration; at least 2 are needed`;
-  if (substrates.size < 3) return `${substrates.size} distinct positive substrate concentrations; at least 3 are needed`;
+  if (substrates.size < 3)
+    return `${substrates.size} distinct positive substrate concentrations; at least 3 are needed`;
   return null;
 }
 
@@ -246,7 +262,9 @@ export function mechanismDataProblem(points: readonly MechanismPoint[]): string 
 export function fitMechanism(points: readonly MechanismPoint[], options: MechanismOptions = {}): MechanismResult {
   const weighting = options.weighting ?? "none";
   const d = prepare(points, weighting);
-  const problemText = mechanismDataProblem(Array.from({ length: d.n }, (_, k) => ({ substrate: d.s[k]!, inhibitor: d.i[k]!, rate: d.y[k]! })));
+  const problemText = mechanismDataProblem(
+    Array.from({ length: d.n }, (_, k) => ({ substrate: d.s[k]!, inhibitor: d.i[k]!, rate: d.y[k]! })),
+  );
   if (problemText) throw new RangeError(`fitMechanism: ${problemText}`);
 
   // Uninhibited Michaelis–Menten start from the lowest inhibitor level.
@@ -276,7 +294,8 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
   // Mixed starts from the best nested solution: LM never increases RSS, so the mixed RSS is
   // never above any nested model's and every F statistic is ≥ 0.
   let nested: Exclude<InhibitionModel, "mixed"> = "competitive";
-  for (const model of ["uncompetitive", "noncompetitive"] as const) if (raw[model].rss < raw[nested].rss) nested = model;
+  for (const model of ["uncompetitive", "noncompetitive"] as const)
+    if (raw[model].rss < raw[nested].rss) nested = model;
   raw.mixed = fitFrom("mixed", d, [...unpack(nested, raw[nested].theta)]);
 
   let syy = 0;
@@ -304,7 +323,8 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
   // ... but mixed must beat the best nested model by the F-test at p < 0.05.
   if (best === "mixed") {
     let bestSimple: InhibitionModel = "competitive";
-    for (const m of ["uncompetitive", "noncompetitive"] as const) if (models[m].aicc < models[bestSimple].aicc) bestSimple = m;
+    for (const m of ["uncompetitive", "noncompetitive"] as const)
+      if (models[m].aicc < models[bestSimple].aicc) bestSimple = m;
     const p = fTests[bestSimple]!.p;
     if (!(p < 0.05)) best = bestSimple;
   }
@@ -313,7 +333,15 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
   return { best, label: ambiguous ? "ambiguous" : "clear", models, n: d.n, weighting };
 }
 
-function summarise(model: InhibitionModel, f: RawFit, n: number, aiccValue: number, delta: number, weight: number, fTest: FTestResult | null): MechanismModelFit {
+function summarise(
+  model: InhibitionModel,
+  f: RawFit,
+  n: number,
+  aiccValue: number,
+  delta: number,
+  weight: number,
+  fTest: FTestResult | null,
+): MechanismModelFit {
   const p = MODEL_PARAMETER_COUNT[model];
   const dof = n - p;
   const [vmax, km, a, b] = unpack(model, f.theta);

@@ -35,7 +35,11 @@ export function michaelisMenten(s: number, vmax: number, km: number): number {
 }
 
 /** Grid start for (Vmax, Km): Km over the positive substrate range, Vmax projected. */
-export function michaelisMentenStart(s: ArrayLike<number>, v: ArrayLike<number>, w?: ArrayLike<number>): [number, number] {
+export function michaelisMentenStart(
+  s: ArrayLike<number>,
+  v: ArrayLike<number>,
+  w?: ArrayLike<number>,
+): [number, number] {
   let smin = Infinity;
   let smax = 0;
   for (let i = 0; i < s.length; i++) {
@@ -77,15 +81,21 @@ export function michaelisMentenStart(s: ArrayLike<number>, v: ArrayLike<number>,
 }
 
 /** Fits Vmax and Km to substrate concentrations `s` (≥ 0) and rates `v`. */
-export function fitMichaelisMenten(s: ArrayLike<number>, v: ArrayLike<number>, options: MichaelisMentenOptions = {}): MichaelisMentenFit {
+export function fitMichaelisMenten(
+  s: ArrayLike<number>,
+  v: ArrayLike<number>,
+  options: MichaelisMentenOptions = {},
+): MichaelisMentenFit {
   const n = s.length;
   if (v.length !== n) throw new RangeError("fitMichaelisMenten: s and v must have the same length");
   const w = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(s[i]!) || s[i]! < 0) throw new RangeError(`fitMichaelisMenten: substrate ${i + 1} must be ≥ 0`);
+    if (!Number.isFinite(s[i]!) || s[i]! < 0)
+      throw new RangeError(`fitMichaelisMenten: substrate ${i + 1} must be ≥ 0`);
     if (!Number.isFinite(v[i]!)) throw new RangeError(`fitMichaelisMenten: rate ${i + 1} must be finite`);
     if (options.weighting === "relative") {
-      if (!(v[i]! > 0)) throw new RangeError(`fitMichaelisMenten: relative weighting needs positive rates (rate ${i + 1} is ${v[i]})`);
+      if (!(v[i]! > 0))
+        throw new RangeError(`fitMichaelisMenten: relative weighting needs positive rates (rate ${i + 1} is ${v[i]})`);
       w[i] = 1 / v[i]!;
     } else w[i] = 1;
   }

@@ -45,9 +45,15 @@ export interface FTestResult {
  * fits no better (RSS_c ≥ RSS_s) F = 0 and p = 1.
  * Example: DNase run 1, 3- vs 4-parameter logistic → F 0.2098, p 0.6551 (science.md, SciPy).
  */
-export function extraSumOfSquaresFTest(rssSimple: number, dfSimple: number, rssComplex: number, dfComplex: number): FTestResult {
+export function extraSumOfSquaresFTest(
+  rssSimple: number,
+  dfSimple: number,
+  rssComplex: number,
+  dfComplex: number,
+): FTestResult {
   const dfNumerator = dfSimple - dfComplex;
-  if (!(dfNumerator > 0) || !(dfComplex > 0)) throw new RangeError("extraSumOfSquaresFTest: need dfSimple > dfComplex > 0");
+  if (!(dfNumerator > 0) || !(dfComplex > 0))
+    throw new RangeError("extraSumOfSquaresFTest: need dfSimple > dfComplex > 0");
   if (!(rssComplex < rssSimple)) return { f: 0, p: 1, dfNumerator, dfDenominator: dfComplex };
   if (rssComplex <= 0) return { f: Infinity, p: 0, dfNumerator, dfDenominator: dfComplex };
   const f = (rssSimple - rssComplex) / dfNumerator / (rssComplex / dfComplex);

@@ -54,7 +54,12 @@ export interface MorrisonOptions {
  * concentrations `i`, with the enzyme concentration `e` known. K′ ≥ 0. Starting values: K′ on a
  * log grid, v0 projected (the model is linear in v0).
  */
-export function fitMorrison(i: ArrayLike<number>, v: ArrayLike<number>, e: number, options: MorrisonOptions = {}): MorrisonFit {
+export function fitMorrison(
+  i: ArrayLike<number>,
+  v: ArrayLike<number>,
+  e: number,
+  options: MorrisonOptions = {},
+): MorrisonFit {
   const n = i.length;
   if (v.length !== n) throw new RangeError("fitMorrison: i and v must have the same length");
   if (!(e > 0) || !Number.isFinite(e)) throw new RangeError(`fitMorrison: enzyme concentration must be > 0 (got ${e})`);

@@ -12,7 +12,8 @@
 /** % inhibition of reading x against the neutral and full-inhibition control means. */
 export function percentInhibition(x: number, neutralMean: number, fullInhibitionMean: number): number {
   const span = neutralMean - fullInhibitionMean;
-  if (!(span !== 0) || !Number.isFinite(span)) throw new RangeError("percentInhibition: neutral and full-inhibition means must differ");
+  if (!(span !== 0) || !Number.isFinite(span))
+    throw new RangeError("percentInhibition: neutral and full-inhibition means must differ");
   return (100 * (neutralMean - x)) / span;
 }
 

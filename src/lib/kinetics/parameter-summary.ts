@@ -25,7 +25,11 @@ export function waldInterval95(value: number, se: number | null, dof: number): I
  * obtained by inverting the CI of a (so it stays positive, and an end is null = unbounded where
  * the CI of a reaches 0). a = 0 (the boundary) gives K = null (infinite) and SE null.
  */
-export function reciprocalConstant(a: number, seA: number | null, dof: number): { value: number | null; se: number | null; ci95: Interval } {
+export function reciprocalConstant(
+  a: number,
+  seA: number | null,
+  dof: number,
+): { value: number | null; se: number | null; ci95: Interval } {
   if (!(a > 0) || !Number.isFinite(a)) {
     const [, aHi] = waldInterval95(a, seA, dof);
     return { value: null, se: null, ci95: [aHi !== null && aHi > 0 ? 1 / aHi : null, null] };

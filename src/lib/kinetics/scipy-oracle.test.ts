@@ -11,15 +11,35 @@ import { INHIBITION_MODELS, type InhibitionModel } from "./inhibition-models";
 import { runScipyOracle } from "./testdata/python-oracle";
 import { generateDoseResponseCurve, generateMechanismDataset } from "./testdata/synthetic";
 
-interface ScipyMechFit { vmax: number; km: number; a: number; b: number; rss: number }
-interface ScipyL4 { id: string; bottom: number; top: number; ic50: number; hill: number; log10Ic50Se: number; ci: [number, number]; rss: number }
+interface ScipyMechFit {
+  vmax: number;
+  km: number;
+  a: number;
+  b: number;
+  rss: number;
+}
+interface ScipyL4 {
+  id: string;
+  bottom: number;
+  top: number;
+  ic50: number;
+  hill: number;
+  log10Ic50Se: number;
+  ci: [number, number];
+  rss: number;
+}
 
 const TOL = 0.005;
 const rel = (x: number, ref: number) => Math.abs(x - ref) / Math.abs(ref);
 
-const datasets = INHIBITION_MODELS.flatMap((model, m) => Array.from({ length: 50 }, (_, k) => generateMechanismDataset(model, 1000 * (m + 1) + k)));
+const datasets = INHIBITION_MODELS.flatMap((model, m) =>
+  Array.from({ length: 50 }, (_, k) => generateMechanismDataset(model, 1000 * (m + 1) + k)),
+);
 const curves = Array.from({ length: 200 }, (_, k) => generateDoseResponseCurve(50_000 + k));
-const oracle = runScipyOracle<{ mechanism: { id: string; fits: Record<InhibitionModel, ScipyMechFit> }[]; logistic4: ScipyL4[] }>({
+const oracle = runScipyOracle<{
+  mechanism: { id: string; fits: Record<InhibitionModel, ScipyMechFit> }[];
+  logistic4: ScipyL4[];
+}>({
   mechanism: { datasets },
   logistic4: { curves },
 });

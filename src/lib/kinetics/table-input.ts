@@ -108,13 +108,24 @@ interface RowCursor {
  * Files without quotes take a single-pass scan that records cell boundaries instead of building
  * arrays (batch files have 10⁵ rows); files with quotes go through parseCsv.
  */
-function forEachRow(text: string, onHeader: (cells: string[], line: number) => void, onRow: (row: RowCursor) => void): void {
+function forEachRow(
+  text: string,
+  onHeader: (cells: string[], line: number) => void,
+  onRow: (row: RowCursor) => void,
+): void {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   if (body.includes('"') || /\r(?!\n)/.test(body)) {
     const rows = parseCsv(body);
     if (rows.length === 0) return;
     onHeader(rows[0]!.cells, rows[0]!.line);
-    const cursor = { line: 0, count: 0, cells: [] as string[], cell(k: number) { return this.cells[k]!; } };
+    const cursor = {
+      line: 0,
+      count: 0,
+      cells: [] as string[],
+      cell(k: number) {
+        return this.cells[k]!;
+      },
+    };
     for (let r = 1; r < rows.length; r++) {
       cursor.line = rows[r]!.line;
       cursor.cells = rows[r]!.cells;
@@ -194,7 +205,11 @@ function matchHeader(cells: string[], line: number, required: readonly string[])
   });
   for (const name of required) {
     if (index[name] === undefined) {
-      const found = cells.map((c) => c.trim()).filter(Boolean).join(", ") || "nothing";
+      const found =
+        cells
+          .map((c) => c.trim())
+          .filter(Boolean)
+          .join(", ") || "nothing";
       throw new TableInputError(line, name, `missing column (expected ${required.join(", ")}; found ${found})`);
     }
   }
@@ -203,7 +218,11 @@ function matchHeader(cells: string[], line: number, required: readonly string[])
 
 /** Reads the header and hands each checked data row to `onRow`. Returns the columns and the
  * last data line. */
-function readTable(text: string, required: readonly string[], onRow: (row: RowCursor, cols: Columns) => void): { cols: Columns; lastLine: number } {
+function readTable(
+  text: string,
+  required: readonly string[],
+  onRow: (row: RowCursor, cols: Columns) => void,
+): { cols: Columns; lastLine: number } {
   let cols: Columns | null = null;
   let lastLine = 0;
   forEachRow(
@@ -213,12 +232,14 @@ function readTable(text: string, required: readonly string[], onRow: (row: RowCu
     },
     (row) => {
       const c = cols!;
-      if (row.count !== c.headerCount) throw new TableInputError(row.line, null, `${row.count} cells, but the header has ${c.headerCount}`);
+      if (row.count !== c.headerCount)
+        throw new TableInputError(row.line, null, `${row.count} cells, but the header has ${c.headerCount}`);
       lastLine = row.line;
       onRow(row, c);
     },
   );
-  if (cols === null) throw new TableInputError(1, null, `the file is empty; expected a header with columns ${required.join(", ")}`);
+  if (cols === null)
+    throw new TableInputError(1, null, `the file is empty; expected a header with columns ${required.join(", ")}`);
   const found: Columns = cols;
   if (lastLine === 0) throw new TableInputError(found.headerLine + 1, null, "no data rows after the header");
   return { cols: found, lastLine };
@@ -257,7 +278,11 @@ export function readMechanismCsv(text: string): (MechanismPoint & { line: number
   });
   const { substrate, inhibitor } = cols.units;
   if (substrate && inhibitor && substrate !== inhibitor) {
-    throw new TableInputError(cols.headerLine, "inhibitor", `unit "${inhibitor}" differs from the substrate's "${substrate}"; use one concentration unit`);
+    throw new TableInputError(
+      cols.headerLine,
+      "inhibitor",
+      `unit "${inhibitor}" differs from the substrate's "${substrate}"; use one concentration unit`,
+    );
   }
   const problem = mechanismDataProblem(points);
   if (problem) {
@@ -283,7 +308,11 @@ export const MIN_DOSE_RESPONSE_CONCENTRATIONS = 4;
  * Reads `compound,concentration,response` rows into one series per compound, in order of first
  * appearance. `minPoints`/`minConcentrations` default to what a 4-parameter fit needs.
  */
-export function readDoseResponseCsv(text: string, minPoints = MIN_DOSE_RESPONSE_POINTS, minConcentrations = MIN_DOSE_RESPONSE_CONCENTRATIONS): DoseResponseSeries[] {
+export function readDoseResponseCsv(
+  text: string,
+  minPoints = MIN_DOSE_RESPONSE_POINTS,
+  minConcentrations = MIN_DOSE_RESPONSE_CONCENTRATIONS,
+): DoseResponseSeries[] {
   const byName = new Map<string, DoseResponseSeries>();
   let current: DoseResponseSeries | null = null;
   let ci = -1;
@@ -314,11 +343,19 @@ export function readDoseResponseCsv(text: string, minPoints = MIN_DOSE_RESPONSE_
   for (const s of series) {
     const last = s.lines[s.lines.length - 1]!;
     if (s.concentration.length < minPoints) {
-      throw new TableInputError(last, "concentration", `too few points: compound "${s.compound}" has ${s.concentration.length}; at least ${minPoints} are needed`);
+      throw new TableInputError(
+        last,
+        "concentration",
+        `too few points: compound "${s.compound}" has ${s.concentration.length}; at least ${minPoints} are needed`,
+      );
     }
     const distinct = distinctCount(s.concentration);
     if (distinct < minConcentrations) {
-      throw new TableInputError(last, "concentration", `too few points: compound "${s.compound}" has ${distinct} distinct concentrations; at least ${minConcentrations} are needed`);
+      throw new TableInputError(
+        last,
+        "concentration",
+        `too few points: compound "${s.compound}" has ${distinct} distinct concentrations; at least ${minConcentrations} are needed`,
+      );
     }
   }
   return series;

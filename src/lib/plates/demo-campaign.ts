@@ -15,7 +15,13 @@
  */
 import { writeGridText, writeLongEndpoint } from "./export-writers";
 import type { PlateFormat } from "./geometry";
-import { doseResponseCapacity, doseResponseLayout, mechanismLayout, singleDoseCapacity, singleDoseLayout } from "./layouts";
+import {
+  doseResponseCapacity,
+  doseResponseLayout,
+  mechanismLayout,
+  singleDoseCapacity,
+  singleDoseLayout,
+} from "./layouts";
 import { plateMapToCsv, type PlateMap } from "./plate-map";
 import {
   type CompoundTruth,
@@ -136,7 +142,11 @@ export function demoCampaignPlates(seed: number, options: DemoOptions = {}): Dem
     const name = `screen-${String(p + 1).padStart(2, "0")}`;
     const map = singleDoseLayout(384, ids, 10, 2, { referenceCompound: compoundId(1), referenceConcentrationUm: 100 });
     const assay: EndpointAssay =
-      p === 6 ? { ...SCREEN_ASSAY, noiseSd: 900, noiseCvPct: 8 } : p === 12 ? { ...SCREEN_ASSAY, edgeLossPct: 25 } : SCREEN_ASSAY;
+      p === 6
+        ? { ...SCREEN_ASSAY, noiseSd: 900, noiseCvPct: 8 }
+        : p === 12
+          ? { ...SCREEN_ASSAY, edgeLossPct: 25 }
+          : SCREEN_ASSAY;
     const values = simulateEndpointPlate(map, byId, assay, deriveSeed(seed, 100 + p));
     plates.push({
       name,
@@ -144,13 +154,22 @@ export function demoCampaignPlates(seed: number, options: DemoOptions = {}): Dem
       format: 384,
       map,
       mapCsv: plateMapToCsv(map),
-      file: { name: `${name}.csv`, contents: writeGridText(384, [{ values }], { notes: [`Invented demo plate ${name}`, ""] }) },
+      file: {
+        name: `${name}.csv`,
+        contents: writeGridText(384, [{ values }], { notes: [`Invented demo plate ${name}`, ""] }),
+      },
       truth: {
         note: DEMO_NOTE,
         assay,
         expectedZPrime: expectedZPrime(assay),
-        ...(p === 6 ? { expectedQc: "fail (weak window)" } : p === 12 ? { expectedQc: "edge effect: outer ring 25 % low" } : {}),
-        inhibitionPctAt10uM: Object.fromEntries(ids.map((id) => [id, 100 * (1 - fractionalActivity(byId.get(id)!, 10, DEMO_SUBSTRATE_UM, DEMO_ENZYME))])),
+        ...(p === 6
+          ? { expectedQc: "fail (weak window)" }
+          : p === 12
+            ? { expectedQc: "edge effect: outer ring 25 % low" }
+            : {}),
+        inhibitionPctAt10uM: Object.fromEntries(
+          ids.map((id) => [id, 100 * (1 - fractionalActivity(byId.get(id)!, 10, DEMO_SUBSTRATE_UM, DEMO_ENZYME))]),
+        ),
       },
     });
   }
@@ -166,7 +185,12 @@ export function demoCampaignPlates(seed: number, options: DemoOptions = {}): Dem
     const chunk = drCompounds.slice(p * cap, (p + 1) * cap);
     const name = `dose-response-${String(p + 1).padStart(2, "0")}`;
     const series = chunk.map((c) => ({ compound: c.id, topConcentrationUm: c.kind === "tight-binding" ? 1 : 100 }));
-    const map = doseResponseLayout(384, series, { points: 10, dilutionFactor: 3, replicates: 2 }, { referenceCompound: compoundId(1), referenceConcentrationUm: 100 });
+    const map = doseResponseLayout(
+      384,
+      series,
+      { points: 10, dilutionFactor: 3, replicates: 2 },
+      { referenceCompound: compoundId(1), referenceConcentrationUm: 100 },
+    );
     const values = simulateEndpointPlate(map, byId, SCREEN_ASSAY, deriveSeed(seed, 200 + p));
     plates.push({
       name,
@@ -175,7 +199,12 @@ export function demoCampaignPlates(seed: number, options: DemoOptions = {}): Dem
       map,
       mapCsv: plateMapToCsv(map),
       file: { name: `${name}.csv`, contents: writeLongEndpoint(values, { notes: [`Invented demo plate ${name}`] }) },
-      truth: { note: DEMO_NOTE, assay: SCREEN_ASSAY, expectedZPrime: expectedZPrime(SCREEN_ASSAY), compounds: chunk.map(truthOf) },
+      truth: {
+        note: DEMO_NOTE,
+        assay: SCREEN_ASSAY,
+        expectedZPrime: expectedZPrime(SCREEN_ASSAY),
+        compounds: chunk.map(truthOf),
+      },
     });
   }
 
@@ -215,7 +244,10 @@ function mechanismStudy(seed: number, byId: ReadonlyMap<string, CompoundTruth>):
   );
   const sim = simulateKineticPlate(map, byId, MECHANISM_ASSAY, deriveSeed(seed, 300));
   const name = "mechanism-01";
-  const reads = MECHANISM_ASSAY.timesS.map((timeS, k) => ({ timeS, values: new Map([...sim.wells].map(([w, s]) => [w, s[k]!])) }));
+  const reads = MECHANISM_ASSAY.timesS.map((timeS, k) => ({
+    timeS,
+    values: new Map([...sim.wells].map(([w, s]) => [w, s[k]!])),
+  }));
   return {
     name,
     experiment: "mechanism",

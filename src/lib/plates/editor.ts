@@ -28,7 +28,8 @@ export function selectBlock(format: PlateFormat, corner1: string, corner2: strin
   const b = positionOn(corner2, format);
   const out: string[] = [];
   for (let r = Math.min(a.row, b.row); r <= Math.max(a.row, b.row); r++) {
-    for (let c = Math.min(a.column, b.column); c <= Math.max(a.column, b.column); c++) out.push(wellName({ row: r, column: c }));
+    for (let c = Math.min(a.column, b.column); c <= Math.max(a.column, b.column); c++)
+      out.push(wellName({ row: r, column: c }));
   }
   return out;
 }
@@ -111,8 +112,10 @@ export interface DilutionSeriesOptions {
  * (common practice). Every row (or column) of the block gets the same series.
  */
 export function fillDilutionSeries(map: PlateMap, o: DilutionSeriesOptions): PlateMap {
-  if (!(o.dilutionFactor > 1) || !Number.isFinite(o.dilutionFactor)) throw new RangeError("dilution factor must be a number above 1");
-  if (!(o.topConcentrationUm > 0) || !Number.isFinite(o.topConcentrationUm)) throw new RangeError("top concentration must be a positive number");
+  if (!(o.dilutionFactor > 1) || !Number.isFinite(o.dilutionFactor))
+    throw new RangeError("dilution factor must be a number above 1");
+  if (!(o.topConcentrationUm > 0) || !Number.isFinite(o.topConcentrationUm))
+    throw new RangeError("top concentration must be a positive number");
   const a = positionOn(o.from, map.format);
   const b = positionOn(o.to, map.format);
   const next = [...map.wells];
@@ -150,7 +153,8 @@ export interface MechanismMatrixOptions {
  * Throws when the block does not fit the plate.
  */
 export function mechanismMatrix(o: MechanismMatrixOptions): PlateMapWell[] {
-  if (!Number.isInteger(o.replicates) || o.replicates < 1) throw new RangeError("replicates must be a whole number ≥ 1");
+  if (!Number.isInteger(o.replicates) || o.replicates < 1)
+    throw new RangeError("replicates must be a whole number ≥ 1");
   const origin = positionOn(o.origin ?? "A1", o.format);
   const d = plateDimensions(o.format);
   const rowsNeeded = o.inhibitorUm.length * o.replicates;
@@ -176,4 +180,3 @@ export function mechanismMatrix(o: MechanismMatrixOptions): PlateMapWell[] {
   });
   return out;
 }
-

@@ -17,7 +17,10 @@ function header(notes: readonly string[]): string[] {
 }
 
 /** `well,value` rows in the order given. */
-export function writeLongEndpoint(values: ReadonlyMap<string, number>, options: { notes?: readonly string[]; delimiter?: string } = {}): string {
+export function writeLongEndpoint(
+  values: ReadonlyMap<string, number>,
+  options: { notes?: readonly string[]; delimiter?: string } = {},
+): string {
   const d = options.delimiter ?? ",";
   const lines = [...header(options.notes ?? []), ["well", "value"].join(d)];
   for (const [w, v] of values) lines.push(`${w}${d}${v}`);
@@ -25,7 +28,11 @@ export function writeLongEndpoint(values: ReadonlyMap<string, number>, options: 
 }
 
 /** `well,time_s,value`, one row per well and read, grouped by read. */
-export function writeLongKinetic(timesS: readonly number[], wells: ReadonlyMap<string, readonly number[]>, options: { notes?: readonly string[]; delimiter?: string } = {}): string {
+export function writeLongKinetic(
+  timesS: readonly number[],
+  wells: ReadonlyMap<string, readonly number[]>,
+  options: { notes?: readonly string[]; delimiter?: string } = {},
+): string {
   const d = options.delimiter ?? ",";
   const lines = [...header(options.notes ?? []), ["well", "time_s", "value"].join(d)];
   timesS.forEach((t, k) => {
@@ -40,10 +47,14 @@ export function writeLongKinetic(timesS: readonly number[], wells: ReadonlyMap<s
 function gridRows(format: PlateFormat, values: ReadonlyMap<string, number>): string[][] {
   const dim = plateDimensions(format);
   const rows: string[][] = [["", ...Array.from({ length: dim.columns }, (_, c) => String(c + 1))]];
-  const cells: string[][] = Array.from({ length: dim.rows }, (_, r) => [rowLabel(r), ...new Array<string>(dim.columns).fill("")]);
+  const cells: string[][] = Array.from({ length: dim.rows }, (_, r) => [
+    rowLabel(r),
+    ...new Array<string>(dim.columns).fill(""),
+  ]);
   for (const [w, v] of values) {
     const p = parseWellName(w);
-    if (!p || p.row >= dim.rows || p.column >= dim.columns) throw new RangeError(`"${w}" is not a well of a ${format}-well plate`);
+    if (!p || p.row >= dim.rows || p.column >= dim.columns)
+      throw new RangeError(`"${w}" is not a well of a ${format}-well plate`);
     cells[p.row]![p.column + 1] = String(v);
   }
   return [...rows, ...cells];
@@ -53,7 +64,11 @@ function gridRows(format: PlateFormat, values: ReadonlyMap<string, number>): str
  * Plate grids, one block per read, a blank line between blocks; for kinetic reads the line
  * above each block is `Time (s): <t>`.
  */
-export function writeGridText(format: PlateFormat, reads: readonly GridRead[], options: { notes?: readonly string[]; delimiter?: string } = {}): string {
+export function writeGridText(
+  format: PlateFormat,
+  reads: readonly GridRead[],
+  options: { notes?: readonly string[]; delimiter?: string } = {},
+): string {
   const d = options.delimiter ?? ",";
   const lines: string[] = [...header(options.notes ?? [])];
   for (const read of reads) {
@@ -65,7 +80,11 @@ export function writeGridText(format: PlateFormat, reads: readonly GridRead[], o
 }
 
 /** The same layout as writeGridText in the first worksheet of an XLSX workbook (numbers as numbers). */
-export async function writeGridXlsx(format: PlateFormat, reads: readonly GridRead[], options: { notes?: readonly string[]; sheetName?: string } = {}): Promise<Uint8Array> {
+export async function writeGridXlsx(
+  format: PlateFormat,
+  reads: readonly GridRead[],
+  options: { notes?: readonly string[]; sheetName?: string } = {},
+): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook();
   // A fixed date keeps the file's bytes the same from run to run.
   const fixed = new Date(Date.UTC(2024, 0, 1));

@@ -38,7 +38,12 @@ describe("fixture set", () => {
       expect(m.ok, `${g.map}: ${m.ok ? "" : m.issues[0]?.text}`).toBe(true);
       const r = await parseReaderExport(bytesOf(file.contents), g.file, { format: g.format });
       if (!r.ok) throw new Error(r.issues.map((i) => i.text).join("; "));
-      expect({ shape: r.export.shape, format: r.export.format, reads: r.export.reads, wells: r.export.wells.size }).toEqual({
+      expect({
+        shape: r.export.shape,
+        format: r.export.format,
+        reads: r.export.reads,
+        wells: r.export.wells.size,
+      }).toEqual({
         shape: g.shape,
         format: g.format,
         reads: g.reads,
@@ -63,7 +68,10 @@ describe("fixture set", () => {
       const file = set.files.find((f) => f.path === b.file)!;
       const name = baseName(b.file);
       const bytes = bytesOf(file.contents);
-      const r = b.parseAs === "plate-map" ? parsePlateMapCsv(bytes, b.format ?? 96, name) : await parseReaderExport(bytes, name, b.format ? { format: b.format } : {});
+      const r =
+        b.parseAs === "plate-map"
+          ? parsePlateMapCsv(bytes, b.format ?? 96, name)
+          : await parseReaderExport(bytes, name, b.format ? { format: b.format } : {});
       expect(r.ok, b.file).toBe(false);
       if (!r.ok) expect(r.issues[0]!.text, b.file).toBe(b.error);
     }
@@ -85,10 +93,26 @@ describe("fixture set", () => {
 
 describe("demo campaign", () => {
   it("is deterministic and every plate round-trips through the parsers", () => {
-    const a = demoCampaignPlates(7, { compoundCount: 120, screenPlates: 3, compoundsPerPlate: 40, doseResponsePlates: 1 });
-    const b = demoCampaignPlates(7, { compoundCount: 120, screenPlates: 3, compoundsPerPlate: 40, doseResponsePlates: 1 });
+    const a = demoCampaignPlates(7, {
+      compoundCount: 120,
+      screenPlates: 3,
+      compoundsPerPlate: 40,
+      doseResponsePlates: 1,
+    });
+    const b = demoCampaignPlates(7, {
+      compoundCount: 120,
+      screenPlates: 3,
+      compoundsPerPlate: 40,
+      doseResponsePlates: 1,
+    });
     expect(a.plates.map((p) => p.file.contents)).toEqual(b.plates.map((p) => p.file.contents));
-    expect(a.plates.map((p) => p.experiment)).toEqual(["single-dose", "single-dose", "single-dose", "dose-response", "mechanism"]);
+    expect(a.plates.map((p) => p.experiment)).toEqual([
+      "single-dose",
+      "single-dose",
+      "single-dose",
+      "dose-response",
+      "mechanism",
+    ]);
     expect(a.compounds.every((c) => /^INH-\d{6}$/.test(c.id))).toBe(true);
     for (const p of a.plates) {
       const m = parsePlateMapCsv(p.mapCsv, p.format, p.name);
@@ -110,7 +134,9 @@ describe("demo campaign", () => {
     expect(d.plates.filter((p) => p.experiment === "dose-response").length).toBeGreaterThanOrEqual(2);
     expect(d.plates.filter((p) => p.experiment === "mechanism")).toHaveLength(1);
     expect(d.compounds).toHaveLength(300);
-    const screened = d.plates.filter((p) => p.experiment === "single-dose").flatMap((p) => p.map.wells.flatMap((w) => (w.role === "sample" && w.compound ? [w.compound] : [])));
+    const screened = d.plates
+      .filter((p) => p.experiment === "single-dose")
+      .flatMap((p) => p.map.wells.flatMap((w) => (w.role === "sample" && w.compound ? [w.compound] : [])));
     expect(new Set(screened).size).toBe(300);
     expect(d.note).toMatch(/^INVENTED/);
   });

@@ -12,5 +12,23 @@ export { parseTimeLabel, parseDuration } from "./read-time";
 export * from "./simulate";
 export * from "./export-writers";
 export * from "./layouts";
-export { demoCampaignPlates, compoundId, inventedCompounds, SPECIAL_COMPOUNDS, DEMO_ENZYME, DEMO_SUBSTRATE_UM, DEMO_NOTE, type DemoCampaign, type DemoPlate, type DemoOptions } from "./demo-campaign";
-export { buildFixtureSet, FIXTURE_SEED, type FixtureSet, type GoodFixture, type BadFixture, type FixtureFile } from "./fixture-set";
+export {
+  demoCampaignPlates,
+  compoundId,
+  inventedCompounds,
+  SPECIAL_COMPOUNDS,
+  DEMO_ENZYME,
+  DEMO_SUBSTRATE_UM,
+  DEMO_NOTE,
+  type DemoCampaign,
+  type DemoPlate,
+  type DemoOptions,
+} from "./demo-campaign";
+export {
+  buildFixtureSet,
+  FIXTURE_SEED,
+  type FixtureSet,
+  type GoodFixture,
+  type BadFixture,
+  type FixtureFile,
+} from "./fixture-set";

@@ -25,7 +25,9 @@ export function withControls(format: PlateFormat, o: ControlOptions = {}): Plate
     role: "full",
     group: "full",
     ...s,
-    ...(o.referenceCompound ? { compound: o.referenceCompound, concentrationUm: o.referenceConcentrationUm ?? 100 } : {}),
+    ...(o.referenceCompound
+      ? { compound: o.referenceCompound, concentrationUm: o.referenceConcentrationUm ?? 100 }
+      : {}),
   });
   return map;
 }
@@ -39,16 +41,25 @@ export function sampleColumns(format: PlateFormat): number[] {
 /** How many compounds a single-dose plate holds with the given replicates. */
 export function singleDoseCapacity(format: PlateFormat, replicates: number): number {
   const d = plateDimensions(format);
-  return Math.floor((sampleColumns(format).length / replicates)) * d.rows;
+  return Math.floor(sampleColumns(format).length / replicates) * d.rows;
 }
 
 /**
  * Single-dose screen: each compound at one concentration, replicates in adjacent columns,
  * filled row by row.
  */
-export function singleDoseLayout(format: PlateFormat, compounds: readonly string[], concentrationUm: number, replicates: number, controls: ControlOptions = {}): PlateMap {
+export function singleDoseLayout(
+  format: PlateFormat,
+  compounds: readonly string[],
+  concentrationUm: number,
+  replicates: number,
+  controls: ControlOptions = {},
+): PlateMap {
   const cap = singleDoseCapacity(format, replicates);
-  if (compounds.length > cap) throw new RangeError(`${compounds.length} compounds do not fit; a ${format}-well plate holds ${cap} with ${replicates} replicates`);
+  if (compounds.length > cap)
+    throw new RangeError(
+      `${compounds.length} compounds do not fit; a ${format}-well plate holds ${cap} with ${replicates} replicates`,
+    );
   const cols = sampleColumns(format);
   const perRow = Math.floor(cols.length / replicates);
   const wells = compounds.flatMap((compound, k) => {
@@ -87,7 +98,8 @@ export function doseResponseLayout(
   controls: ControlOptions = {},
 ): PlateMap {
   const cap = doseResponseCapacity(format, o.points, o.replicates);
-  if (series.length > cap) throw new RangeError(`${series.length} series do not fit; a ${format}-well plate holds ${cap}`);
+  if (series.length > cap)
+    throw new RangeError(`${series.length} series do not fit; a ${format}-well plate holds ${cap}`);
   const cols = sampleColumns(format);
   const perRow = Math.floor(cols.length / o.points);
   let map = withControls(format, controls);
@@ -96,12 +108,21 @@ export function doseResponseLayout(
     const firstCol = cols[(k % perRow) * o.points]!;
     const from = wellName({ row: rowBlock, column: firstCol - 1 });
     const to = wellName({ row: rowBlock + o.replicates - 1, column: firstCol - 1 + o.points - 1 });
-    map = fillDilutionSeries(map, { from, to, along: "row", topConcentrationUm: s.topConcentrationUm, dilutionFactor: o.dilutionFactor, compound: s.compound });
+    map = fillDilutionSeries(map, {
+      from,
+      to,
+      along: "row",
+      topConcentrationUm: s.topConcentrationUm,
+      dilutionFactor: o.dilutionFactor,
+      compound: s.compound,
+    });
   });
   // Replicate groups: the same compound and concentration.
   return {
     format,
-    wells: map.wells.map((w) => (w.role === "sample" && w.compound ? { ...w, group: `${w.compound}@${w.concentrationUm}` } : w)),
+    wells: map.wells.map((w) =>
+      w.role === "sample" && w.compound ? { ...w, group: `${w.compound}@${w.concentrationUm}` } : w,
+    ),
   };
 }
 
@@ -114,7 +135,13 @@ export interface MechanismBlock {
  * Mechanism study: one substrate × inhibitor block per compound (substrate across, inhibitor
  * with replicates down), blocks tiled left to right then top to bottom between the controls.
  */
-export function mechanismLayout(format: PlateFormat, blocks: readonly MechanismBlock[], substrateUm: readonly number[], replicates: number, controls: ControlOptions = {}): PlateMap {
+export function mechanismLayout(
+  format: PlateFormat,
+  blocks: readonly MechanismBlock[],
+  substrateUm: readonly number[],
+  replicates: number,
+  controls: ControlOptions = {},
+): PlateMap {
   const d = plateDimensions(format);
   const cols = sampleColumns(format);
   const perRow = Math.floor(cols.length / substrateUm.length);
@@ -122,10 +149,15 @@ export function mechanismLayout(format: PlateFormat, blocks: readonly MechanismB
   let row = 0;
   blocks.forEach((b, k) => {
     const slot = k % perRow;
-    if (k > 0 && slot === 0) row += Math.max(...blocks.slice(k - perRow, k).map((x) => x.inhibitorUm.length)) * replicates;
+    if (k > 0 && slot === 0)
+      row += Math.max(...blocks.slice(k - perRow, k).map((x) => x.inhibitorUm.length)) * replicates;
     const origin = wellName({ row, column: cols[slot * substrateUm.length]! - 1 });
-    if (row + b.inhibitorUm.length * replicates > d.rows) throw new RangeError(`mechanism block for ${b.compound} does not fit a ${format}-well plate`);
-    map = placeWells(map, mechanismMatrix({ format, compound: b.compound, substrateUm, inhibitorUm: b.inhibitorUm, replicates, origin }));
+    if (row + b.inhibitorUm.length * replicates > d.rows)
+      throw new RangeError(`mechanism block for ${b.compound} does not fit a ${format}-well plate`);
+    map = placeWells(
+      map,
+      mechanismMatrix({ format, compound: b.compound, substrateUm, inhibitorUm: b.inhibitorUm, replicates, origin }),
+    );
   });
   return map;
 }

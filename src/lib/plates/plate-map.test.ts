@@ -1,7 +1,15 @@
 // Checks: plate map CSV rules of this product; formula-injection rule from the OWASP "CSV
 // Injection" guidance (= + - @, tab, carriage return); CSV quoting per RFC 4180.
 import { describe, expect, it } from "vitest";
-import { emptyPlateMap, parsePlateMapCsv, plateMapFromJson, plateMapToCsv, validatePlateMap, countRoles, getPlateMapWell } from "./plate-map";
+import {
+  emptyPlateMap,
+  parsePlateMapCsv,
+  plateMapFromJson,
+  plateMapToCsv,
+  validatePlateMap,
+  countRoles,
+  getPlateMapWell,
+} from "./plate-map";
 import { assignWells, selectColumns } from "./editor";
 
 const controls = [
@@ -31,14 +39,28 @@ describe("plate map CSV import", () => {
     const r = parsePlateMapCsv(csv("A02,sample,INH-000001,10,50,r1", "a3,Sample,INH-000001,3.33,50,r1"), 96);
     expect(r.ok).toBe(true);
     if (!r.ok) return;
-    expect(getPlateMapWell(r.map, "A2")).toEqual({ well: "A2", role: "sample", compound: "INH-000001", concentrationUm: 10, substrateUm: 50, group: "r1" });
+    expect(getPlateMapWell(r.map, "A2")).toEqual({
+      well: "A2",
+      role: "sample",
+      compound: "INH-000001",
+      concentrationUm: 10,
+      substrateUm: 50,
+      group: "r1",
+    });
     expect(getPlateMapWell(r.map, "A3")?.concentrationUm).toBe(3.33);
     expect(getPlateMapWell(r.map, "H12")).toEqual({ well: "H12", role: "empty" });
     expect(countRoles(r.map)).toEqual({ sample: 2, neutral: 4, full: 4, blank: 0, empty: 86 });
   });
 
   it("accepts columns in any order and header case, and a quoted field (RFC 4180)", () => {
-    const text = ["Role,WELL,Compound,Concentration_uM", ...controls.map((l) => { const [w, role, c, conc] = l.split(","); return `${role},${w},${c},${conc}`; }), 'sample,A2,"INH-000001",1'].join("\r\n");
+    const text = [
+      "Role,WELL,Compound,Concentration_uM",
+      ...controls.map((l) => {
+        const [w, role, c, conc] = l.split(",");
+        return `${role},${w},${c},${conc}`;
+      }),
+      'sample,A2,"INH-000001",1',
+    ].join("\r\n");
     const r = parsePlateMapCsv(text, 96);
     expect(r.ok).toBe(true);
   });
@@ -56,15 +78,29 @@ describe("plate map CSV import", () => {
   });
 
   it("gives each problem its exact message with line and well", () => {
-    expect(messages(csv("I1,sample,INH-000001,1,,"))).toEqual(['map.csv line 10: "I1" is not a well of a 96-well plate']);
+    expect(messages(csv("I1,sample,INH-000001,1,,"))).toEqual([
+      'map.csv line 10: "I1" is not a well of a 96-well plate',
+    ]);
     expect(messages(csv("XX1,sample,INH-000001,1,,"))).toEqual(['map.csv line 10: "XX1" is not a well name']);
-    expect(messages(csv("A2,sample,INH-000001,1,,", "A02,sample,INH-000002,1,,"))).toEqual(["map.csv line 11, well A2: well is listed twice (first on line 10)"]);
-    expect(messages(csv("A2,control,,,,"))).toEqual(['map.csv line 10, well A2: unknown role "control"; use sample, neutral, full, blank, empty']);
+    expect(messages(csv("A2,sample,INH-000001,1,,", "A02,sample,INH-000002,1,,"))).toEqual([
+      "map.csv line 11, well A2: well is listed twice (first on line 10)",
+    ]);
+    expect(messages(csv("A2,control,,,,"))).toEqual([
+      'map.csv line 10, well A2: unknown role "control"; use sample, neutral, full, blank, empty',
+    ]);
     expect(messages(csv("A2,sample,,1,,"))).toEqual(["map.csv line 10, well A2: sample well has no compound"]);
-    expect(messages(csv("A2,sample,INH-000001,,,"))).toEqual(["map.csv line 10, well A2: sample well has no concentration_uM"]);
-    expect(messages(csv("A2,sample,INH-000001,-1,,"))).toEqual(["map.csv line 10, well A2: concentration_uM -1 is negative"]);
-    expect(messages(csv("A2,sample,INH-000001,ten,,"))).toEqual(['map.csv line 10, well A2: concentration_uM "ten" is not a number']);
-    expect(messages(csv("A2,sample,INH-000001,1,-5,"))).toEqual(["map.csv line 10, well A2: substrate_uM -5 is negative"]);
+    expect(messages(csv("A2,sample,INH-000001,,,"))).toEqual([
+      "map.csv line 10, well A2: sample well has no concentration_uM",
+    ]);
+    expect(messages(csv("A2,sample,INH-000001,-1,,"))).toEqual([
+      "map.csv line 10, well A2: concentration_uM -1 is negative",
+    ]);
+    expect(messages(csv("A2,sample,INH-000001,ten,,"))).toEqual([
+      'map.csv line 10, well A2: concentration_uM "ten" is not a number',
+    ]);
+    expect(messages(csv("A2,sample,INH-000001,1,-5,"))).toEqual([
+      "map.csv line 10, well A2: substrate_uM -5 is negative",
+    ]);
     expect(messages(csv("A2,,INH-000001,1,,"))).toEqual(["map.csv line 10, well A2: role is missing"]);
     expect(messages([header, "A1,neutral,,,,"].join("\n"))).toEqual([
       "map.csv: plate map has 1 neutral control wells; at least 4 are needed",
@@ -77,12 +113,14 @@ describe("plate map CSV import", () => {
   });
 
   it("refuses formula-like text (OWASP CSV injection: = + - @)", () => {
-    for (const bad of ["=HYPERLINK(\"http://x\")", "+1+1", "-2+3", "@SUM(A1)"]) {
+    for (const bad of ['=HYPERLINK("http://x")', "+1+1", "-2+3", "@SUM(A1)"]) {
       const m = messages(csv(`A2,sample,${bad.includes(",") ? `"${bad}"` : bad},1,,`));
       expect(m).toHaveLength(1);
-      expect(m[0]).toMatch(/^map\.csv line 10: ".*" starts with "[=+\-@]", which a spreadsheet may run as a formula; text like this is refused$/);
+      expect(m[0]).toMatch(
+        /^map\.csv line 10: ".*" starts with "[=+\-@]", which a spreadsheet may run as a formula; text like this is refused$/,
+      );
     }
-    expect(messages(csv('A2,sample,INH-000001,1,,"=cmd|\' /C calc\'!A0"'))).toEqual([
+    expect(messages(csv("A2,sample,INH-000001,1,,\"=cmd|' /C calc'!A0\""))).toEqual([
       `map.csv line 10: "=cmd|' /C calc'!A0" starts with "=", which a spreadsheet may run as a formula; text like this is refused`,
     ]);
   });

@@ -135,18 +135,30 @@ export function validatePlateMap(map: PlateMap): PlateIssue[] {
 }
 
 export type PlateMapParseResult =
-  | { readonly ok: true; readonly map: PlateMap }
-  | { readonly ok: false; readonly issues: PlateIssue[] };
+  { readonly ok: true; readonly map: PlateMap } | { readonly ok: false; readonly issues: PlateIssue[] };
 
 /**
  * Import a plate map CSV (text or bytes) for a plate format. Every problem is reported with its
  * line and well (up to 50), and nothing is returned unless the whole file is valid.
  */
-export function parsePlateMapCsv(input: string | Uint8Array, format: PlateFormat, fileName?: string): PlateMapParseResult {
+export function parsePlateMapCsv(
+  input: string | Uint8Array,
+  format: PlateFormat,
+  fileName?: string,
+): PlateMapParseResult {
   const issues: PlateIssue[] = [];
   const at = (line: number | undefined, well: string | undefined, message: string) => {
     if (issues.length < MAX_ISSUES) {
-      issues.push(issue({ ...(fileName ? { file: fileName } : {}), ...(line !== undefined ? { line } : {}), ...(well ? { well } : {}) }, message));
+      issues.push(
+        issue(
+          {
+            ...(fileName ? { file: fileName } : {}),
+            ...(line !== undefined ? { line } : {}),
+            ...(well ? { well } : {}),
+          },
+          message,
+        ),
+      );
     }
   };
   if (!isPlateFormat(format)) {
@@ -166,12 +178,14 @@ export function parsePlateMapCsv(input: string | Uint8Array, format: PlateFormat
     const name = raw.trim().toLowerCase();
     if (name === "" && i === header.cells.length - 1) return; // trailing delimiter
     const canonical = known.get(name);
-    if (!canonical) at(header.line, undefined, `unknown column ${quoteCell(raw.trim())}; expected ${PLATE_MAP_COLUMNS.join(", ")}`);
+    if (!canonical)
+      at(header.line, undefined, `unknown column ${quoteCell(raw.trim())}; expected ${PLATE_MAP_COLUMNS.join(", ")}`);
     else if (cols.has(canonical)) at(header.line, undefined, `column "${canonical}" appears twice`);
     else cols.set(canonical, i);
   });
   for (const required of ["well", "role"] as const) {
-    if (!cols.has(required) && issues.length === 0) at(header.line, undefined, `the header has no "${required}" column`);
+    if (!cols.has(required) && issues.length === 0)
+      at(header.line, undefined, `the header has no "${required}" column`);
   }
   if (issues.length > 0) return { ok: false, issues };
 
@@ -273,7 +287,14 @@ function csvField(s: string): string {
 export function plateMapToCsv(map: PlateMap, options: { padded?: boolean } = {}): string {
   const lines: string[] = [PLATE_MAP_COLUMNS.join(",")];
   map.wells.forEach((w, i) => {
-    if (w.role === "empty" && w.compound === undefined && w.concentrationUm === undefined && w.substrateUm === undefined && w.group === undefined) return;
+    if (
+      w.role === "empty" &&
+      w.compound === undefined &&
+      w.concentrationUm === undefined &&
+      w.substrateUm === undefined &&
+      w.group === undefined
+    )
+      return;
     for (const t of [w.compound, w.group]) {
       const inj = t === undefined ? undefined : formulaInjectionMessage(t);
       if (inj) throw new Error(`well ${w.well}: ${inj}`);
@@ -314,7 +335,10 @@ export const plateMapJsonSchema = z.object({
 export function plateMapFromJson(input: unknown): PlateMapParseResult {
   const parsed = plateMapJsonSchema.safeParse(input);
   if (!parsed.success) {
-    return { ok: false, issues: parsed.error.issues.slice(0, MAX_ISSUES).map((i) => issue({}, `${i.path.join(".")}: ${i.message}`)) };
+    return {
+      ok: false,
+      issues: parsed.error.issues.slice(0, MAX_ISSUES).map((i) => issue({}, `${i.path.join(".")}: ${i.message}`)),
+    };
   }
   const { format, wells: listed } = parsed.data;
   const issues: PlateIssue[] = [];

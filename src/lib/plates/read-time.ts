@@ -29,7 +29,8 @@ const UNIT_SECONDS: Record<string, number> = {
 const CLOCK_HMS = /^(\d+):(\d{1,2}):(\d{1,2}(?:\.\d+)?)$/;
 const CLOCK_MS = /^(\d+):(\d{1,2}(?:\.\d+)?)$/;
 const VALUE_UNIT = /^([+-]?(?:\d+\.?\d*|\.\d+)(?:e[+-]?\d+)?)\s*(ms|s|secs?|seconds?|mins?|minutes?|h|hr|hours)?$/;
-const LABEL = /\btime(?:[\s_]*[([]?\s*(ms|s|secs?|seconds?|mins?|minutes?|h|hr|hours)\s*[)\]]?)?(?:\s*[:=]\s*|\s+|$)(.*)$/;
+const LABEL =
+  /\btime(?:[\s_]*[([]?\s*(ms|s|secs?|seconds?|mins?|minutes?|h|hr|hours)\s*[)\]]?)?(?:\s*[:=]\s*|\s+|$)(.*)$/;
 
 function round(x: number): number {
   return Math.round(x * 1e9) / 1e9;

@@ -29,13 +29,21 @@ function parse(text: string, name = "plate-07.csv", format?: 96 | 384 | 1536): R
 
 describe("long tables", () => {
   it("reads well,value with notes above and any header case", () => {
-    const r = parse(["Reader export (invented)", "Plate,7", "", "Well,Value", "A1,100", "a02,200.5", "H12,-3e-1"].join("\n"));
+    const r = parse(
+      ["Reader export (invented)", "Plate,7", "", "Well,Value", "A1,100", "a02,200.5", "H12,-3e-1"].join("\n"),
+    );
     expect(r.ok).toBe(true);
     if (!r.ok || r.export.shape !== "long-endpoint") throw new Error("wrong shape");
     expect(r.export.format).toBe(96);
     expect(r.export.reads).toBe(1);
-    expect([...r.export.wells]).toEqual([["A1", 100], ["A2", 200.5], ["H12", -0.3]]);
-    expect(r.export.preview.summary).toBe("CSV, long table, endpoint: 96-well plate, 3 wells, 1 read, values -0.3 to 200.5");
+    expect([...r.export.wells]).toEqual([
+      ["A1", 100],
+      ["A2", 200.5],
+      ["H12", -0.3],
+    ]);
+    expect(r.export.preview.summary).toBe(
+      "CSV, long table, endpoint: 96-well plate, 3 wells, 1 read, values -0.3 to 200.5",
+    );
   });
 
   it("reads well,time_s,value in any row order and sorts each series", () => {
@@ -43,34 +51,52 @@ describe("long tables", () => {
     if (!r.ok || r.export.shape !== "long-kinetic") throw new Error("wrong shape");
     expect(r.export.reads).toBe(3);
     expect(r.export.timesS).toEqual([0, 30, 60]);
-    expect(r.export.wells.get("B3")).toEqual([{ timeS: 0, value: 10 }, { timeS: 30, value: 11 }, { timeS: 60, value: 12 }]);
+    expect(r.export.wells.get("B3")).toEqual([
+      { timeS: 0, value: 10 },
+      { timeS: 30, value: 11 },
+      { timeS: 60, value: 12 },
+    ]);
     expect([...r.export.wells.keys()]).toEqual(["A1", "B3"]);
   });
 
   it("reads time in minutes when the column says so, and refuses a time column without unit", () => {
     const r = parse("well,time_min,value\nA1,0.5,1\n");
     expect(r.ok && r.export.shape === "long-kinetic" && r.export.timesS).toEqual([30]);
-    expect(texts(parse("well,time,value\nA1,0.5,1\n"))).toEqual(['plate-07.csv line 1: column "time" has no unit; name it time_s (seconds)']);
+    expect(texts(parse("well,time,value\nA1,0.5,1\n"))).toEqual([
+      'plate-07.csv line 1: column "time" has no unit; name it time_s (seconds)',
+    ]);
   });
 
   it("infers the smallest format, or checks the plate map's", () => {
     const r = parse("well,value\nA1,1\nP24,2\n");
     expect(r.ok && r.export.format).toBe(384);
-    expect(texts(parse("well,value\nA1,1\nP24,2\n", "p.csv", 96))).toEqual(['p.csv line 3: "P24" is not a well of a 96-well plate']);
+    expect(texts(parse("well,value\nA1,1\nP24,2\n", "p.csv", 96))).toEqual([
+      'p.csv line 3: "P24" is not a well of a 96-well plate',
+    ]);
     expect(parse("well,value\nAF48,1\n").ok && parse("well,value\nAF48,1\n", "x.csv", 1536).ok).toBe(true);
   });
 
   it("reports every bad-input case with file, line and well", () => {
     expect(texts(parse("well,value\nA1,1\nB3,abc\n"))).toEqual(['plate-07.csv line 3, well B3: "abc" is not a number']);
-    expect(texts(parse("well,value\nA1,1\nA01,2\n"))).toEqual(["plate-07.csv line 3, well A1: well is listed twice (first on line 2)"]);
-    expect(texts(parse("well,time_s,value\nA1,0,1\nA1,0,2\n"))).toEqual(["plate-07.csv line 3, well A1: time 0 s is listed twice for this well (first on line 2)"]);
+    expect(texts(parse("well,value\nA1,1\nA01,2\n"))).toEqual([
+      "plate-07.csv line 3, well A1: well is listed twice (first on line 2)",
+    ]);
+    expect(texts(parse("well,time_s,value\nA1,0,1\nA1,0,2\n"))).toEqual([
+      "plate-07.csv line 3, well A1: time 0 s is listed twice for this well (first on line 2)",
+    ]);
     expect(texts(parse("well,value\nZZ9,1\n"))).toEqual(['plate-07.csv line 2: "ZZ9" is not a well name']);
     expect(texts(parse("well,value\nA1,\n"))).toEqual(["plate-07.csv line 2, well A1: value is missing"]);
-    expect(texts(parse("well,value\nA1,=1+2\n"))).toEqual(['plate-07.csv line 2: "=1+2" starts with "=", which a spreadsheet may run as a formula; text like this is refused']);
-    expect(texts(parse("well,value\n@A1,1\n"))).toEqual(['plate-07.csv line 2: "@A1" starts with "@", which a spreadsheet may run as a formula; text like this is refused']);
+    expect(texts(parse("well,value\nA1,=1+2\n"))).toEqual([
+      'plate-07.csv line 2: "=1+2" starts with "=", which a spreadsheet may run as a formula; text like this is refused',
+    ]);
+    expect(texts(parse("well,value\n@A1,1\n"))).toEqual([
+      'plate-07.csv line 2: "@A1" starts with "@", which a spreadsheet may run as a formula; text like this is refused',
+    ]);
     expect(texts(parse("well,value\n"))).toEqual(["plate-07.csv line 1: the table has a header but no wells"]);
     const times = ["well,time_s,value", ...Array.from({ length: 501 }, (_, i) => `A1,${i},1`)].join("\n");
-    expect(texts(parse(times))).toEqual(["plate-07.csv line 502, well A1: file has more than 500 reads (distinct times); the limit is 500"]);
+    expect(texts(parse(times))).toEqual([
+      "plate-07.csv line 502, well A1: file has more than 500 reads (distinct times); the limit is 500",
+    ]);
   });
 
   it("keeps negative numbers (blank-subtracted signals) apart from formula-like text", () => {
@@ -82,7 +108,11 @@ describe("long tables", () => {
 
 describe("plate grids", () => {
   it("reads a 96-well endpoint grid with notes and an offset start column", () => {
-    const lines = ["Invented export", "Wavelength,450 nm", ...grid(8, 12, (r, c) => r * 100 + c).map((l) => "note," + l)];
+    const lines = [
+      "Invented export",
+      "Wavelength,450 nm",
+      ...grid(8, 12, (r, c) => r * 100 + c).map((l) => "note," + l),
+    ];
     const r = parse(lines.join("\n"));
     if (!r.ok || r.export.shape !== "grid-endpoint") throw new Error(texts(r).join("; "));
     expect(r.export.format).toBe(96);
@@ -114,15 +144,28 @@ describe("plate grids", () => {
   });
 
   it("reads kinetic grids with the time on the line above each block, in every documented form", () => {
-    const forms = ["Time (s): 0", "Time [s],30", "time_s=60", "Time: 90 s", "Time,0:02:00", "Read 6 time: 2.5 min", "180", "3:30"];
+    const forms = [
+      "Time (s): 0",
+      "Time [s],30",
+      "time_s=60",
+      "Time: 90 s",
+      "Time,0:02:00",
+      "Read 6 time: 2.5 min",
+      "180",
+      "3:30",
+    ];
     const lines: string[] = ["Invented kinetic export", ""];
     forms.forEach((f, i) => lines.push(f, ...grid(8, 12, (r, c) => i * 10 + r + c / 100), ""));
     const r = parse(lines.join("\n"));
     if (!r.ok || r.export.shape !== "grid-kinetic") throw new Error(texts(r).join("; "));
     expect(r.export.timesS).toEqual([0, 30, 60, 90, 120, 150, 180, 210]);
     expect(r.export.reads).toBe(8);
-    expect(r.export.wells.get("B2")!.map((p) => p.value)).toEqual([1.01, 11.01, 21.01, 31.01, 41.01, 51.01, 61.01, 71.01]);
-    expect(r.export.preview.summary).toBe("CSV, plate grids, kinetic: 96-well plate, 96 wells, 8 reads from 0 s to 210 s, values 0 to 77.11");
+    expect(r.export.wells.get("B2")!.map((p) => p.value)).toEqual([
+      1.01, 11.01, 21.01, 31.01, 41.01, 51.01, 61.01, 71.01,
+    ]);
+    expect(r.export.preview.summary).toBe(
+      "CSV, plate grids, kinetic: 96-well plate, 96 wells, 8 reads from 0 s to 210 s, values 0 to 77.11",
+    );
   });
 
   it("takes the time from the block's corner cell too", () => {
@@ -132,12 +175,18 @@ describe("plate grids", () => {
   });
 
   it("reports grid problems exactly", () => {
-    expect(texts(parse(grid(10, 12, () => 1).join("\n")))).toEqual(["plate-07.csv line 1: plate grid has 10 rows × 12 columns; a plate has 8 × 12, 16 × 24 or 32 × 48"]);
+    expect(texts(parse(grid(10, 12, () => 1).join("\n")))).toEqual([
+      "plate-07.csv line 1: plate grid has 10 rows × 12 columns; a plate has 8 × 12, 16 × 24 or 32 × 48",
+    ]);
     expect(texts(parse(grid(16, 24, () => 1).join("\n"), "plate-07.csv", 96))).toEqual([
       "plate-07.csv line 1: plate grid is 16 × 24 (384-well) but the plate map is 96-well (8 × 12)",
     ]);
-    expect(texts(parse(grid(8, 12, (r, c) => (r === 1 && c === 2 ? "abc" : 1)).join("\n")))).toEqual(['plate-07.csv line 3, well B3: "abc" is not a number']);
-    expect(texts(parse(grid(8, 12, (r, c) => (r === 1 && c === 2 ? "OVRFLW" : 1)).join("\n")))).toEqual(['plate-07.csv line 3, well B3: "OVRFLW" is not a number']);
+    expect(texts(parse(grid(8, 12, (r, c) => (r === 1 && c === 2 ? "abc" : 1)).join("\n")))).toEqual([
+      'plate-07.csv line 3, well B3: "abc" is not a number',
+    ]);
+    expect(texts(parse(grid(8, 12, (r, c) => (r === 1 && c === 2 ? "OVRFLW" : 1)).join("\n")))).toEqual([
+      'plate-07.csv line 3, well B3: "OVRFLW" is not a number',
+    ]);
     expect(texts(parse(grid(8, 12, (r, c) => (r === 0 && c === 0 ? "+cmd" : 1)).join("\n")))).toEqual([
       'plate-07.csv line 2, well A1: "+cmd" starts with "+", which a spreadsheet may run as a formula; text like this is refused',
     ]);
@@ -145,15 +194,19 @@ describe("plate grids", () => {
       'plate-07.csv line 1: file has 2 plate grids, and this one has no read time above it; write e.g. "Time (s): 30" on the line above each grid',
       'plate-07.csv line 10: file has 2 plate grids, and this one has no read time above it; write e.g. "Time (s): 30" on the line above each grid',
     ]);
-    expect(texts(parse(["Time (s): 30", ...grid(8, 12, () => 1), "Time (s): 30", ...grid(8, 12, () => 2)].join("\n")))).toEqual([
-      "plate-07.csv line 12: read time 30 s appears twice (first at the grid on line 2)",
-    ]);
-    expect(texts(parse(["Time: soon", ...grid(8, 12, () => 1), "Time (s): 30", ...grid(8, 12, () => 2)].join("\n")))[0]).toBe(
+    expect(
+      texts(parse(["Time (s): 30", ...grid(8, 12, () => 1), "Time (s): 30", ...grid(8, 12, () => 2)].join("\n"))),
+    ).toEqual(["plate-07.csv line 12: read time 30 s appears twice (first at the grid on line 2)"]);
+    expect(
+      texts(parse(["Time: soon", ...grid(8, 12, () => 1), "Time (s): 30", ...grid(8, 12, () => 2)].join("\n")))[0],
+    ).toBe(
       'plate-07.csv line 2: file has 2 plate grids, and this one has "Time: soon" is not a read time; write e.g. "Time (s): 30" on the line above each grid',
     );
     const many: string[] = [];
     for (let i = 0; i <= 500; i++) many.push(`Time (s): ${i}`, ...grid(8, 12, () => 1));
-    expect(texts(parse(many.join("\n")))).toEqual(["plate-07.csv line 2: file has more than 500 plate grids (reads); the limit is 500"]);
+    expect(texts(parse(many.join("\n")))).toEqual([
+      "plate-07.csv line 2: file has more than 500 plate grids (reads); the limit is 500",
+    ]);
   });
 });
 
@@ -163,17 +216,27 @@ describe("whole-file problems", () => {
     expect(await p(new Uint8Array(0), "empty.csv")).toEqual(["empty.csv: file is empty"]);
     expect(await p(enc.encode(" \n\n  \n"), "blank.csv")).toEqual(["blank.csv: file is empty"]);
     const binary = new Uint8Array(4096).map((_, i) => (i * 7919) % 256);
-    expect(await p(binary, "garbage.csv")).toEqual(["garbage.csv: file is not a CSV, TSV or XLSX export (it looks like binary data)"]);
-    expect(await p(new Uint8Array(25 * 1024 * 1024 + 1).fill(65), "big.csv")).toEqual(["big.csv: file is 25.0 MB; the limit is 25 MB"]);
+    expect(await p(binary, "garbage.csv")).toEqual([
+      "garbage.csv: file is not a CSV, TSV or XLSX export (it looks like binary data)",
+    ]);
+    expect(await p(new Uint8Array(25 * 1024 * 1024 + 1).fill(65), "big.csv")).toEqual([
+      "big.csv: file is 25.0 MB; the limit is 25 MB",
+    ]);
     expect(await p(Uint8Array.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1, 0, 0]), "old.xls")).toEqual([
       "old.xls: file is a legacy .xls workbook; save it as .xlsx or CSV",
     ]);
-    expect(await p(enc.encode("well,value\nA1,1\n"), "fake.xlsx")).toEqual(["fake.xlsx: file is named .xlsx but is not an XLSX workbook"]);
+    expect(await p(enc.encode("well,value\nA1,1\n"), "fake.xlsx")).toEqual([
+      "fake.xlsx: file is named .xlsx but is not an XLSX workbook",
+    ]);
     expect(await p(enc.encode("hello\nworld\n"), "notes.csv")).toEqual([
       'notes.csv: no plate data found: expected a header row "well,value" or "well,time_s,value", or a plate grid with column numbers 1–12, 1–24 or 1–48 across and row letters down',
     ]);
-    const zipHead = Uint8Array.from([0x50, 0x4b, 0x03, 0x04, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20]);
-    expect(await p(zipHead, "broken.xlsx")).toEqual(["broken.xlsx: file is not a readable XLSX workbook (damaged zip)"]);
+    const zipHead = Uint8Array.from([
+      0x50, 0x4b, 0x03, 0x04, 1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20,
+    ]);
+    expect(await p(zipHead, "broken.xlsx")).toEqual([
+      "broken.xlsx: file is not a readable XLSX workbook (damaged zip)",
+    ]);
   });
 
   it("decodes UTF-8 with a BOM and UTF-16LE with a BOM", async () => {
@@ -199,7 +262,8 @@ describe("XLSX", () => {
     const bytes = await workbook((ws) => {
       for (let t = 0; t < 3; t++) {
         ws.addRow(t === 1 ? ["Time", new Date(Date.UTC(1899, 11, 30, 0, 0, 30))] : [`Time (s): ${t * 30}`]);
-        for (const line of grid(8, 12, (r, c) => t + r + c)) ws.addRow(line.split(",").map((x, i) => (i > 0 && x !== "" ? Number(x) : x)));
+        for (const line of grid(8, 12, (r, c) => t + r + c))
+          ws.addRow(line.split(",").map((x, i) => (i > 0 && x !== "" ? Number(x) : x)));
       }
     });
     const r = await parseReaderExport(bytes, "run.xlsx");
@@ -226,9 +290,16 @@ describe("XLSX", () => {
 describe("CSV tokenizer against Python's csv module (RFC 4180)", () => {
   it("splits quoted fields, doubled quotes, embedded delimiters and line breaks the same way", () => {
     const text = 'a,"b,c","say ""hi"""\r\n"multi\nline",2,3\n\nx,,z\n';
-    const py = execFileSync("python3", ["-c", "import csv,io,json,sys; print(json.dumps([r for r in csv.reader(io.StringIO(sys.stdin.read(), newline='')) if any(c.strip() for c in r)]))"], {
-      input: text,
-    }).toString();
+    const py = execFileSync(
+      "python3",
+      [
+        "-c",
+        "import csv,io,json,sys; print(json.dumps([r for r in csv.reader(io.StringIO(sys.stdin.read(), newline='')) if any(c.strip() for c in r)]))",
+      ],
+      {
+        input: text,
+      },
+    ).toString();
     expect(tokenize(text, ",").map((r) => r.cells)).toEqual(JSON.parse(py));
     expect(tokenize(text, ",").map((r) => r.line)).toEqual([1, 2, 5]);
   });

@@ -85,8 +85,7 @@ export interface KineticExport extends ExportBase {
 export type ReaderExport = EndpointExport | KineticExport;
 
 export type ReaderExportResult =
-  | { readonly ok: true; readonly export: ReaderExport }
-  | { readonly ok: false; readonly issues: PlateIssue[] };
+  { readonly ok: true; readonly export: ReaderExport } | { readonly ok: false; readonly issues: PlateIssue[] };
 
 export interface ParseExportOptions {
   /** the plate map's format: a file for another plate size is refused */
@@ -103,7 +102,11 @@ function fail(fileName: string, message: string, where: Omit<IssueLocation, "fil
  * Parse any supported export from its bytes and file name. XLSX is recognised by its zip
  * signature (or a .xlsx name), everything else is read as delimited text.
  */
-export async function parseReaderExport(bytes: Uint8Array, fileName: string, options: ParseExportOptions = {}): Promise<ReaderExportResult> {
+export async function parseReaderExport(
+  bytes: Uint8Array,
+  fileName: string,
+  options: ParseExportOptions = {},
+): Promise<ReaderExportResult> {
   const pre = precheck(bytes, fileName);
   if (pre) return pre;
   if (isZip(bytes) || /\.xlsx$/i.test(fileName)) {
@@ -111,13 +114,21 @@ export async function parseReaderExport(bytes: Uint8Array, fileName: string, opt
     const wb = await readWorkbookRows(bytes);
     if (!wb.ok) return fail(fileName, wb.message);
     if (wb.rows.length === 0) return fail(fileName, "file is empty");
-    return parseRows(wb.rows, { fileName, kind: "xlsx", decimalComma: false, source: `XLSX, sheet "${wb.sheet}"` }, options);
+    return parseRows(
+      wb.rows,
+      { fileName, kind: "xlsx", decimalComma: false, source: `XLSX, sheet "${wb.sheet}"` },
+      options,
+    );
   }
   return parseTextBytes(bytes, fileName, options);
 }
 
 /** The synchronous path for CSV and TSV bytes (no XLSX). */
-export function parseReaderExportText(input: string | Uint8Array, fileName: string, options: ParseExportOptions = {}): ReaderExportResult {
+export function parseReaderExportText(
+  input: string | Uint8Array,
+  fileName: string,
+  options: ParseExportOptions = {},
+): ReaderExportResult {
   if (typeof input !== "string") {
     const pre = precheck(input, fileName);
     if (pre) return pre;
@@ -200,10 +211,20 @@ interface LongHeader {
 }
 
 function normalise(h: string): string {
-  return h.trim().toLowerCase().replace(/[^a-z0-9]/g, "");
+  return h
+    .trim()
+    .toLowerCase()
+    .replace(/[^a-z0-9]/g, "");
 }
 
-const TIME_COLUMNS: Record<string, number> = { times: 1, timesec: 1, timeseconds: 1, timems: 0.001, timemin: 60, timeminutes: 60 };
+const TIME_COLUMNS: Record<string, number> = {
+  times: 1,
+  timesec: 1,
+  timeseconds: 1,
+  timems: 0.001,
+  timemin: 60,
+  timeminutes: 60,
+};
 
 /** A header naming `well` and `value` within the first 50 rows. */
 function findLongHeader(rows: TableRow[]): LongHeader | undefined {
@@ -230,13 +251,20 @@ interface WellSeries {
   readonly lines: number[];
 }
 
-type WellLookup = { readonly name: string; readonly idx: number; readonly row: number; readonly column: number } | { readonly error: string };
+type WellLookup =
+  | { readonly name: string; readonly idx: number; readonly row: number; readonly column: number }
+  | { readonly error: string };
 
 function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExportOptions): ReaderExportResult {
   const issues = new Issues(ctx);
   const headerRow = rows[h.rowIndex]!;
   if (h.timeProblem) {
-    issues.at(headerRow, h.timeProblem.col, undefined, `column ${quoteCell(h.timeProblem.text)} has no unit; name it time_s (seconds)`);
+    issues.at(
+      headerRow,
+      h.timeProblem.col,
+      undefined,
+      `column ${quoteCell(h.timeProblem.text)} has no unit; name it time_s (seconds)`,
+    );
     return { ok: false, issues: issues.list };
   }
   const time = h.time;
@@ -313,7 +341,12 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
     if (timeS <= last) {
       const k = s.times.indexOf(timeS);
       if (k >= 0) {
-        issues.at(row, h.well, name, `time ${timeS} s is listed twice for this well (first on ${lineWord} ${s.lines[k]})`);
+        issues.at(
+          row,
+          h.well,
+          name,
+          `time ${timeS} s is listed twice for this well (first on ${lineWord} ${s.lines[k]})`,
+        );
         continue;
       }
     }
@@ -323,14 +356,22 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
     if (!times.has(timeS)) {
       times.add(timeS);
       if (times.size > MAX_READS) {
-        issues.at(row, time.col, name, `file has more than ${MAX_READS} reads (distinct times); the limit is ${MAX_READS}`);
+        issues.at(
+          row,
+          time.col,
+          name,
+          `file has more than ${MAX_READS} reads (distinct times); the limit is ${MAX_READS}`,
+        );
         break;
       }
     }
   }
   if (issues.list.length > 0) return { ok: false, issues: issues.list };
   const count = time ? series.size : endpoint.size;
-  if (count === 0) return fail(ctx.fileName, "the table has a header but no wells", { ...(ctx.kind === "text" ? { line: headerRow.line } : {}) });
+  if (count === 0)
+    return fail(ctx.fileName, "the table has a header but no wells", {
+      ...(ctx.kind === "text" ? { line: headerRow.line } : {}),
+    });
   const format = options.format ?? smallestFormatFor({ row: maxRow, column: maxCol })!;
   const nameOf = (k: number) => wellName({ row: Math.floor(k / 48), column: k % 48 });
   if (!time) {
@@ -348,14 +389,24 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
     if (!sorted) pts.sort((a, b) => a.timeS - b.timeS);
     wells.set(nameOf(k), pts);
   }
-  return { ok: true, export: kineticExport("long-kinetic", ctx, format, wells, [...times].sort((a, b) => a - b)) };
+  return {
+    ok: true,
+    export: kineticExport(
+      "long-kinetic",
+      ctx,
+      format,
+      wells,
+      [...times].sort((a, b) => a - b),
+    ),
+  };
 }
 
 function lookUpWell(rawWell: string, format: PlateFormat): WellLookup {
   if (rawWell.trim() === "") return { error: "well is missing" };
   const pos = parseWellName(rawWell);
   if (!pos) return { error: `${quoteCell(rawWell.trim())} is not a well name` };
-  if (!fitsFormat(pos, format)) return { error: `${quoteCell(rawWell.trim())} is not a well of a ${format}-well plate` };
+  if (!fitsFormat(pos, format))
+    return { error: `${quoteCell(rawWell.trim())} is not a well of a ${format}-well plate` };
   return { name: wellName(pos), idx: wellIndex(pos, 1536), row: pos.row, column: pos.column };
 }
 
@@ -406,7 +457,14 @@ function findBlocks(rows: TableRow[]): GridBlock[] {
       if (t.kind === "time") timeS = t.seconds;
       else if (t.kind === "bad" && badTime === undefined) badTime = t.text;
     }
-    blocks.push({ headerIndex: r, labelCol, columns: head.n, rows: count, ...(timeS !== undefined ? { timeS } : {}), ...(badTime !== undefined ? { badTime } : {}) });
+    blocks.push({
+      headerIndex: r,
+      labelCol,
+      columns: head.n,
+      rows: count,
+      ...(timeS !== undefined ? { timeS } : {}),
+      ...(badTime !== undefined ? { badTime } : {}),
+    });
     prevEnd = r + count;
     r = prevEnd;
     if (blocks.length > MAX_READS) break;
@@ -421,19 +479,39 @@ function parseGrids(rows: TableRow[], ctx: Ctx, options: ParseExportOptions): Re
   const first = blocks[0]!;
   const firstHeader = rows[first.headerIndex]!;
   if (blocks.length > MAX_READS) {
-    issues.at(firstHeader, first.labelCol, undefined, `file has more than ${MAX_READS} plate grids (reads); the limit is ${MAX_READS}`);
+    issues.at(
+      firstHeader,
+      first.labelCol,
+      undefined,
+      `file has more than ${MAX_READS} plate grids (reads); the limit is ${MAX_READS}`,
+    );
     return { ok: false, issues: issues.list };
   }
   for (const b of blocks) {
     const hr = rows[b.headerIndex]!;
     const format = formatForGrid(b.rows, b.columns);
     if (format === undefined) {
-      issues.at(hr, b.labelCol, undefined, `plate grid has ${b.rows} rows × ${b.columns} columns; a plate has 8 × 12, 16 × 24 or 32 × 48`);
+      issues.at(
+        hr,
+        b.labelCol,
+        undefined,
+        `plate grid has ${b.rows} rows × ${b.columns} columns; a plate has 8 × 12, 16 × 24 or 32 × 48`,
+      );
     } else if (options.format !== undefined && format !== options.format) {
       const d = plateDimensions(options.format);
-      issues.at(hr, b.labelCol, undefined, `plate grid is ${b.rows} × ${b.columns} (${format}-well) but the plate map is ${options.format}-well (${d.rows} × ${d.columns})`);
+      issues.at(
+        hr,
+        b.labelCol,
+        undefined,
+        `plate grid is ${b.rows} × ${b.columns} (${format}-well) but the plate map is ${options.format}-well (${d.rows} × ${d.columns})`,
+      );
     } else if (b.rows !== first.rows || b.columns !== first.columns) {
-      issues.at(hr, b.labelCol, undefined, `plate grid is ${b.rows} × ${b.columns} but the first grid is ${first.rows} × ${first.columns}`);
+      issues.at(
+        hr,
+        b.labelCol,
+        undefined,
+        `plate grid is ${b.rows} × ${b.columns} but the first grid is ${first.rows} × ${first.columns}`,
+      );
     }
   }
   if (issues.list.length > 0) return { ok: false, issues: issues.list };
@@ -445,11 +523,22 @@ function parseGrids(rows: TableRow[], ctx: Ctx, options: ParseExportOptions): Re
       const hr = rows[b.headerIndex]!;
       if (b.timeS === undefined) {
         const hint = b.badTime !== undefined ? `${quoteCell(b.badTime)} is not a read time` : "no read time above it";
-        issues.at(hr, b.labelCol, undefined, `file has ${blocks.length} plate grids, and this one has ${hint}; write e.g. "Time (s): 30" on the line above each grid`);
+        issues.at(
+          hr,
+          b.labelCol,
+          undefined,
+          `file has ${blocks.length} plate grids, and this one has ${hint}; write e.g. "Time (s): 30" on the line above each grid`,
+        );
         continue;
       }
       const prev = seenTimes.get(b.timeS);
-      if (prev !== undefined) issues.at(hr, b.labelCol, undefined, `read time ${b.timeS} s appears twice (first at the grid on ${ctx.kind === "xlsx" ? "row" : "line"} ${prev})`);
+      if (prev !== undefined)
+        issues.at(
+          hr,
+          b.labelCol,
+          undefined,
+          `read time ${b.timeS} s appears twice (first at the grid on ${ctx.kind === "xlsx" ? "row" : "line"} ${prev})`,
+        );
       else seenTimes.set(b.timeS, hr.line);
     }
     if (issues.list.length > 0) return { ok: false, issues: issues.list };
@@ -492,7 +581,11 @@ function parseGrids(rows: TableRow[], ctx: Ctx, options: ParseExportOptions): Re
   }
   const wells = new Map<string, KineticPoint[]>();
   values.forEach((pts, i) => {
-    if (pts) wells.set(wellName({ row: Math.floor(i / d.columns), column: i % d.columns }), pts.sort((a, b) => a.timeS - b.timeS));
+    if (pts)
+      wells.set(
+        wellName({ row: Math.floor(i / d.columns), column: i % d.columns }),
+        pts.sort((a, b) => a.timeS - b.timeS),
+      );
   });
   if (wells.size === 0) return fail(ctx.fileName, "the plate grids have no values");
   const times = blocks.map((b) => b.timeS!).sort((a, b) => a - b);
@@ -512,7 +605,12 @@ function fmt(x: number): string {
   return Number(x.toPrecision(6)).toString();
 }
 
-function endpointExport(shape: EndpointExport["shape"], ctx: Ctx, format: PlateFormat, wells: Map<string, number>): EndpointExport {
+function endpointExport(
+  shape: EndpointExport["shape"],
+  ctx: Ctx,
+  format: PlateFormat,
+  wells: Map<string, number>,
+): EndpointExport {
   let min = Infinity;
   let max = -Infinity;
   for (const v of wells.values()) {
@@ -533,7 +631,13 @@ function endpointExport(shape: EndpointExport["shape"], ctx: Ctx, format: PlateF
   return { fileName: ctx.fileName, shape, format, reads: 1, wells, preview };
 }
 
-function kineticExport(shape: KineticExport["shape"], ctx: Ctx, format: PlateFormat, wells: Map<string, KineticPoint[]>, timesS: number[]): KineticExport {
+function kineticExport(
+  shape: KineticExport["shape"],
+  ctx: Ctx,
+  format: PlateFormat,
+  wells: Map<string, KineticPoint[]>,
+  timesS: number[],
+): KineticExport {
   let min = Infinity;
   let max = -Infinity;
   for (const pts of wells.values()) {

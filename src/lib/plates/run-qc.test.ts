@@ -23,14 +23,27 @@ function workedMap(swap = false): PlateMap {
 }
 
 function workedExport(extra: string[] = []): ReaderExport {
-  const lines = ["well,value", ...neutral.map((v, i) => `A${i + 1},${v}`), ...full.map((v, i) => `B${i + 1},${v}`), "C1,550", ...extra];
+  const lines = [
+    "well,value",
+    ...neutral.map((v, i) => `A${i + 1},${v}`),
+    ...full.map((v, i) => `B${i + 1},${v}`),
+    "C1,550",
+    ...extra,
+  ];
   const r = parseReaderExportText(lines.join("\n"), "worked.csv", { format: 96 });
   if (!r.ok) throw new Error(r.issues[0]!.text);
   return r.export;
 }
 
 function qcOf(readings: RunReading[], masked: string[] = [], direction: "falls" | "rises" = "falls") {
-  const wells: QcInputWell[] = readings.map((r) => ({ well: r.well, role: r.role, signal: r.signal, isEdge: r.isEdge, masked: masked.includes(r.well), rateLinear: r.rate ? !r.rate.curved : null }));
+  const wells: QcInputWell[] = readings.map((r) => ({
+    well: r.well,
+    role: r.role,
+    signal: r.signal,
+    isEdge: r.isEdge,
+    masked: masked.includes(r.well),
+    rateLinear: r.rate ? !r.rate.curved : null,
+  }));
   return computeRunQc(wells, { readout: "endpoint", direction, minZPrime: 0.5, maxCvPct: 20 });
 }
 
@@ -46,7 +59,7 @@ describe("QC of a run (science.md worked example)", () => {
     expect(qc.cvFullPct).toBeCloseTo(7.07, 2);
     expect(qc.verdict).toBe("pass");
     expect(inhibitionPct.get("C1")).toBeCloseTo(50, 10);
-    expect(inhibitionPct.get("A1")).toBeCloseTo(100 * 50 / 900, 10); // (1000 − 950)/(1000 − 100) · 100
+    expect(inhibitionPct.get("A1")).toBeCloseTo((100 * 50) / 900, 10); // (1000 − 950)/(1000 − 100) · 100
   });
 
   it("keeps readings of wells the map leaves empty but does not normalise them", () => {
@@ -85,7 +98,9 @@ describe("QC of a run (science.md worked example)", () => {
     if (!b.ok) throw new Error(b.issues[0]!.text);
     const { qc } = qcOf(b.readings, ["B1", "B2", "B3", "B4", "B5"]);
     expect(qc.verdict).toBe("fail");
-    expect(qc.reasons[0]).toBe("QC needs at least 2 unmasked wells of each control; there are 6 neutral and 1 full-inhibition");
+    expect(qc.reasons[0]).toBe(
+      "QC needs at least 2 unmasked wells of each control; there are 6 neutral and 1 full-inhibition",
+    );
   });
 
   it("refuses an export that misses a well the map uses, naming file and well", () => {
@@ -94,12 +109,17 @@ describe("QC of a run (science.md worked example)", () => {
     if (!r.ok) throw new Error("parse");
     const b = buildReadings(workedMap(), r.export);
     expect(b.ok).toBe(false);
-    if (!b.ok) expect(b.issues.map((i) => i.text)).toEqual(["short.csv, well C1: the plate map has a sample well here but the export has no reading for it"]);
+    if (!b.ok)
+      expect(b.issues.map((i) => i.text)).toEqual([
+        "short.csv, well C1: the plate map has a sample well here but the export has no reading for it",
+      ]);
   });
 });
 
 const dir = "fixtures/plates";
-const truth = JSON.parse(fs.readFileSync(`${dir}/truth.json`, "utf8")) as { good: { file: string; map: string; truth: Record<string, unknown> }[] };
+const truth = JSON.parse(fs.readFileSync(`${dir}/truth.json`, "utf8")) as {
+  good: { file: string; map: string; truth: Record<string, unknown> }[];
+};
 
 async function fixture(file: string, mapFile: string) {
   const mapText = fs.readFileSync(`${dir}/${mapFile}`, "utf8");
@@ -120,7 +140,10 @@ describe("fixture plates (INVENTED data)", () => {
     const f = b.readings.filter((r) => r.role === "full").map((r) => r.signal);
     const py = execFileSync(
       "python3",
-      ["-c", "import json,sys,numpy as np;d=json.load(sys.stdin);a=np.array(d[0]);b=np.array(d[1]);sa,sb=a.std(ddof=1),b.std(ddof=1);print(json.dumps([1-3*(sa+sb)/abs(a.mean()-b.mean()),100*sa/a.mean(),100*sb/b.mean()]))"],
+      [
+        "-c",
+        "import json,sys,numpy as np;d=json.load(sys.stdin);a=np.array(d[0]);b=np.array(d[1]);sa,sb=a.std(ddof=1),b.std(ddof=1);print(json.dumps([1-3*(sa+sb)/abs(a.mean()-b.mean()),100*sa/a.mean(),100*sb/b.mean()]))",
+      ],
       { input: JSON.stringify([n, f]) },
     ).toString();
     const [z, cvn, cvf] = JSON.parse(py) as number[];
@@ -141,11 +164,21 @@ describe("fixture plates (INVENTED data)", () => {
 
   it("initial rates of mechanism-96 follow the simulator's rates (consistency, invented data)", async () => {
     const b = await fixture("mechanism-96.long-kinetic.csv", "mechanism-96.map.csv");
-    const t = truth.good.find((g) => g.file === "mechanism-96.long-kinetic.csv")!.truth.initialRatePerS as Record<string, number>;
+    const t = truth.good.find((g) => g.file === "mechanism-96.long-kinetic.csv")!.truth.initialRatePerS as Record<
+      string,
+      number
+    >;
     const samples = b.readings.filter((r) => r.role === "sample");
     expect(samples.length).toBe(64);
     for (const r of samples) expect(Math.abs(r.signal - t[r.well]!)).toBeLessThan(0.1 * Math.abs(t[r.well]!) + 0.02);
-    const wells: QcInputWell[] = b.readings.map((r) => ({ well: r.well, role: r.role, signal: r.signal, isEdge: r.isEdge, masked: false, rateLinear: r.rate ? !r.rate.curved : null }));
+    const wells: QcInputWell[] = b.readings.map((r) => ({
+      well: r.well,
+      role: r.role,
+      signal: r.signal,
+      isEdge: r.isEdge,
+      masked: false,
+      rateLinear: r.rate ? !r.rate.curved : null,
+    }));
     const { qc } = computeRunQc(wells, { readout: "kinetic", direction: "falls", minZPrime: 0.5, maxCvPct: 20 });
     expect(qc.full!.cvApplies).toBe(false); // no-enzyme rate ≈ 0
     expect(qc.signalUnit).toBe("signal units/s");

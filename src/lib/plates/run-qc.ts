@@ -44,7 +44,9 @@ export interface RunReading {
   readonly signal: number;
 }
 
-export type BuildReadingsResult = { readonly ok: true; readonly readout: Readout; readonly readings: RunReading[] } | { readonly ok: false; readonly issues: PlateIssue[] };
+export type BuildReadingsResult =
+  | { readonly ok: true; readonly readout: Readout; readonly readings: RunReading[] }
+  | { readonly ok: false; readonly issues: PlateIssue[] };
 
 /** Minimum reads per well for an initial rate (the kinetics engine's default window). */
 export const MIN_KINETIC_READS = 4;
@@ -59,10 +61,19 @@ export function buildReadings(map: PlateMap, exp: ReaderExport): BuildReadingsRe
     if (issues.length < MAX_ISSUES) issues.push(issue({ file: exp.fileName, well }, message));
   };
   if (exp.format !== map.format) {
-    return { ok: false, issues: [issue({ file: exp.fileName }, `the export is a ${exp.format}-well plate but the plate map is ${map.format}-well`)] };
+    return {
+      ok: false,
+      issues: [
+        issue(
+          { file: exp.fileName },
+          `the export is a ${exp.format}-well plate but the plate map is ${map.format}-well`,
+        ),
+      ],
+    };
   }
   for (const w of map.wells) {
-    if (w.role !== "empty" && !exp.wells.has(w.well)) add(w.well, `the plate map has a ${roleWord(w.role)} well here but the export has no reading for it`);
+    if (w.role !== "empty" && !exp.wells.has(w.well))
+      add(w.well, `the plate map has a ${roleWord(w.role)} well here but the export has no reading for it`);
   }
   if (issues.length > 0) return { ok: false, issues };
   const readings: RunReading[] = [];
@@ -82,7 +93,8 @@ export function buildReadings(map: PlateMap, exp: ReaderExport): BuildReadingsRe
     };
   };
   if (!isKinetic(exp)) {
-    for (const [well, value] of exp.wells) readings.push({ ...baseOf(well), value, rate: null, series: null, signal: value });
+    for (const [well, value] of exp.wells)
+      readings.push({ ...baseOf(well), value, rate: null, series: null, signal: value });
   } else {
     for (const [well, pts] of exp.wells) {
       const timesS = pts.map((p) => p.timeS);
@@ -101,7 +113,14 @@ export function buildReadings(map: PlateMap, exp: ReaderExport): BuildReadingsRe
       readings.push({
         ...baseOf(well),
         value: null,
-        rate: { slope: r.slope, rSquared: r.rSquared, curved: r.curved, progress: r.progress, startTime: r.startTime, endTime: r.endTime },
+        rate: {
+          slope: r.slope,
+          rSquared: r.rSquared,
+          curved: r.curved,
+          progress: r.progress,
+          startTime: r.startTime,
+          endTime: r.endTime,
+        },
         series: { timesS, values },
         signal: r.slope,
       });
@@ -154,7 +173,11 @@ export interface RunQc {
   readonly signalWindow: number | null;
   readonly cvNeutralPct: number | null;
   readonly cvFullPct: number | null;
-  readonly direction: { readonly expected: SignalDirection; readonly observed: SignalDirection | null; readonly ok: boolean };
+  readonly direction: {
+    readonly expected: SignalDirection;
+    readonly observed: SignalDirection | null;
+    readonly ok: boolean;
+  };
   readonly edge: EdgeCheck | null;
   readonly thresholds: { readonly minZPrime: number; readonly maxCvPct: number };
   readonly verdict: "pass" | "fail";
@@ -185,7 +208,14 @@ export interface QcOptions {
 export const EDGE_FLAG_PCT = 10;
 
 function figures(s: ControlSummary): ControlFigures {
-  return { n: s.n, mean: s.mean, sd: s.sd, cvPct: s.cvPercent, median: s.median, cvApplies: s.sd === null ? true : Math.abs(s.mean) > 3 * s.sd };
+  return {
+    n: s.n,
+    mean: s.mean,
+    sd: s.sd,
+    cvPct: s.cvPercent,
+    median: s.median,
+    cvApplies: s.sd === null ? true : Math.abs(s.mean) > 3 * s.sd,
+  };
 }
 
 function medianOf(xs: number[]): number {
@@ -203,7 +233,15 @@ function edgeCheck(wells: readonly QcInputWell[]): EdgeCheck | null {
     const innerMedian = medianOf(inner);
     if (innerMedian === 0) return null;
     const differencePct = (100 * (outerMedian - innerMedian)) / Math.abs(innerMedian);
-    return { basis, outerWells: outer.length, innerWells: inner.length, outerMedian, innerMedian, differencePct, flagged: Math.abs(differencePct) > EDGE_FLAG_PCT };
+    return {
+      basis,
+      outerWells: outer.length,
+      innerWells: inner.length,
+      outerMedian,
+      innerMedian,
+      differencePct,
+      flagged: Math.abs(differencePct) > EDGE_FLAG_PCT,
+    };
   };
   return try_("neutral", neutral) ?? try_("sample", pick("sample"));
 }
@@ -214,8 +252,12 @@ const fmt = (x: number, d = 2) => x.toFixed(d);
  * Plate QC of a run and % inhibition of each well (null where it cannot be computed: no
  * signal, an empty well, or controls that do not define a span).
  */
-export function computeRunQc(wells: readonly QcInputWell[], o: QcOptions): { qc: RunQc; inhibitionPct: Map<string, number | null> } {
-  const live = (role: WellRole) => wells.filter((w) => w.role === role && !w.masked && w.signal !== null).map((w) => w.signal!);
+export function computeRunQc(
+  wells: readonly QcInputWell[],
+  o: QcOptions,
+): { qc: RunQc; inhibitionPct: Map<string, number | null> } {
+  const live = (role: WellRole) =>
+    wells.filter((w) => w.role === role && !w.masked && w.signal !== null).map((w) => w.signal!);
   const neutralValues = live("neutral");
   const fullValues = live("full");
   const reasons: string[] = [];
@@ -227,7 +269,9 @@ export function computeRunQc(wells: readonly QcInputWell[], o: QcOptions): { qc:
   let signalToBackground: number | null = null;
   let signalWindow: number | null = null;
   if (neutralValues.length < 2 || fullValues.length < 2) {
-    reasons.push(`QC needs at least 2 unmasked wells of each control; there are ${neutralValues.length} neutral and ${fullValues.length} full-inhibition`);
+    reasons.push(
+      `QC needs at least 2 unmasked wells of each control; there are ${neutralValues.length} neutral and ${fullValues.length} full-inhibition`,
+    );
     if (neutralValues.length > 0) neutral = figures(summarizeControls(neutralValues));
     if (fullValues.length > 0) full = figures(summarizeControls(fullValues));
   } else {
@@ -238,16 +282,21 @@ export function computeRunQc(wells: readonly QcInputWell[], o: QcOptions): { qc:
     robustZPrime = q.robustZPrime;
     signalToBackground = q.signalToBackground;
     signalWindow = q.signalWindow;
-    if (zPrime === null) reasons.push("the neutral and full-inhibition controls have the same mean, so Z′ is undefined");
+    if (zPrime === null)
+      reasons.push("the neutral and full-inhibition controls have the same mean, so Z′ is undefined");
     else if (zPrime < o.minZPrime) reasons.push(`Z′ ${fmt(zPrime)} is below the campaign's minimum of ${o.minZPrime}`);
     for (const [label, f] of [
       ["neutral", neutral],
       ["full-inhibition", full],
     ] as const) {
       if (!f.cvApplies) {
-        warnings.push(`the ${label} controls' mean is within 3 SD of zero, so their CV is not held to the ${o.maxCvPct} % limit`);
+        warnings.push(
+          `the ${label} controls' mean is within 3 SD of zero, so their CV is not held to the ${o.maxCvPct} % limit`,
+        );
       } else if (f.cvPct === null || f.cvPct > o.maxCvPct) {
-        reasons.push(`CV of the ${label} controls ${f.cvPct === null ? "is undefined" : `${fmt(f.cvPct, 1)} %`} is above the campaign's maximum of ${o.maxCvPct} %`);
+        reasons.push(
+          `CV of the ${label} controls ${f.cvPct === null ? "is undefined" : `${fmt(f.cvPct, 1)} %`} is above the campaign's maximum of ${o.maxCvPct} %`,
+        );
       }
     }
   }
@@ -262,14 +311,26 @@ export function computeRunQc(wells: readonly QcInputWell[], o: QcOptions): { qc:
     );
   }
   const edge = edgeCheck(wells);
-  if (edge?.flagged) warnings.push(`edge effect: the outer ring's ${edge.basis} wells read ${fmt(edge.differencePct, 1)} % against the inner ones (median)`);
-  const nonLinearWells = o.readout === "kinetic" ? wells.filter((w) => w.role !== "empty" && w.rateLinear === false).length : 0;
-  if (nonLinearWells > 0) warnings.push(`${nonLinearWells} wells have a curved progress curve; their initial rate uses the early linear window only`);
+  if (edge?.flagged)
+    warnings.push(
+      `edge effect: the outer ring's ${edge.basis} wells read ${fmt(edge.differencePct, 1)} % against the inner ones (median)`,
+    );
+  const nonLinearWells =
+    o.readout === "kinetic" ? wells.filter((w) => w.role !== "empty" && w.rateLinear === false).length : 0;
+  if (nonLinearWells > 0)
+    warnings.push(
+      `${nonLinearWells} wells have a curved progress curve; their initial rate uses the early linear window only`,
+    );
 
   const inhibitionPct = new Map<string, number | null>();
   const canNormalise = neutral !== null && full !== null && neutral.mean !== full.mean;
   for (const w of wells) {
-    inhibitionPct.set(w.well, canNormalise && w.role !== "empty" && w.signal !== null ? percentInhibition(w.signal, neutral!.mean, full!.mean) : null);
+    inhibitionPct.set(
+      w.well,
+      canNormalise && w.role !== "empty" && w.signal !== null
+        ? percentInhibition(w.signal, neutral!.mean, full!.mean)
+        : null,
+    );
   }
   const qc: RunQc = {
     readout: o.readout,

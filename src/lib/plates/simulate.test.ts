@@ -77,7 +77,9 @@ describe("four-parameter logistic", () => {
   it("reproduces the published DNase run 1 fit (RSS 0.0047073)", () => {
     // R datasets::DNase run 1 (conc as in R: 0.048828125, then 0.1953125 … 12.5, duplicates).
     const conc = [0.048828125, 0.1953125, 0.390625, 0.78125, 1.5625, 3.125, 6.25, 12.5].flatMap((c) => [c, c]);
-    const density = [0.017, 0.018, 0.121, 0.124, 0.206, 0.215, 0.377, 0.374, 0.614, 0.609, 1.019, 1.001, 1.334, 1.364, 1.73, 1.71];
+    const density = [
+      0.017, 0.018, 0.121, 0.124, 0.206, 0.215, 0.377, 0.374, 0.614, 0.609, 1.019, 1.001, 1.334, 1.364, 1.73, 1.71,
+    ];
     // A rising curve is the same model with a negative slope in this form.
     const p = { bottom: -0.0078971, top: 2.37724, ic50: 4.515, hill: -0.94111 };
     const rss = conc.reduce((acc, c, k) => acc + (density[k]! - fourParameterLogistic(c, p)) ** 2, 0);
@@ -131,7 +133,10 @@ describe("seeded noise", () => {
     const draws = Array.from({ length: 5000 }, () => a());
     expect(Array.from({ length: 5000 }, () => b())).toEqual(draws);
     expect(seededUniform(1)()).not.toBe(seededUniform(2)());
-    const p = python("import json,sys\nfrom scipy.stats import kstest\nprint(json.dumps(kstest(json.load(sys.stdin),'norm').pvalue))", draws) as number;
+    const p = python(
+      "import json,sys\nfrom scipy.stats import kstest\nprint(json.dumps(kstest(json.load(sys.stdin),'norm').pvalue))",
+      draws,
+    ) as number;
     expect(p).toBeGreaterThan(0.01);
     expect(ss.mean(draws)).toBeCloseTo(0, 1);
     expect(ss.sampleStandardDeviation(draws)).toBeCloseTo(1, 1);
@@ -151,16 +156,33 @@ describe("simulated plates", () => {
     const f = pick("full");
     expect(ss.mean(n)).toBeGreaterThan(1000 - 3 * (20 / Math.sqrt(32)));
     expect(ss.mean(n)).toBeLessThan(1000 + 3 * (20 / Math.sqrt(32)));
-    const z = 1 - (3 * (ss.sampleStandardDeviation(n) + ss.sampleStandardDeviation(f))) / Math.abs(ss.mean(n) - ss.mean(f));
+    const z =
+      1 - (3 * (ss.sampleStandardDeviation(n) + ss.sampleStandardDeviation(f))) / Math.abs(ss.mean(n) - ss.mean(f));
     expect(expectedZPrime(assay)).toBeCloseTo(1 - (3 * 40) / 900, 12);
     expect(Math.abs(z - expectedZPrime(assay))).toBeLessThan(0.05);
   });
 
   it("kinetic wells start at the true initial rate (slope of the early reads)", () => {
     const m = assignWells(map, ["C5"], { role: "sample", compound: "INH-000001", concentrationUm: 1, substrateUm: 40 });
-    const compounds = new Map<string, CompoundTruth>([["INH-000001", { id: "INH-000001", kind: "mechanism", model: "competitive", kicUm: 1 }]]);
+    const compounds = new Map<string, CompoundTruth>([
+      ["INH-000001", { id: "INH-000001", kind: "mechanism", model: "competitive", kicUm: 1 }],
+    ]);
     const timesS = Array.from({ length: 11 }, (_, k) => k * 6);
-    const sim = simulateKineticPlate(m, compounds, { enzyme: { vmaxUmPerS: 0.002, kmUm: 20 }, defaultSubstrateUm: 20, timesS, gainPerUm: 500, baseline: 200, noiseSd: 0, depletion: true, decimals: 6 }, 3);
+    const sim = simulateKineticPlate(
+      m,
+      compounds,
+      {
+        enzyme: { vmaxUmPerS: 0.002, kmUm: 20 },
+        defaultSubstrateUm: 20,
+        timesS,
+        gainPerUm: 500,
+        baseline: 200,
+        noiseSd: 0,
+        depletion: true,
+        decimals: 6,
+      },
+      3,
+    );
     const truth = sim.truth.get("C5")!;
     expect(truth.initialRatePerS).toBeCloseTo(500 * ((0.002 * 40) / (20 * 2 + 40)), 12);
     const fit = ss.linearRegression(timesS.map((t, k) => [t, sim.wells.get("C5")![k]!]));

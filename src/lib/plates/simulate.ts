@@ -64,7 +64,13 @@ export interface EnzymeParameters {
  * 1/Kiu = 0, uncompetitive 1/Kic = 0, noncompetitive Kic = Kiu (Segel 1975; Cornish-Bowden
  * [mem]; see science.md). Pass Infinity (or omit) for an absent constant.
  */
-export function steadyStateRate(enzyme: EnzymeParameters, sUm: number, iUm: number, kicUm = Infinity, kiuUm = Infinity): number {
+export function steadyStateRate(
+  enzyme: EnzymeParameters,
+  sUm: number,
+  iUm: number,
+  kicUm = Infinity,
+  kiuUm = Infinity,
+): number {
   const a = Number.isFinite(kicUm) ? iUm / kicUm : 0;
   const b = Number.isFinite(kiuUm) ? iUm / kiuUm : 0;
   return (enzyme.vmaxUmPerS * sUm) / (enzyme.kmUm * (1 + a) + sUm * (1 + b));
@@ -87,7 +93,10 @@ export function morrisonActivity(enzymeUm: number, iUm: number, kiAppUm: number)
  * Four-parameter logistic y = Bottom + (Top − Bottom)/(1 + 10^(h·(log10 x − log10 IC50))) — the
  * form in science.md, the same model as R's SSfpl.
  */
-export function fourParameterLogistic(x: number, p: { top: number; bottom: number; ic50: number; hill: number }): number {
+export function fourParameterLogistic(
+  x: number,
+  p: { top: number; bottom: number; ic50: number; hill: number },
+): number {
   if (x <= 0) return p.hill > 0 ? p.top : p.bottom;
   return p.bottom + (p.top - p.bottom) / (1 + 10 ** (p.hill * (Math.log10(x) - Math.log10(p.ic50))));
 }
@@ -98,11 +107,23 @@ export type CompoundTruth =
   /** logistic dose-response from 100 % to 0 % activity */
   | { readonly id: string; readonly kind: "logistic"; readonly ic50Um: number; readonly hill: number }
   /** partial inhibitor: activity levels off at residualActivity (0–1) instead of 0 */
-  | { readonly id: string; readonly kind: "partial"; readonly ic50Um: number; readonly hill: number; readonly residualActivity: number }
+  | {
+      readonly id: string;
+      readonly kind: "partial";
+      readonly ic50Um: number;
+      readonly hill: number;
+      readonly residualActivity: number;
+    }
   /** tight binder (Morrison) at total enzyme enzymeUm; IC50 = kiAppUm + enzymeUm/2 */
   | { readonly id: string; readonly kind: "tight-binding"; readonly kiAppUm: number; readonly enzymeUm: number }
   /** steady-state mechanism; activity at substrate S follows the rate law */
-  | { readonly id: string; readonly kind: "mechanism"; readonly model: MechanismModel; readonly kicUm?: number; readonly kiuUm?: number };
+  | {
+      readonly id: string;
+      readonly kind: "mechanism";
+      readonly model: MechanismModel;
+      readonly kicUm?: number;
+      readonly kiuUm?: number;
+    };
 
 /** Kic and Kiu of a mechanism compound, with Infinity for the absent one. */
 export function mechanismConstants(c: Extract<CompoundTruth, { kind: "mechanism" }>): { kic: number; kiu: number } {
@@ -122,7 +143,12 @@ export function mechanismConstants(c: Extract<CompoundTruth, { kind: "mechanism"
  * Fraction of uninhibited activity (v/v0, 0–1) of a compound at inhibitor concentration I and,
  * for mechanism compounds, substrate S with the enzyme's Km.
  */
-export function fractionalActivity(c: CompoundTruth, iUm: number, sUm = 1, enzyme: EnzymeParameters = { vmaxUmPerS: 1, kmUm: 1 }): number {
+export function fractionalActivity(
+  c: CompoundTruth,
+  iUm: number,
+  sUm = 1,
+  enzyme: EnzymeParameters = { vmaxUmPerS: 1, kmUm: 1 },
+): number {
   if (iUm <= 0) return 1;
   switch (c.kind) {
     case "inactive":
@@ -235,7 +261,12 @@ function roundTo(x: number, decimals: number): number {
   return Number(x.toFixed(decimals));
 }
 
-function activityOf(w: PlateMapWell, compounds: ReadonlyMap<string, CompoundTruth>, sUm: number, enzyme: EnzymeParameters): number {
+function activityOf(
+  w: PlateMapWell,
+  compounds: ReadonlyMap<string, CompoundTruth>,
+  sUm: number,
+  enzyme: EnzymeParameters,
+): number {
   if (w.role !== "sample") return 1;
   const c = w.compound ? compounds.get(w.compound) : undefined;
   if (!c) return 1;
@@ -246,14 +277,22 @@ function activityOf(w: PlateMapWell, compounds: ReadonlyMap<string, CompoundTrut
  * One endpoint read of a plate: every well gets a value (empty wells read as background, as a
  * reader reads the whole plate). Returns canonical well → value, in plate order.
  */
-export function simulateEndpointPlate(map: PlateMap, compounds: ReadonlyMap<string, CompoundTruth>, assay: EndpointAssay, seed: number): Map<string, number> {
+export function simulateEndpointPlate(
+  map: PlateMap,
+  compounds: ReadonlyMap<string, CompoundTruth>,
+  assay: EndpointAssay,
+  seed: number,
+): Map<string, number> {
   const z = seededNormal(seed);
   const enzyme = assay.enzyme ?? { vmaxUmPerS: 1, kmUm: 1 };
   const out = new Map<string, number>();
   for (const w of map.wells) {
     let expected: number;
     if (w.role === "full" || w.role === "blank" || w.role === "empty") expected = assay.fullSignal;
-    else expected = assay.fullSignal + (assay.neutralSignal - assay.fullSignal) * activityOf(w, compounds, assay.substrateUm ?? 1, enzyme);
+    else
+      expected =
+        assay.fullSignal +
+        (assay.neutralSignal - assay.fullSignal) * activityOf(w, compounds, assay.substrateUm ?? 1, enzyme);
     const pos = parseWellName(w.well)!;
     if (assay.edgeLossPct && isEdgeWell(pos, map.format)) expected *= 1 - assay.edgeLossPct / 100;
     out.set(w.well, roundTo(noisy(expected, assay.noiseSd, assay.noiseCvPct, z), assay.decimals));
@@ -309,7 +348,16 @@ export function simulateKineticPlate(
       let activity = 1;
       if (c?.kind === "mechanism") ({ kic, kiu } = mechanismConstants(c));
       else if (c) activity = fractionalActivity(c, iUm);
-      product = productCurve({ enzyme: assay.enzyme, s0Um: sUm, iUm, kicUm: kic, kiuUm: kiu, activity, timesS: assay.timesS, depletion: assay.depletion });
+      product = productCurve({
+        enzyme: assay.enzyme,
+        s0Um: sUm,
+        iUm,
+        kicUm: kic,
+        kiuUm: kiu,
+        activity,
+        timesS: assay.timesS,
+        depletion: assay.depletion,
+      });
       v0 = activity * steadyStateRate(assay.enzyme, sUm, iUm, kic, kiu);
     }
     wells.set(
@@ -326,4 +374,3 @@ export function expectedZPrime(assay: EndpointAssay): number {
   const sd = (mu: number) => Math.sqrt(assay.noiseSd ** 2 + ((assay.noiseCvPct ?? 0) / 100) ** 2 * mu * mu);
   return 1 - (3 * (sd(assay.neutralSignal) + sd(assay.fullSignal))) / Math.abs(assay.neutralSignal - assay.fullSignal);
 }
-

@@ -34,7 +34,8 @@ export function decodeText(bytes: Uint8Array): string {
  */
 export function looksBinary(bytes: Uint8Array): boolean {
   const n = Math.min(bytes.length, 8192);
-  const utf16 = bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff));
+  const utf16 =
+    bytes.length >= 2 && ((bytes[0] === 0xff && bytes[1] === 0xfe) || (bytes[0] === 0xfe && bytes[1] === 0xff));
   if (utf16) return false;
   let odd = 0;
   for (let i = 0; i < n; i++) {

@@ -88,7 +88,8 @@ function cellText(v: unknown): string {
     const o = v as Record<string, unknown>;
     if (typeof o.formula === "string") return "=" + o.formula;
     if (typeof o.sharedFormula === "string") return "=" + o.sharedFormula;
-    if (Array.isArray(o.richText)) return o.richText.map((t) => (typeof t === "object" && t && "text" in t ? String(t.text) : "")).join("");
+    if (Array.isArray(o.richText))
+      return o.richText.map((t) => (typeof t === "object" && t && "text" in t ? String(t.text) : "")).join("");
     if (typeof o.text === "string") return o.text;
     if (typeof o.error === "string") return o.error;
   }
@@ -103,20 +104,29 @@ export async function readWorkbookRows(bytes: Uint8Array): Promise<WorkbookRows>
   const declared = declaredUncompressedSize(bytes);
   if (declared === undefined) return { ok: false, message: "file is not a readable XLSX workbook (damaged zip)" };
   if (declared > MAX_XLSX_UNCOMPRESSED_BYTES) {
-    return { ok: false, message: `workbook unpacks to more than ${MAX_XLSX_UNCOMPRESSED_BYTES / 1024 / 1024} MB; the limit guards against zip bombs` };
+    return {
+      ok: false,
+      message: `workbook unpacks to more than ${MAX_XLSX_UNCOMPRESSED_BYTES / 1024 / 1024} MB; the limit guards against zip bombs`,
+    };
   }
   const wb = new ExcelJS.Workbook();
   try {
     // exceljs takes an ArrayBuffer; slice() gives one that holds exactly these bytes.
-    await wb.xlsx.load(bytes.slice().buffer, { ignoreNodes: ["dataValidations", "conditionalFormatting", "extLst", "drawing", "legacyDrawing"] });
+    await wb.xlsx.load(bytes.slice().buffer, {
+      ignoreNodes: ["dataValidations", "conditionalFormatting", "extLst", "drawing", "legacyDrawing"],
+    });
   } catch {
     return { ok: false, message: "file is not a readable XLSX workbook" };
   }
   for (const ws of wb.worksheets) {
     if (ws.actualRowCount === 0) continue;
-    if (ws.rowCount > MAX_XLSX_ROWS) return { ok: false, message: `worksheet "${ws.name}" has ${ws.rowCount} rows; the limit is ${MAX_XLSX_ROWS}` };
+    if (ws.rowCount > MAX_XLSX_ROWS)
+      return { ok: false, message: `worksheet "${ws.name}" has ${ws.rowCount} rows; the limit is ${MAX_XLSX_ROWS}` };
     if (ws.columnCount > MAX_XLSX_COLUMNS) {
-      return { ok: false, message: `worksheet "${ws.name}" has ${ws.columnCount} columns; the limit is ${MAX_XLSX_COLUMNS}` };
+      return {
+        ok: false,
+        message: `worksheet "${ws.name}" has ${ws.columnCount} columns; the limit is ${MAX_XLSX_COLUMNS}`,
+      };
     }
     const rows: TableRow[] = [];
     ws.eachRow({ includeEmpty: false }, (row, rowNumber) => {

@@ -36,7 +36,10 @@ export type CampaignAccess = {
 const campaignAccess = db
   .select({ campaign: campaigns, role: memberships.role })
   .from(campaigns)
-  .leftJoin(memberships, and(eq(memberships.campaignId, campaigns.id), eq(memberships.userId, sql.placeholder("userId"))))
+  .leftJoin(
+    memberships,
+    and(eq(memberships.campaignId, campaigns.id), eq(memberships.userId, sql.placeholder("userId"))),
+  )
   .where(eq(campaigns.id, sql.placeholder("campaignId")))
   .limit(1)
   .prepare("campaign_access");

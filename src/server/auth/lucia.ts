@@ -18,7 +18,14 @@ import type { GlobalRole } from "@/lib/roles";
  */
 class Adapter extends DrizzlePostgreSQLAdapter {
   private readonly sessionAndUser = db
-    .select({ id: sessions.id, userId: sessions.userId, expiresAt: sessions.expiresAt, email: users.email, name: users.name, globalRole: users.globalRole })
+    .select({
+      id: sessions.id,
+      userId: sessions.userId,
+      expiresAt: sessions.expiresAt,
+      email: users.email,
+      name: users.name,
+      globalRole: users.globalRole,
+    })
     .from(sessions)
     .innerJoin(users, eq(sessions.userId, users.id))
     .where(eq(sessions.id, sql.placeholder("id")))

@@ -28,7 +28,10 @@ export const getCurrentSession = cache(async (): Promise<CurrentSession> => {
     }
   } catch {}
   if (!session || !user) return { user: null, sessionId: null };
-  return { user: { id: user.id, email: user.email, name: user.name, globalRole: user.globalRole }, sessionId: session.id };
+  return {
+    user: { id: user.id, email: user.email, name: user.name, globalRole: user.globalRole },
+    sessionId: session.id,
+  };
 });
 
 export async function startSession(userId: string): Promise<void> {

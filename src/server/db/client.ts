@@ -5,7 +5,10 @@ import { env } from "@/env";
 import * as schema from "./schema";
 
 function connect() {
-  if (!env.DATABASE_URL) throw new Error("DATABASE_URL is not set: start the app with `npm start`, or point DATABASE_URL at a PostgreSQL server.");
+  if (!env.DATABASE_URL)
+    throw new Error(
+      "DATABASE_URL is not set: start the app with `npm start`, or point DATABASE_URL at a PostgreSQL server.",
+    );
   const client = postgres(env.DATABASE_URL, { onnotice: () => {}, max: 10, idle_timeout: 30 });
   return { client, db: drizzle(client, { schema }) };
 }

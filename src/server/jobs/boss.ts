@@ -17,7 +17,13 @@ let starting: Promise<PgBoss> | null = null;
 export function boss(): Promise<PgBoss> {
   starting ??= (async () => {
     if (!env.DATABASE_URL) throw new Error("DATABASE_URL is not set.");
-    const b = new PgBoss({ connectionString: env.DATABASE_URL, schema: "pgboss", supervise: false, schedule: false, max: 2 });
+    const b = new PgBoss({
+      connectionString: env.DATABASE_URL,
+      schema: "pgboss",
+      supervise: false,
+      schedule: false,
+      max: 2,
+    });
     b.on("error", (e) => console.error("[jobs]", e));
     await b.start();
     await b.createQueue(QUEUES.analysis).catch(() => {});

@@ -9,11 +9,28 @@ export type DigestData = {
   week: string;
   compoundsRegistered: { registryId: string; name: string | null }[];
   compoundsRegisteredTotal: number;
-  runs: { total: number; failedQc: number; accepted: number; failed: { id: string; fileName: string; zPrime: number | null; reason: string | null }[] };
+  runs: {
+    total: number;
+    failedQc: number;
+    accepted: number;
+    failed: { id: string; fileName: string; zPrime: number | null; reason: string | null }[];
+  };
   newHits: { compoundId: string; pctInhibition: number | null }[];
-  mechanismCalls: { compoundId: string; mechanism: string | null; label: string | null; kiUm: number | null; experimentId: string }[];
+  mechanismCalls: {
+    compoundId: string;
+    mechanism: string | null;
+    label: string | null;
+    kiUm: number | null;
+    experimentId: string;
+  }[];
   triage: { compoundId: string; action: string; by: string | null; at: Date; detail: string }[];
-  topTen: { compoundId: string; mechanism: string | null; kiUm: number | null; ic50Um: number | null; flagged: boolean }[];
+  topTen: {
+    compoundId: string;
+    mechanism: string | null;
+    kiUm: number | null;
+    ic50Um: number | null;
+    flagged: boolean;
+  }[];
 };
 
 const c = { ink: "#1d2630", muted: "#66737f", rule: "#e3e0d8", accent: "#0f766e", paper: "#fbfaf7", warn: "#a16207" };
@@ -23,7 +40,15 @@ const row = { fontSize: "13px", color: c.ink, margin: "2px 0" } as const;
 const fmtDate = (d: Date) => d.toISOString().slice(0, 10);
 
 /** The weekly digest: calm, one column, every figure with its unit, every item linked back. */
-export function DigestEmail({ d, recipientName, optOutUrl }: { d: DigestData; recipientName: string; optOutUrl: string }) {
+export function DigestEmail({
+  d,
+  recipientName,
+  optOutUrl,
+}: {
+  d: DigestData;
+  recipientName: string;
+  optOutUrl: string;
+}) {
   const base = `${d.appUrl}/campaigns/${d.campaign.id}`;
   return (
     <Html lang="en">
@@ -31,8 +56,23 @@ export function DigestEmail({ d, recipientName, optOutUrl }: { d: DigestData; re
       <Preview>
         {`${d.campaign.name}: ${d.runs.total} plate runs, ${d.newHits.length} new hits, ${d.mechanismCalls.length} mechanism calls this week`}
       </Preview>
-      <Body style={{ backgroundColor: c.paper, fontFamily: "Inter, Helvetica, Arial, sans-serif", margin: 0, padding: "16px 0" }}>
-        <Container style={{ backgroundColor: "#ffffff", border: `1px solid ${c.rule}`, borderRadius: "6px", padding: "20px 24px", maxWidth: "620px" }}>
+      <Body
+        style={{
+          backgroundColor: c.paper,
+          fontFamily: "Inter, Helvetica, Arial, sans-serif",
+          margin: 0,
+          padding: "16px 0",
+        }}
+      >
+        <Container
+          style={{
+            backgroundColor: "#ffffff",
+            border: `1px solid ${c.rule}`,
+            borderRadius: "6px",
+            padding: "20px 24px",
+            maxWidth: "620px",
+          }}
+        >
           <Text style={{ ...small, color: c.accent, fontWeight: 600 }}>Inhibitrack · weekly digest</Text>
           <Heading as="h1" style={{ fontSize: "18px", margin: "4px 0 2px", color: c.ink }}>
             {d.campaign.name}
@@ -124,13 +164,16 @@ export function DigestEmail({ d, recipientName, optOutUrl }: { d: DigestData; re
           </Heading>
           <Text style={row}>
             {d.compoundsRegisteredTotal} compounds registered this week
-            {d.compoundsRegistered.length ? `: ${d.compoundsRegistered.map((x) => x.registryId).join(", ")}${d.compoundsRegisteredTotal > d.compoundsRegistered.length ? ", …" : ""}` : "."}
+            {d.compoundsRegistered.length
+              ? `: ${d.compoundsRegistered.map((x) => x.registryId).join(", ")}${d.compoundsRegisteredTotal > d.compoundsRegistered.length ? ", …" : ""}`
+              : "."}
           </Text>
 
           <Hr style={{ borderColor: c.rule, marginTop: "20px" }} />
           <Section>
             <Text style={small}>
-              Research use only: potency and mechanism calls depend on assay conditions and must be reviewed by a qualified scientist before decisions.
+              Research use only: potency and mechanism calls depend on assay conditions and must be reviewed by a
+              qualified scientist before decisions.
             </Text>
             <Text style={small}>
               You get this because you are a member of {d.campaign.name}.{" "}

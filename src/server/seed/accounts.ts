@@ -37,7 +37,8 @@ export async function seedAccounts(db: Db) {
       kmUnit: "µM",
       enzymeConcValue: 10,
       enzymeConcUnit: "nM",
-      assayNotes: "Invented demo campaign. 384-well, 20 µL, 30 min at 25 °C, fluorescence ex 360 / em 460 nm. Neutral control: enzyme + substrate + 1 % DMSO; full-inhibition control: no enzyme.",
+      assayNotes:
+        "Invented demo campaign. 384-well, 20 µL, 30 min at 25 °C, fluorescence ex 360 / em 460 nm. Neutral control: enzyme + substrate + 1 % DMSO; full-inhibition control: no enzyme.",
       createdBy: ids["admin@example.org"],
     })
     .returning();
@@ -53,19 +54,41 @@ export async function seedAccounts(db: Db) {
       createdBy: ids["admin@example.org"],
     })
     .returning();
-  const m = (c: string, e: string, role: "lead" | "chemist" | "assay" | "viewer") => ({ campaignId: c, userId: ids[e]!, role });
-  await db.insert(memberships).values([
-    m(main!.id, "lead@example.org", "lead"),
-    m(main!.id, "chemist@example.org", "chemist"),
-    m(main!.id, "assay@example.org", "assay"),
-    m(main!.id, "viewer@example.org", "viewer"),
-    m(second!.id, "lead@example.org", "lead"),
-    m(second!.id, "chemist@example.org", "chemist"),
-    m(second!.id, "assay@example.org", "assay"),
-  ]);
+  const m = (c: string, e: string, role: "lead" | "chemist" | "assay" | "viewer") => ({
+    campaignId: c,
+    userId: ids[e]!,
+    role,
+  });
+  await db
+    .insert(memberships)
+    .values([
+      m(main!.id, "lead@example.org", "lead"),
+      m(main!.id, "chemist@example.org", "chemist"),
+      m(main!.id, "assay@example.org", "assay"),
+      m(main!.id, "viewer@example.org", "viewer"),
+      m(second!.id, "lead@example.org", "lead"),
+      m(second!.id, "chemist@example.org", "chemist"),
+      m(second!.id, "assay@example.org", "assay"),
+    ]);
   await db.insert(auditLog).values([
-    { actorId: ids["admin@example.org"], actorEmail: "admin@example.org", campaignId: main!.id, action: "campaign.create", entityType: "campaign", entityId: main!.id, reason: "demo data" },
-    { actorId: ids["admin@example.org"], actorEmail: "admin@example.org", campaignId: second!.id, action: "campaign.create", entityType: "campaign", entityId: second!.id, reason: "demo data" },
+    {
+      actorId: ids["admin@example.org"],
+      actorEmail: "admin@example.org",
+      campaignId: main!.id,
+      action: "campaign.create",
+      entityType: "campaign",
+      entityId: main!.id,
+      reason: "demo data",
+    },
+    {
+      actorId: ids["admin@example.org"],
+      actorEmail: "admin@example.org",
+      campaignId: second!.id,
+      action: "campaign.create",
+      entityType: "campaign",
+      entityId: second!.id,
+      reason: "demo data",
+    },
   ]);
   return { userIds: ids, mainCampaignId: main!.id, secondCampaignId: second!.id };
 }

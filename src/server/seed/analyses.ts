@@ -11,7 +11,10 @@ import { DEMO_SUBSTRATE_UM } from "@/lib/plates/demo-campaign";
  * Cheng–Prusoff cross-check) and the mechanism study (after dose-response, so the cross-check
  * finds the measured IC50s).
  */
-export async function seedAnalyses(db: Db, ctx: { mainCampaignId: string; userIds: Record<string, string> }): Promise<{ experiments: number; results: number }> {
+export async function seedAnalyses(
+  db: Db,
+  ctx: { mainCampaignId: string; userIds: Record<string, string> },
+): Promise<{ experiments: number; results: number }> {
   const [campaign] = await db.select().from(campaigns).where(eq(campaigns.id, ctx.mainCampaignId));
   const [assay] = await db.select().from(users).where(eq(users.id, ctx.userIds["assay@example.org"]!));
   const actor = { id: assay!.id, email: assay!.email };
@@ -24,20 +27,38 @@ export async function seedAnalyses(db: Db, ctx: { mainCampaignId: string; userId
     ).map((r) => r.id);
   const plans = [
     { name: "Primary screen at 10 µM (invented demo)", kind: "single-dose" as const, prefix: "screen-", settings: {} },
-    { name: "Dose-response confirmation (invented demo)", kind: "dose-response" as const, prefix: "dose-response-", settings: { substrateUm: DEMO_SUBSTRATE_UM } },
-    { name: "Mechanism study, four hits (invented demo)", kind: "mechanism" as const, prefix: "mechanism-", settings: {} },
+    {
+      name: "Dose-response confirmation (invented demo)",
+      kind: "dose-response" as const,
+      prefix: "dose-response-",
+      settings: { substrateUm: DEMO_SUBSTRATE_UM },
+    },
+    {
+      name: "Mechanism study, four hits (invented demo)",
+      kind: "mechanism" as const,
+      prefix: "mechanism-",
+      settings: {},
+    },
   ];
   let results = 0;
   let experiments = 0;
   for (const p of plans) {
     const runIds = await runsLike(p.prefix);
     if (runIds.length === 0) continue;
-    const { id } = await createExperiment(actor, campaign!, { name: p.name, kind: p.kind, runIds, settings: p.settings });
+    const { id } = await createExperiment(actor, campaign!, {
+      name: p.name,
+      kind: p.kind,
+      runIds,
+      settings: p.settings,
+    });
     experiments += 1;
     const a = await requestAnalysis(actor, campaign!, id).catch(() => null);
     if (!a) continue;
     await runAnalysis(a.id);
-    const [row] = await db.select({ n: sql<number>`count(*)::int` }).from(compoundResults).where(eq(compoundResults.analysisId, a.id));
+    const [row] = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(compoundResults)
+      .where(eq(compoundResults.analysisId, a.id));
     results += row?.n ?? 0;
   }
   return { experiments, results };

@@ -29,7 +29,9 @@ describe("demo plates seed", () => {
     const mech = runs.find((x) => x.fileName === "mechanism-01.csv")!;
     expect(mech.readout).toBe("kinetic");
     expect(mech.reads).toBe(60);
-    const [n] = await db.execute<{ n: number }>(sql`select count(*)::int as n from well_readings w join plate_runs r on r.id = w.run_id where r.campaign_id = ${ctx.mainCampaignId}`);
+    const [n] = await db.execute<{ n: number }>(
+      sql`select count(*)::int as n from well_readings w join plate_runs r on r.id = w.run_id where r.campaign_id = ${ctx.mainCampaignId}`,
+    );
     expect(n!.n).toBe(runs.reduce((s, x) => s + x.wellCount, 0));
     console.log(`[seed test] ${r.runs} plates in ${ms} ms`);
   });

@@ -50,13 +50,16 @@ describe("sign-in", () => {
     expect(a).toMatch(/^throttled: Too many attempts/);
     expect(a).toBe(b);
     // Kept in Postgres: a new process would read the same counter.
-    const [row] = await db.execute<{ count: number }>(sql`select max(count)::int as count from throttle where bucket = ${`signin:account:${u.email}`}`);
+    const [row] = await db.execute<{ count: number }>(
+      sql`select max(count)::int as count from throttle where bucket = ${`signin:account:${u.email}`}`,
+    );
     expect(row!.count).toBeGreaterThanOrEqual(9);
   });
 
   it("throttles a client address after 40 attempts across accounts", async () => {
     const address = `198.18.${Math.floor(Math.random() * 250)}.${Math.floor(Math.random() * 250)}`;
-    for (let i = 0; i < 40; i++) expect(await attempt(`spray-${i}-${address}@test.invalid`, "x", address)).toMatch(/^unauthorized/);
+    for (let i = 0; i < 40; i++)
+      expect(await attempt(`spray-${i}-${address}@test.invalid`, "x", address)).toMatch(/^unauthorized/);
     expect(await attempt(`spray-last-${address}@test.invalid`, "x", address)).toMatch(/^throttled/);
   });
 
@@ -85,7 +88,11 @@ describe("password reset", () => {
     const u = await newTestUser("reset");
     const before = (await outbox()).length;
     const known = await callAction(authActions.requestResetAction, { email: u.email }, null);
-    const unknown = await callAction(authActions.requestResetAction, { email: `nobody-${Date.now()}@test.invalid` }, null);
+    const unknown = await callAction(
+      authActions.requestResetAction,
+      { email: `nobody-${Date.now()}@test.invalid` },
+      null,
+    );
     expect(known).toEqual(unknown);
     const mails = (await outbox()).slice(before);
     expect(mails.map((m) => m.to[0])).toEqual([u.email]);
@@ -110,7 +117,9 @@ describe("password reset", () => {
     expect((await lucia.validateSession(s1)).session).toBeNull();
     expect((await lucia.validateSession(s2)).session).toBeNull();
     const again = await callAction(authActions.resetPasswordAction, { token, password: "yet another password" }, null);
-    expect(again.kind === "state" && again.state && !again.state.ok && again.state.error).toMatch(/used already or has expired/);
+    expect(again.kind === "state" && again.state && !again.state.ok && again.state.error).toMatch(
+      /used already or has expired/,
+    );
   });
 
   it("refuses an expired link", async () => {
@@ -118,7 +127,10 @@ describe("password reset", () => {
     const before = (await outbox()).length;
     await callAction(authActions.requestResetAction, { email: u.email }, null);
     const token = linkIn((await outbox()).slice(before).find((m) => m.to[0] === u.email)!.text, "/reset-password/")!;
-    await db.update(passwordResets).set({ expiresAt: new Date(Date.now() - 1000) }).where(eq(passwordResets.userId, u.id));
+    await db
+      .update(passwordResets)
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where(eq(passwordResets.userId, u.id));
     const r = await callAction(authActions.resetPasswordAction, { token, password: "a brand new password" }, null);
     expect(r.kind === "state" && r.state && !r.state.ok && r.state.error).toMatch(/expired/);
   });
@@ -128,7 +140,11 @@ describe("password change and team removal end sessions", () => {
   it("ends every session of the user when the password changes", async () => {
     const u = await newTestUser("change");
     const other = await createSessionId(u.id);
-    const o = await callAction(settingsActions.changePasswordAction, { current: TEST_PASSWORD, password: "a new long password" }, u);
+    const o = await callAction(
+      settingsActions.changePasswordAction,
+      { current: TEST_PASSWORD, password: "a new long password" },
+      u,
+    );
     expect(o).toEqual({ kind: "redirect", to: "/settings?changed=1" });
     expect((await lucia.validateSession(other)).session).toBeNull();
   });
@@ -136,7 +152,11 @@ describe("password change and team removal end sessions", () => {
   it("ends the sessions of a person removed from a team, and records it in the audit log", async () => {
     const w = await makeWorld();
     const s = await createSessionId(w.people.viewer.id);
-    const o = await callAction(teamActions.removeMemberAction, { campaignId: w.campaignId, userId: w.people.viewer.id }, w.people.admin);
+    const o = await callAction(
+      teamActions.removeMemberAction,
+      { campaignId: w.campaignId, userId: w.people.viewer.id },
+      w.people.admin,
+    );
     expect(o.kind === "state" && o.state?.ok).toBe(true);
     expect((await lucia.validateSession(s)).session).toBeNull();
     const log = await db.select().from(auditLog).where(eq(auditLog.campaignId, w.campaignId));
@@ -149,27 +169,50 @@ describe("invitations", () => {
     const w = await makeWorld();
     const email = `new-${w.tag}@test.invalid`;
     const before = (await outbox()).length;
-    const sent = await callAction(teamActions.inviteAction, { campaignId: w.campaignId, email, role: "chemist" }, w.people.admin);
+    const sent = await callAction(
+      teamActions.inviteAction,
+      { campaignId: w.campaignId, email, role: "chemist" },
+      w.people.admin,
+    );
     expect(sent.kind === "state" && sent.state?.ok).toBe(true);
     const token = linkIn((await outbox()).slice(before).find((m) => m.to[0] === email)!.text, "/invite/")!;
     const [inv] = await db.select().from(invitations).where(eq(invitations.email, email));
     expect(inv!.expiresAt.getTime() - inv!.createdAt.getTime()).toBeCloseTo(72 * 3600_000, -4);
 
-    const accepted = await callAction(authActions.acceptInviteAction, { token, name: "New Chemist", password: "their own password" }, null);
+    const accepted = await callAction(
+      authActions.acceptInviteAction,
+      { token, name: "New Chemist", password: "their own password" },
+      null,
+    );
     expect(accepted).toEqual({ kind: "redirect", to: "/campaigns" });
     const [u] = await db.select().from(users).where(eq(users.email, email));
     const [m] = await db.select().from(memberships).where(eq(memberships.userId, u!.id));
     expect(m!.role).toBe("chemist");
 
-    const twice = await callAction(authActions.acceptInviteAction, { token, name: "Someone", password: "their own password" }, null);
+    const twice = await callAction(
+      authActions.acceptInviteAction,
+      { token, name: "Someone", password: "their own password" },
+      null,
+    );
     expect(twice.kind === "state" && twice.state && !twice.state.ok && twice.state.error).toMatch(/not valid/);
 
     const email2 = `late-${w.tag}@test.invalid`;
     const b2 = (await outbox()).length;
-    await callAction(teamActions.inviteAction, { campaignId: w.campaignId, email: email2, role: "viewer" }, w.people.admin);
+    await callAction(
+      teamActions.inviteAction,
+      { campaignId: w.campaignId, email: email2, role: "viewer" },
+      w.people.admin,
+    );
     const token2 = linkIn((await outbox()).slice(b2).find((m) => m.to[0] === email2)!.text, "/invite/")!;
-    await db.update(invitations).set({ expiresAt: new Date(Date.now() - 1) }).where(eq(invitations.email, email2));
-    const late = await callAction(authActions.acceptInviteAction, { token: token2, name: "Late", password: "their own password" }, null);
+    await db
+      .update(invitations)
+      .set({ expiresAt: new Date(Date.now() - 1) })
+      .where(eq(invitations.email, email2));
+    const late = await callAction(
+      authActions.acceptInviteAction,
+      { token: token2, name: "Late", password: "their own password" },
+      null,
+    );
     expect(late.kind === "state" && late.state && !late.state.ok && late.state.error).toMatch(/expired/);
   });
 });
@@ -189,8 +232,12 @@ describe("campaign visibility and the API", () => {
 
   it("refuses a mutating request whose Origin is another site", async () => {
     const { requireSameOrigin } = await import("@/server/auth/guard");
-    await expect(as(null, () => requireSameOrigin(), { origin: "https://evil.example", host: "127.0.0.1:3000" })).rejects.toThrow(/another site/);
-    await expect(as(null, () => requireSameOrigin(), { origin: "http://127.0.0.1:3000", host: "127.0.0.1:3000" })).resolves.toBeUndefined();
+    await expect(
+      as(null, () => requireSameOrigin(), { origin: "https://evil.example", host: "127.0.0.1:3000" }),
+    ).rejects.toThrow(/another site/);
+    await expect(
+      as(null, () => requireSameOrigin(), { origin: "http://127.0.0.1:3000", host: "127.0.0.1:3000" }),
+    ).resolves.toBeUndefined();
   });
 
   it("reports the database, object store and e-mail service as up", async () => {
@@ -202,7 +249,11 @@ describe("campaign visibility and the API", () => {
 describe("audit log", () => {
   it("is append-only: updates and deletes are refused by the database", async () => {
     const w = await makeWorld();
-    await callAction(teamActions.changeRoleAction, { campaignId: w.campaignId, userId: w.people.viewer.id, role: "chemist" }, w.people.admin);
+    await callAction(
+      teamActions.changeRoleAction,
+      { campaignId: w.campaignId, userId: w.people.viewer.id, role: "chemist" },
+      w.people.admin,
+    );
     const [row] = await db.select().from(auditLog).where(eq(auditLog.campaignId, w.campaignId));
     expect(row).toBeTruthy();
     await expect(db.update(auditLog).set({ action: "tampered" }).where(eq(auditLog.id, row!.id))).rejects.toThrow();

@@ -48,7 +48,9 @@ export async function requestPasswordReset(email: string, address: string): Prom
     return;
   }
   const { token, hash } = newToken();
-  await db.insert(passwordResets).values({ userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_HOURS * 3600_000) });
+  await db
+    .insert(passwordResets)
+    .values({ userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_HOURS * 3600_000) });
   const link = `${env.APP_URL}/reset-password/${token}`;
   await sendMail({
     to: user.email,
@@ -65,12 +67,26 @@ export async function resetPassword(token: string, password: string): Promise<st
     const [row] = await tx
       .update(passwordResets)
       .set({ usedAt: new Date() })
-      .where(and(eq(passwordResets.tokenHash, hashToken(token)), isNull(passwordResets.usedAt), gt(passwordResets.expiresAt, new Date())))
+      .where(
+        and(
+          eq(passwordResets.tokenHash, hashToken(token)),
+          isNull(passwordResets.usedAt),
+          gt(passwordResets.expiresAt, new Date()),
+        ),
+      )
       .returning({ userId: passwordResets.userId });
-    if (!row) throw new AppError("bad_request", "This reset link is not valid: it was used already or has expired. Ask for a new one.");
+    if (!row)
+      throw new AppError(
+        "bad_request",
+        "This reset link is not valid: it was used already or has expired. Ask for a new one.",
+      );
     await tx.update(users).set({ passwordHash, passwordChangedAt: new Date() }).where(eq(users.id, row.userId));
     const u = await tx.query.users.findFirst({ where: eq(users.id, row.userId) });
-    await audit(tx, u ? { id: u.id, email: u.email } : null, { action: "password.reset", entityType: "user", entityId: row.userId });
+    await audit(tx, u ? { id: u.id, email: u.email } : null, {
+      action: "password.reset",
+      entityType: "user",
+      entityId: row.userId,
+    });
     return row.userId;
   });
   await endAllSessions(userId);
@@ -79,7 +95,8 @@ export async function resetPassword(token: string, password: string): Promise<st
 
 export async function changePassword(user: SessionUser, current: string, password: string): Promise<void> {
   const row = await db.query.users.findFirst({ where: eq(users.id, user.id) });
-  if (!(await verifyPassword(row?.passwordHash, current))) throw new AppError("bad_request", "The current password is not right.");
+  if (!(await verifyPassword(row?.passwordHash, current)))
+    throw new AppError("bad_request", "The current password is not right.");
   const passwordHash = await hashPassword(password);
   await db.transaction(async (tx) => {
     await tx.update(users).set({ passwordHash, passwordChangedAt: new Date() }).where(eq(users.id, user.id));
@@ -88,16 +105,34 @@ export async function changePassword(user: SessionUser, current: string, passwor
   await endAllSessions(user.id);
 }
 
-export async function invite(actor: SessionUser, campaignId: string, email: string, role: CampaignRole): Promise<{ id: string; link: string }> {
+export async function invite(
+  actor: SessionUser,
+  campaignId: string,
+  email: string,
+  role: CampaignRole,
+): Promise<{ id: string; link: string }> {
   const { token, hash } = newToken();
   const campaign = await db.query.campaigns.findFirst({ where: eq(campaigns.id, campaignId) });
   if (!campaign) throw new AppError("not_found", "No such campaign.");
   const id = await db.transaction(async (tx) => {
     const [row] = await tx
       .insert(invitations)
-      .values({ email, campaignId, role, tokenHash: hash, invitedBy: actor.id, expiresAt: new Date(Date.now() + INVITE_HOURS * 3600_000) })
+      .values({
+        email,
+        campaignId,
+        role,
+        tokenHash: hash,
+        invitedBy: actor.id,
+        expiresAt: new Date(Date.now() + INVITE_HOURS * 3600_000),
+      })
       .returning({ id: invitations.id });
-    await audit(tx, actor, { campaignId, action: "invitation.create", entityType: "invitation", entityId: row!.id, after: { email, role } });
+    await audit(tx, actor, {
+      campaignId,
+      action: "invitation.create",
+      entityType: "invitation",
+      entityId: row!.id,
+      after: { email, role },
+    });
     return row!.id;
   });
   const link = `${env.APP_URL}/invite/${token}`;
@@ -115,7 +150,14 @@ export async function findInvitation(token: string) {
     .select({ inv: invitations, campaignName: campaigns.name })
     .from(invitations)
     .innerJoin(campaigns, eq(campaigns.id, invitations.campaignId))
-    .where(and(eq(invitations.tokenHash, hashToken(token)), isNull(invitations.usedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, new Date())));
+    .where(
+      and(
+        eq(invitations.tokenHash, hashToken(token)),
+        isNull(invitations.usedAt),
+        isNull(invitations.revokedAt),
+        gt(invitations.expiresAt, new Date()),
+      ),
+    );
   return row ?? null;
 }
 
@@ -125,11 +167,16 @@ export async function findInvitation(token: string) {
  */
 export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<string> {
   const found = await findInvitation(token);
-  if (!found) throw new AppError("bad_request", "This invitation is not valid: it was used already, was withdrawn or has expired.");
+  if (!found)
+    throw new AppError(
+      "bad_request",
+      "This invitation is not valid: it was used already, was withdrawn or has expired.",
+    );
   const existing = await findByEmail(found.inv.email);
   let passwordHash: string | null = null;
   if (existing) {
-    if (!(await verifyPassword(existing.passwordHash, input.password))) throw new AppError("bad_request", "That is not the password of the existing account for this address.");
+    if (!(await verifyPassword(existing.passwordHash, input.password)))
+      throw new AppError("bad_request", "That is not the password of the existing account for this address.");
   } else {
     if (!input.name) throw new AppError("bad_request", "Enter your name.");
     if (input.password.length < 10) throw new AppError("bad_request", "Use a password of at least 10 characters.");
@@ -151,7 +198,17 @@ export async function acceptInvitation(token: string, input: { name?: string; pa
       .insert(memberships)
       .values({ campaignId: found.inv.campaignId, userId, role: found.inv.role })
       .onConflictDoUpdate({ target: [memberships.campaignId, memberships.userId], set: { role: found.inv.role } });
-    await audit(tx, { id: userId, email: found.inv.email }, { campaignId: found.inv.campaignId, action: "invitation.accept", entityType: "membership", entityId: userId, after: { role: found.inv.role } });
+    await audit(
+      tx,
+      { id: userId, email: found.inv.email },
+      {
+        campaignId: found.inv.campaignId,
+        action: "invitation.accept",
+        entityType: "membership",
+        entityId: userId,
+        after: { role: found.inv.role },
+      },
+    );
     return userId;
   });
 }

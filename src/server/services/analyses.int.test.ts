@@ -26,13 +26,22 @@ const runIds: Record<string, string> = {};
 beforeAll(async () => {
   w = await makeWorld();
   // The invented demo assay: Km 20 µM, enzyme 10 nM.
-  [campaign] = await db.update(campaigns).set({ kmValue: 20, kmUnit: "µM", enzymeConcValue: 10, enzymeConcUnit: "nM" }).where(eq(campaigns.id, w.campaignId)).returning() as [typeof campaigns.$inferSelect];
+  [campaign] = (await db
+    .update(campaigns)
+    .set({ kmValue: 20, kmUnit: "µM", enzymeConcValue: 10, enzymeConcUnit: "nM" })
+    .where(eq(campaigns.id, w.campaignId))
+    .returning()) as [typeof campaigns.$inferSelect];
   await ensureCompoundsRegistered(demo.compounds.map((c) => c.id));
   for (const p of demo.plates) {
     const parsed = parsePlateMapCsv(p.mapCsv, p.format, `${p.name}.map.csv`);
     if (!parsed.ok) throw new Error(parsed.issues[0]!.text);
     const map = await createPlateMap(w.people.assay, w.campaignId, { name: p.name, map: parsed.map });
-    const run = await uploadRun(w.people.assay, campaign, { plateMapId: map.id, fileName: p.file.name, contentType: "text/csv", bytes: new TextEncoder().encode(p.file.contents) });
+    const run = await uploadRun(w.people.assay, campaign, {
+      plateMapId: map.id,
+      fileName: p.file.name,
+      contentType: "text/csv",
+      bytes: new TextEncoder().encode(p.file.contents),
+    });
     expect(run.qc.verdict, `${p.name}: ${JSON.stringify(run.qc)}`).toBe("pass");
     await decideRun(w.people.assay, w.campaignId, run.id, "accepted", "QC passes");
     runIds[p.name] = run.id;
@@ -41,7 +50,11 @@ beforeAll(async () => {
 
 describe("mechanism study (invented plate from known constants)", () => {
   it("recovers each mechanism and its Ki within 15 %", async () => {
-    const e = await createExperiment(w.people.assay, campaign, { name: "MoA", kind: "mechanism", runIds: [runIds["mechanism-01"]!] });
+    const e = await createExperiment(w.people.assay, campaign, {
+      name: "MoA",
+      kind: "mechanism",
+      runIds: [runIds["mechanism-01"]!],
+    });
     const a = await requestAnalysis(w.people.assay, campaign, e.id);
     await runAnalysis(a.id);
     const rows = await experimentResults(e.id);
@@ -58,7 +71,12 @@ describe("mechanism study (invented plate from known constants)", () => {
         within(r.kiuUm, truth.kiuUm!);
       }
       const json = resultJson(r) as { mechanism: { ki: number; kiCi95: number[]; models: object } };
-      expect(Object.keys(json.mechanism.models).sort()).toEqual(["competitive", "mixed", "noncompetitive", "uncompetitive"]);
+      expect(Object.keys(json.mechanism.models).sort()).toEqual([
+        "competitive",
+        "mixed",
+        "noncompetitive",
+        "uncompetitive",
+      ]);
     }
   });
 });
@@ -66,8 +84,15 @@ describe("mechanism study (invented plate from known constants)", () => {
 describe("dose-response (invented plates)", () => {
   let experimentId: string;
   beforeAll(async () => {
-    const ids = Object.entries(runIds).filter(([n]) => n.startsWith("dose-response")).map(([, id]) => id);
-    const e = await createExperiment(w.people.lead, campaign, { name: "DR", kind: "dose-response", runIds: ids, settings: { substrateUm: 20 } });
+    const ids = Object.entries(runIds)
+      .filter(([n]) => n.startsWith("dose-response"))
+      .map(([, id]) => id);
+    const e = await createExperiment(w.people.lead, campaign, {
+      name: "DR",
+      kind: "dose-response",
+      runIds: ids,
+      settings: { substrateUm: 20 },
+    });
     experimentId = e.id;
     const a = await requestAnalysis(w.people.lead, campaign, e.id);
     await runAnalysis(a.id);
@@ -99,11 +124,17 @@ describe("dose-response (invented plates)", () => {
   });
 
   it("is idempotent: the same inputs give the same analysis and no new rows", async () => {
-    const before = await db.select({ n: sql<number>`count(*)::int` }).from(compoundResults).where(eq(compoundResults.experimentId, experimentId));
+    const before = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(compoundResults)
+      .where(eq(compoundResults.experimentId, experimentId));
     const again = await requestAnalysis(w.people.lead, campaign, experimentId);
     expect(again.reused).toBe(true);
     await runAnalysis(again.id);
-    const after = await db.select({ n: sql<number>`count(*)::int` }).from(compoundResults).where(eq(compoundResults.experimentId, experimentId));
+    const after = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(compoundResults)
+      .where(eq(compoundResults.experimentId, experimentId));
     expect(after[0]!.n).toBe(before[0]!.n);
   });
 
@@ -136,7 +167,10 @@ describe("dose-response (invented plates)", () => {
     expect(third.find((x) => x.compoundId === "INH-000003")!.ic50Um).toBe(r2.ic50Um);
     const [failed] = await db.select().from(analyses).where(eq(analyses.id, a3.id));
     expect(failed!.status).toBe("failed");
-    const current = await db.select().from(analyses).where(and(eq(analyses.experimentId, experimentId), eq(analyses.isCurrent, true)));
+    const current = await db
+      .select()
+      .from(analyses)
+      .where(and(eq(analyses.experimentId, experimentId), eq(analyses.isCurrent, true)));
     expect(current.map((c) => c.id)).toEqual([a2.id]);
   });
 });

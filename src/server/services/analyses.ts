@@ -20,7 +20,13 @@ import type { SessionUser } from "@/server/auth/session";
 import { audit } from "./audit";
 import { refreshHitRows } from "./hits";
 import { ENGINE_VERSION, ic50FromKi, type HitRule, type InhibitionModel } from "@/lib/kinetics";
-import { analyseDoseResponse, analyseMechanism, analyseSingleDose, type AnalysisReading, type CompoundResult } from "@/lib/analysis/compute";
+import {
+  analyseDoseResponse,
+  analyseMechanism,
+  analyseSingleDose,
+  type AnalysisReading,
+  type CompoundResult,
+} from "@/lib/analysis/compute";
 import { toMicromolar, toNanomolar } from "@/lib/units";
 
 type Actor = Pick<SessionUser, "id" | "email">;
@@ -45,21 +51,36 @@ export async function createExperiment(
     .where(and(eq(plateRuns.campaignId, campaign.id), inArray(plateRuns.id, runIds)));
   const known = new Set(runs.map((r) => r.id));
   const missing = runIds.filter((id) => !known.has(id));
-  if (missing.length) throw new AppError("bad_request", `These plate runs are not in this campaign: ${missing.join(", ")}`);
+  if (missing.length)
+    throw new AppError("bad_request", `These plate runs are not in this campaign: ${missing.join(", ")}`);
   return db.transaction(async (tx) => {
     const [e] = await tx
       .insert(experiments)
-      .values({ campaignId: campaign.id, name: input.name, kind: input.kind, settings: input.settings ?? {}, createdBy: actor.id })
+      .values({
+        campaignId: campaign.id,
+        name: input.name,
+        kind: input.kind,
+        settings: input.settings ?? {},
+        createdBy: actor.id,
+      })
       .returning({ id: experiments.id });
     await tx.insert(experimentRuns).values(runIds.map((runId) => ({ experimentId: e!.id, runId })));
-    await audit(tx, actor, { campaignId: campaign.id, action: "experiment.create", entityType: "experiment", entityId: e!.id, after: { ...input, runIds } });
+    await audit(tx, actor, {
+      campaignId: campaign.id,
+      action: "experiment.create",
+      entityType: "experiment",
+      entityId: e!.id,
+      after: { ...input, runIds },
+    });
     return { id: e!.id };
   });
 }
 
 export async function getExperiment(campaignId: string, experimentId: string) {
   if (!/^[0-9a-f-]{36}$/i.test(experimentId)) throw new AppError("not_found", "No such experiment.");
-  const e = await db.query.experiments.findFirst({ where: and(eq(experiments.id, experimentId), eq(experiments.campaignId, campaignId)) });
+  const e = await db.query.experiments.findFirst({
+    where: and(eq(experiments.id, experimentId), eq(experiments.campaignId, campaignId)),
+  });
   if (!e) throw new AppError("not_found", "No such experiment.");
   return e;
 }
@@ -78,14 +99,27 @@ export async function listExperiments(campaignId: string) {
     ? await db
         .selectDistinctOn([analyses.experimentId])
         .from(analyses)
-        .where(inArray(analyses.experimentId, rows.map((r) => r.experiment.id)))
+        .where(
+          inArray(
+            analyses.experimentId,
+            rows.map((r) => r.experiment.id),
+          ),
+        )
         .orderBy(analyses.experimentId, desc(analyses.requestedAt))
     : [];
   const current = rows.length
     ? await db
         .select()
         .from(analyses)
-        .where(and(inArray(analyses.experimentId, rows.map((r) => r.experiment.id)), eq(analyses.isCurrent, true)))
+        .where(
+          and(
+            inArray(
+              analyses.experimentId,
+              rows.map((r) => r.experiment.id),
+            ),
+            eq(analyses.isCurrent, true),
+          ),
+        )
     : [];
   return rows.map((r) => ({
     ...r,
@@ -96,7 +130,15 @@ export async function listExperiments(campaignId: string) {
 
 export async function experimentRunList(experimentId: string) {
   return db
-    .select({ id: plateRuns.id, fileName: plateRuns.fileName, barcode: plateRuns.barcode, decision: plateRuns.decision, qcVerdict: plateRuns.qcVerdict, zPrime: plateRuns.zPrime, sha256: plateRuns.sha256 })
+    .select({
+      id: plateRuns.id,
+      fileName: plateRuns.fileName,
+      barcode: plateRuns.barcode,
+      decision: plateRuns.decision,
+      qcVerdict: plateRuns.qcVerdict,
+      zPrime: plateRuns.zPrime,
+      sha256: plateRuns.sha256,
+    })
     .from(experimentRuns)
     .innerJoin(plateRuns, eq(plateRuns.id, experimentRuns.runId))
     .where(eq(experimentRuns.experimentId, experimentId))
@@ -107,7 +149,8 @@ export async function experimentRunList(experimentId: string) {
 
 function resolvedSettings(campaign: Campaign, s: ExperimentSettings) {
   const campaignKmUm = campaign.kmValue !== null ? toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM") : null;
-  const campaignENm = campaign.enzymeConcValue !== null ? toNanomolar(campaign.enzymeConcValue, campaign.enzymeConcUnit ?? "nM") : null;
+  const campaignENm =
+    campaign.enzymeConcValue !== null ? toNanomolar(campaign.enzymeConcValue, campaign.enzymeConcUnit ?? "nM") : null;
   return {
     hitThresholdPct: s.hitRule?.kind === "threshold" ? s.hitRule.thresholdPct : campaign.hitThresholdPct,
     kmUm: s.kmUm ?? campaignKmUm,
@@ -129,7 +172,10 @@ function canonical(v: unknown): string {
 }
 
 /** What an analysis of this experiment would be computed from right now. Only accepted runs count. */
-export async function currentInputs(campaign: Campaign, experiment: typeof experiments.$inferSelect): Promise<{ inputs: AnalysisInputs; hash: string }> {
+export async function currentInputs(
+  campaign: Campaign,
+  experiment: typeof experiments.$inferSelect,
+): Promise<{ inputs: AnalysisInputs; hash: string }> {
   const runs = await db
     .select({ id: plateRuns.id, sha256: plateRuns.sha256, fileName: plateRuns.fileName, decision: plateRuns.decision })
     .from(experimentRuns)
@@ -140,7 +186,15 @@ export async function currentInputs(campaign: Campaign, experiment: typeof exper
     ? await db
         .select({ runId: plateWellMasks.runId, well: plateWellMasks.well, reason: plateWellMasks.reason })
         .from(plateWellMasks)
-        .where(and(inArray(plateWellMasks.runId, runs.map((r) => r.id)), sql`${plateWellMasks.unmaskedAt} is null`))
+        .where(
+          and(
+            inArray(
+              plateWellMasks.runId,
+              runs.map((r) => r.id),
+            ),
+            sql`${plateWellMasks.unmaskedAt} is null`,
+          ),
+        )
         .orderBy(asc(plateWellMasks.runId), asc(plateWellMasks.well))
     : [];
   const inputs: AnalysisInputs = {
@@ -159,32 +213,58 @@ export async function currentInputs(campaign: Campaign, experiment: typeof exper
  * analysis back: no new rows, identical numbers. Otherwise a queued analysis is created; the
  * worker (or `runAnalysis` directly) computes it.
  */
-export async function requestAnalysis(actor: Actor, campaign: Campaign, experimentId: string): Promise<{ id: string; status: string; reused: boolean }> {
+export async function requestAnalysis(
+  actor: Actor,
+  campaign: Campaign,
+  experimentId: string,
+): Promise<{ id: string; status: string; reused: boolean }> {
   const experiment = await getExperiment(campaign.id, experimentId);
   const { inputs, hash } = await currentInputs(campaign, experiment);
-  if (inputs.runs.length === 0) throw new AppError("bad_request", "No accepted plate run in this experiment: accept runs that pass QC first.");
+  if (inputs.runs.length === 0)
+    throw new AppError("bad_request", "No accepted plate run in this experiment: accept runs that pass QC first.");
   return db.transaction(async (tx) => {
     // Serialise requests for one experiment so two clicks cannot queue the same work twice.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${experiment.id}))`);
     const [same] = await tx
       .select()
       .from(analyses)
-      .where(and(eq(analyses.experimentId, experiment.id), eq(analyses.inputHash, hash), sql`(${analyses.isCurrent} or ${analyses.status} in ('queued','running'))`))
+      .where(
+        and(
+          eq(analyses.experimentId, experiment.id),
+          eq(analyses.inputHash, hash),
+          sql`(${analyses.isCurrent} or ${analyses.status} in ('queued','running'))`,
+        ),
+      )
       .orderBy(desc(analyses.requestedAt))
       .limit(1);
     if (same) return { id: same.id, status: same.status, reused: true };
     const [a] = await tx
       .insert(analyses)
-      .values({ experimentId: experiment.id, campaignId: campaign.id, engineVersion: ENGINE_VERSION, inputHash: hash, inputs, requestedBy: actor.id })
+      .values({
+        experimentId: experiment.id,
+        campaignId: campaign.id,
+        engineVersion: ENGINE_VERSION,
+        inputHash: hash,
+        inputs,
+        requestedBy: actor.id,
+      })
       .returning({ id: analyses.id, status: analyses.status });
-    await audit(tx, actor, { campaignId: campaign.id, action: "analysis.request", entityType: "analysis", entityId: a!.id, after: { experimentId, inputHash: hash } });
+    await audit(tx, actor, {
+      campaignId: campaign.id,
+      action: "analysis.request",
+      entityType: "analysis",
+      entityId: a!.id,
+      after: { experimentId, inputHash: hash },
+    });
     return { id: a!.id, status: a!.status, reused: false };
   });
 }
 
 export async function getAnalysis(campaignId: string, analysisId: string) {
   if (!/^[0-9a-f-]{36}$/i.test(analysisId)) throw new AppError("not_found", "No such analysis.");
-  const a = await db.query.analyses.findFirst({ where: and(eq(analyses.id, analysisId), eq(analyses.campaignId, campaignId)) });
+  const a = await db.query.analyses.findFirst({
+    where: and(eq(analyses.id, analysisId), eq(analyses.campaignId, campaignId)),
+  });
   if (!a) throw new AppError("not_found", "No such analysis.");
   return a;
 }
@@ -208,7 +288,12 @@ async function loadReadings(inputs: AnalysisInputs): Promise<AnalysisReading[]> 
       masked: wellReadings.masked,
     })
     .from(wellReadings)
-    .where(inArray(wellReadings.runId, inputs.runs.map((r) => r.id)));
+    .where(
+      inArray(
+        wellReadings.runId,
+        inputs.runs.map((r) => r.id),
+      ),
+    );
   // The masks recorded in the inputs decide, so a mask changed after the request cannot leak in.
   const masked = new Set(inputs.masks.map((m) => `${m.runId}|${m.well}`));
   return rows.map((r) => ({ ...r, masked: masked.has(`${r.runId}|${r.well}`) }));
@@ -223,29 +308,68 @@ function hitRuleOf(inputs: AnalysisInputs): HitRule {
 
 /** The measured IC50 (current dose-response analyses of the campaign) of each compound, µM. */
 async function measuredIc50s(campaignId: string, compoundIds: string[]) {
-  if (compoundIds.length === 0) return new Map<string, { ic50Um: number; substrateUm: number | null; experimentId: string }>();
+  if (compoundIds.length === 0)
+    return new Map<string, { ic50Um: number; substrateUm: number | null; experimentId: string }>();
   const rows = await db
-    .select({ compoundId: compoundResults.compoundId, ic50Um: compoundResults.ic50Um, qualifier: compoundResults.ic50Qualifier, settings: experiments.settings, experimentId: experiments.id })
+    .select({
+      compoundId: compoundResults.compoundId,
+      ic50Um: compoundResults.ic50Um,
+      qualifier: compoundResults.ic50Qualifier,
+      settings: experiments.settings,
+      experimentId: experiments.id,
+    })
     .from(compoundResults)
     .innerJoin(analyses, eq(analyses.id, compoundResults.analysisId))
     .innerJoin(experiments, eq(experiments.id, compoundResults.experimentId))
-    .where(and(eq(compoundResults.campaignId, campaignId), eq(analyses.isCurrent, true), eq(compoundResults.kind, "dose-response"), inArray(compoundResults.compoundId, compoundIds)));
+    .where(
+      and(
+        eq(compoundResults.campaignId, campaignId),
+        eq(analyses.isCurrent, true),
+        eq(compoundResults.kind, "dose-response"),
+        inArray(compoundResults.compoundId, compoundIds),
+      ),
+    );
   const m = new Map<string, { ic50Um: number; substrateUm: number | null; experimentId: string }>();
-  for (const r of rows) if (r.ic50Um !== null && !r.qualifier) m.set(r.compoundId, { ic50Um: r.ic50Um, substrateUm: r.settings.substrateUm ?? null, experimentId: r.experimentId });
+  for (const r of rows)
+    if (r.ic50Um !== null && !r.qualifier)
+      m.set(r.compoundId, {
+        ic50Um: r.ic50Um,
+        substrateUm: r.settings.substrateUm ?? null,
+        experimentId: r.experimentId,
+      });
   return m;
 }
 
 /** Cheng–Prusoff: the IC50 the fitted mechanism predicts at the dose-response assay's [S], against the measured one. */
-function chengPrusoffCheck(r: CompoundResult, measured: { ic50Um: number; substrateUm: number | null; experimentId: string } | undefined, kmUm: number | null) {
+function chengPrusoffCheck(
+  r: CompoundResult,
+  measured: { ic50Um: number; substrateUm: number | null; experimentId: string } | undefined,
+  kmUm: number | null,
+) {
   if (!measured || !r.mechanism) return null;
   if (measured.substrateUm === null || measured.substrateUm === undefined || kmUm === null) {
-    return { measuredIc50Um: measured.ic50Um, note: "substrate concentration of the dose-response assay or Km not set: no prediction" };
+    return {
+      measuredIc50Um: measured.ic50Um,
+      note: "substrate concentration of the dose-response assay or Km not set: no prediction",
+    };
   }
-  const predicted = ic50FromKi(r.mechanism as InhibitionModel, { s: measured.substrateUm, km: kmUm, kic: r.kicUm ?? null, kiu: r.kiuUm ?? null });
+  const predicted = ic50FromKi(r.mechanism as InhibitionModel, {
+    s: measured.substrateUm,
+    km: kmUm,
+    kic: r.kicUm ?? null,
+    kiu: r.kiuUm ?? null,
+  });
   const ratio = predicted / measured.ic50Um;
   const disagree = !(ratio <= CHENG_PRUSOFF_TOLERANCE && ratio >= 1 / CHENG_PRUSOFF_TOLERANCE);
   if (disagree) r.flags.push("cheng-prusoff-disagreement");
-  return { predictedIc50Um: Number(predicted.toPrecision(10)), measuredIc50Um: measured.ic50Um, substrateUm: measured.substrateUm, kmUm, ratio: Number(ratio.toPrecision(6)), doseResponseExperimentId: measured.experimentId };
+  return {
+    predictedIc50Um: Number(predicted.toPrecision(10)),
+    measuredIc50Um: measured.ic50Um,
+    substrateUm: measured.substrateUm,
+    kmUm,
+    ratio: Number(ratio.toPrecision(6)),
+    doseResponseExperimentId: measured.experimentId,
+  };
 }
 
 /**
@@ -257,9 +381,15 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
   const a = await db.query.analyses.findFirst({ where: eq(analyses.id, analysisId) });
   if (!a) throw new Error(`analysis ${analysisId} not found`);
   if (a.status === "done") return;
-  await db.update(analyses).set({ status: "running", startedAt: new Date(), progress: 0, error: null }).where(eq(analyses.id, analysisId));
+  await db
+    .update(analyses)
+    .set({ status: "running", startedAt: new Date(), progress: 0, error: null })
+    .where(eq(analyses.id, analysisId));
   const progress = async (f: number) => {
-    await db.update(analyses).set({ progress: Math.min(1, Math.max(0, f)) }).where(eq(analyses.id, analysisId));
+    await db
+      .update(analyses)
+      .set({ progress: Math.min(1, Math.max(0, f)) })
+      .where(eq(analyses.id, analysisId));
     await onProgress?.(f);
   };
   try {
@@ -277,7 +407,10 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
       });
     } else {
       results = analyseMechanism(readings, { weighting: inputs.settings.weighting ?? "none" });
-      const measured = await measuredIc50s(a.campaignId, results.map((r) => r.compoundId));
+      const measured = await measuredIc50s(
+        a.campaignId,
+        results.map((r) => r.compoundId),
+      );
       for (const r of results) {
         const check = chengPrusoffCheck(r, measured.get(r.compoundId), inputs.settings.resolved.kmUm);
         if (check) r.detail.chengPrusoff = check;
@@ -285,7 +418,10 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
     }
     await progress(0.8);
     await db.transaction(async (tx) => {
-      await tx.update(analyses).set({ isCurrent: false }).where(and(eq(analyses.experimentId, a.experimentId), eq(analyses.isCurrent, true)));
+      await tx
+        .update(analyses)
+        .set({ isCurrent: false })
+        .where(and(eq(analyses.experimentId, a.experimentId), eq(analyses.isCurrent, true)));
       const chunk = 500;
       for (let k = 0; k < results.length; k += chunk) {
         await tx.insert(compoundResults).values(
@@ -323,12 +459,21 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
         .where(eq(analyses.id, a.id));
       // The hit grid's rows for these compounds, in the same transaction (issue 8), once this
       // analysis is current; prune drops compounds this experiment no longer reports.
-      await refreshHitRows(tx, a.campaignId, results.map((r) => r.compoundId), { prune: true });
+      await refreshHitRows(
+        tx,
+        a.campaignId,
+        results.map((r) => r.compoundId),
+        { prune: true },
+      );
     });
   } catch (e) {
     await db
       .update(analyses)
-      .set({ status: "failed", error: e instanceof Error ? e.message.slice(0, 500) : String(e).slice(0, 500), finishedAt: new Date() })
+      .set({
+        status: "failed",
+        error: e instanceof Error ? e.message.slice(0, 500) : String(e).slice(0, 500),
+        finishedAt: new Date(),
+      })
       .where(eq(analyses.id, analysisId));
     throw e;
   }
@@ -407,7 +552,14 @@ export async function compoundResultDetail(experimentId: string, compoundId: str
 export const MODELS: InhibitionModel[] = ["competitive", "uncompetitive", "noncompetitive", "mixed"];
 
 /** A lead or assay scientist overrides the chosen mechanism with a reason (audited). */
-export async function overrideMechanism(actor: Actor, campaignId: string, experimentId: string, compoundId: string, model: InhibitionModel, reason: string) {
+export async function overrideMechanism(
+  actor: Actor,
+  campaignId: string,
+  experimentId: string,
+  compoundId: string,
+  model: InhibitionModel,
+  reason: string,
+) {
   const e = await getExperiment(campaignId, experimentId);
   if (e.kind !== "mechanism") throw new AppError("bad_request", "Only mechanism studies have a model choice.");
   const current = await compoundResultDetail(experimentId, compoundId);

@@ -14,7 +14,13 @@ export type CampaignInput = z.infer<typeof campaignSchema>;
 /** The campaigns a user may see with their role in each (admins see all; role null where not a member). */
 export async function campaignsFor(user: SessionUser) {
   const rows = await db
-    .select({ id: campaigns.id, name: campaigns.name, targetEnzyme: campaigns.targetEnzyme, role: memberships.role, createdAt: campaigns.createdAt })
+    .select({
+      id: campaigns.id,
+      name: campaigns.name,
+      targetEnzyme: campaigns.targetEnzyme,
+      role: memberships.role,
+      createdAt: campaigns.createdAt,
+    })
     .from(campaigns)
     .leftJoin(memberships, and(eq(memberships.campaignId, campaigns.id), eq(memberships.userId, user.id)))
     .where(user.globalRole === "admin" ? undefined : sql`${memberships.userId} is not null`)
@@ -41,14 +47,26 @@ export async function createCampaign(actor: SessionUser, input: CampaignInput): 
         createdBy: actor.id,
       })
       .returning();
-    await audit(tx, actor, { campaignId: row!.id, action: "campaign.create", entityType: "campaign", entityId: row!.id, after: row });
+    await audit(tx, actor, {
+      campaignId: row!.id,
+      action: "campaign.create",
+      entityType: "campaign",
+      entityId: row!.id,
+      after: row,
+    });
     return row!.id;
   });
 }
 
 export async function membersOf(campaignId: string) {
   return db
-    .select({ userId: users.id, email: users.email, name: users.name, role: memberships.role, addedAt: memberships.addedAt })
+    .select({
+      userId: users.id,
+      email: users.email,
+      name: users.name,
+      role: memberships.role,
+      addedAt: memberships.addedAt,
+    })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(eq(memberships.campaignId, campaignId))
@@ -57,34 +75,89 @@ export async function membersOf(campaignId: string) {
 
 export async function pendingInvitations(campaignId: string) {
   return db
-    .select({ id: invitations.id, email: invitations.email, role: invitations.role, expiresAt: invitations.expiresAt, createdAt: invitations.createdAt })
+    .select({
+      id: invitations.id,
+      email: invitations.email,
+      role: invitations.role,
+      expiresAt: invitations.expiresAt,
+      createdAt: invitations.createdAt,
+    })
     .from(invitations)
-    .where(and(eq(invitations.campaignId, campaignId), isNull(invitations.usedAt), isNull(invitations.revokedAt), gt(invitations.expiresAt, new Date())))
+    .where(
+      and(
+        eq(invitations.campaignId, campaignId),
+        isNull(invitations.usedAt),
+        isNull(invitations.revokedAt),
+        gt(invitations.expiresAt, new Date()),
+      ),
+    )
     .orderBy(desc(invitations.createdAt));
 }
 
-export async function addMember(actor: SessionUser, campaignId: string, userId: string, role: CampaignRole): Promise<void> {
+export async function addMember(
+  actor: SessionUser,
+  campaignId: string,
+  userId: string,
+  role: CampaignRole,
+): Promise<void> {
   await db.transaction(async (tx) => {
-    await tx.insert(memberships).values({ campaignId, userId, role }).onConflictDoUpdate({ target: [memberships.campaignId, memberships.userId], set: { role } });
-    await audit(tx, actor, { campaignId, action: "membership.add", entityType: "membership", entityId: userId, after: { role } });
+    await tx
+      .insert(memberships)
+      .values({ campaignId, userId, role })
+      .onConflictDoUpdate({ target: [memberships.campaignId, memberships.userId], set: { role } });
+    await audit(tx, actor, {
+      campaignId,
+      action: "membership.add",
+      entityType: "membership",
+      entityId: userId,
+      after: { role },
+    });
   });
 }
 
-export async function changeRole(actor: SessionUser, campaignId: string, userId: string, role: CampaignRole): Promise<void> {
+export async function changeRole(
+  actor: SessionUser,
+  campaignId: string,
+  userId: string,
+  role: CampaignRole,
+): Promise<void> {
   await db.transaction(async (tx) => {
-    const [before] = await tx.select().from(memberships).where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, userId))).for("update");
+    const [before] = await tx
+      .select()
+      .from(memberships)
+      .where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, userId)))
+      .for("update");
     if (!before) throw new AppError("not_found", "That person is not a member of this campaign.");
-    await tx.update(memberships).set({ role }).where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, userId)));
-    await audit(tx, actor, { campaignId, action: "membership.role", entityType: "membership", entityId: userId, before: { role: before.role }, after: { role } });
+    await tx
+      .update(memberships)
+      .set({ role })
+      .where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, userId)));
+    await audit(tx, actor, {
+      campaignId,
+      action: "membership.role",
+      entityType: "membership",
+      entityId: userId,
+      before: { role: before.role },
+      after: { role },
+    });
   });
 }
 
 /** Removal ends the person's sessions, so a page left open cannot keep acting for them. */
 export async function removeMember(actor: SessionUser, campaignId: string, userId: string): Promise<void> {
   await db.transaction(async (tx) => {
-    const [before] = await tx.delete(memberships).where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, userId))).returning();
+    const [before] = await tx
+      .delete(memberships)
+      .where(and(eq(memberships.campaignId, campaignId), eq(memberships.userId, userId)))
+      .returning();
     if (!before) throw new AppError("not_found", "That person is not a member of this campaign.");
-    await audit(tx, actor, { campaignId, action: "membership.remove", entityType: "membership", entityId: userId, before: { role: before.role } });
+    await audit(tx, actor, {
+      campaignId,
+      action: "membership.remove",
+      entityType: "membership",
+      entityId: userId,
+      before: { role: before.role },
+    });
   });
   await endAllSessions(userId);
 }
@@ -106,7 +179,10 @@ export async function auditEntries(f: AuditFilter) {
       .orderBy(desc(auditLog.at), desc(auditLog.id))
       .limit(f.limit)
       .offset(f.offset),
-    db.select({ n: sql<number>`count(*)::int` }).from(auditLog).where(where),
+    db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(auditLog)
+      .where(where),
   ]);
   return { items, total: total?.n ?? 0 };
 }

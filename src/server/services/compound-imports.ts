@@ -10,7 +10,13 @@ import { audit } from "./audit";
 import { formatRegistryId, type PreparedCompound } from "./compounds";
 import { env } from "@/env";
 import { prepareAll } from "./compound-prepare-pool";
-import { MAX_IMPORT_BYTES, MAX_IMPORT_RECORDS, type ImportFormat, type ImportIssue, type ImportParseResult } from "@/lib/chem/import-types";
+import {
+  MAX_IMPORT_BYTES,
+  MAX_IMPORT_RECORDS,
+  type ImportFormat,
+  type ImportIssue,
+  type ImportParseResult,
+} from "@/lib/chem/import-types";
 import { parseCsvImport } from "@/lib/chem/import-table";
 import { parseSdfImport } from "@/lib/chem/import-sdf";
 import type { PreparedRecord } from "@/lib/chem/import-prepare";
@@ -44,12 +50,24 @@ export type ImportResult = {
   notRegistered: { record: number; line: number; field: string; reason: string }[];
 };
 
-const FORMATS: Record<string, ImportFormat> = { csv: "csv", tsv: "csv", txt: "csv", xlsx: "xlsx", sdf: "sdf", sd: "sdf" };
+const FORMATS: Record<string, ImportFormat> = {
+  csv: "csv",
+  tsv: "csv",
+  txt: "csv",
+  xlsx: "xlsx",
+  sdf: "sdf",
+  sd: "sdf",
+};
 
 export function importFormatOf(fileName: string): ImportFormat {
   const ext = /\.([A-Za-z0-9]+)$/.exec(fileName)?.[1]?.toLowerCase() ?? "";
   const f = FORMATS[ext];
-  if (!f) throw new AppError("bad_request", `${fileName.slice(0, 80)}: use a .csv, .xlsx or .sdf file (this one ends in "${ext ? `.${ext}` : "no extension"}").`, { details: [{ field: "file", message: "Unsupported file type." }] });
+  if (!f)
+    throw new AppError(
+      "bad_request",
+      `${fileName.slice(0, 80)}: use a .csv, .xlsx or .sdf file (this one ends in "${ext ? `.${ext}` : "no extension"}").`,
+      { details: [{ field: "file", message: "Unsupported file type." }] },
+    );
   return f;
 }
 
@@ -63,15 +81,28 @@ const running = new Map<string, Promise<void>>();
  * reads it), create the job row and start preparing it in the background. Returns at once; the
  * page polls the job for progress.
  */
-export async function startImport(actor: Actor, input: { fileName: string; contentType?: string; bytes: Uint8Array }): Promise<{ job: ImportJob; done: Promise<void> }> {
+export async function startImport(
+  actor: Actor,
+  input: { fileName: string; contentType?: string; bytes: Uint8Array },
+): Promise<{ job: ImportJob; done: Promise<void> }> {
   const fileName = input.fileName.replace(/[\r\n\t]/g, " ").slice(0, 200) || "upload";
-  if (input.bytes.byteLength === 0) throw new AppError("bad_request", `${fileName}: the file is empty.`, { details: [{ field: "file", message: "The file is empty." }] });
-  if (input.bytes.byteLength > MAX_IMPORT_BYTES) throw new AppError("too_large", `${fileName} is ${(input.bytes.byteLength / 1024 / 1024).toFixed(1)} MB; the limit is ${MAX_IMPORT_BYTES / 1024 / 1024} MB.`);
+  if (input.bytes.byteLength === 0)
+    throw new AppError("bad_request", `${fileName}: the file is empty.`, {
+      details: [{ field: "file", message: "The file is empty." }],
+    });
+  if (input.bytes.byteLength > MAX_IMPORT_BYTES)
+    throw new AppError(
+      "too_large",
+      `${fileName} is ${(input.bytes.byteLength / 1024 / 1024).toFixed(1)} MB; the limit is ${MAX_IMPORT_BYTES / 1024 / 1024} MB.`,
+    );
   const format = importFormatOf(fileName);
   const sha256 = crypto.createHash("sha256").update(input.bytes).digest("hex");
   const s3Key = importS3Key(sha256);
   await putObject(s3Key, input.bytes, input.contentType || "application/octet-stream", sha256);
-  const [job] = await db.insert(compoundImports).values({ fileName, sha256, s3Key, sizeBytes: input.bytes.byteLength, format, createdBy: actor.id }).returning();
+  const [job] = await db
+    .insert(compoundImports)
+    .values({ fileName, sha256, s3Key, sizeBytes: input.bytes.byteLength, format, createdBy: actor.id })
+    .returning();
   const done = prepareJob(job!.id).finally(() => running.delete(job!.id));
   running.set(job!.id, done);
   return { job: job!, done };
@@ -111,7 +142,11 @@ function toPrepared(p: PreparedRecord): PreparedCompound {
 async function prepareJob(id: string): Promise<void> {
   const t0 = performance.now();
   try {
-    const [job] = await db.update(compoundImports).set({ status: "preparing", updatedAt: new Date() }).where(eq(compoundImports.id, id)).returning();
+    const [job] = await db
+      .update(compoundImports)
+      .set({ status: "preparing", updatedAt: new Date() })
+      .where(eq(compoundImports.id, id))
+      .returning();
     const bytes = await getObject(job!.s3Key);
     const check = crypto.createHash("sha256").update(bytes).digest("hex");
     if (check !== job!.sha256) throw new AppError("internal", "The stored file does not match its checksum.");
@@ -119,22 +154,38 @@ async function prepareJob(id: string): Promise<void> {
     const parsed = await parseFile(job!.format as ImportFormat, bytes);
     const parseMs = performance.now() - tParse;
     if (parsed.fileErrors.length > 0) {
-      await db.update(compoundImports).set({ status: "failed", error: `${job!.fileName}: ${parsed.fileErrors.join(" ")}`, updatedAt: new Date() }).where(eq(compoundImports.id, id));
+      await db
+        .update(compoundImports)
+        .set({ status: "failed", error: `${job!.fileName}: ${parsed.fileErrors.join(" ")}`, updatedAt: new Date() })
+        .where(eq(compoundImports.id, id));
       return;
     }
     if (parsed.totalRecords > MAX_IMPORT_RECORDS) {
-      await db.update(compoundImports).set({ status: "failed", error: `${job!.fileName} has ${parsed.totalRecords} records; the limit is ${MAX_IMPORT_RECORDS.toLocaleString("en")}.`, updatedAt: new Date() }).where(eq(compoundImports.id, id));
+      await db
+        .update(compoundImports)
+        .set({
+          status: "failed",
+          error: `${job!.fileName} has ${parsed.totalRecords} records; the limit is ${MAX_IMPORT_RECORDS.toLocaleString("en")}.`,
+          updatedAt: new Date(),
+        })
+        .where(eq(compoundImports.id, id));
       return;
     }
     // Progress counts every record of the file; those refused by the form checks are already done.
     const formRejected = parsed.totalRecords - parsed.records.length;
-    await db.update(compoundImports).set({ progressTotal: parsed.totalRecords, progressDone: formRejected }).where(eq(compoundImports.id, id));
+    await db
+      .update(compoundImports)
+      .set({ progressTotal: parsed.totalRecords, progressDone: formRejected })
+      .where(eq(compoundImports.id, id));
     let lastWrite = 0;
     const tStructures = performance.now();
     const prep = await prepareAll(parsed.records, async (done, total) => {
       if (done === total || performance.now() - lastWrite > 400) {
         lastWrite = performance.now();
-        await db.update(compoundImports).set({ progressDone: formRejected + done, updatedAt: new Date() }).where(eq(compoundImports.id, id));
+        await db
+          .update(compoundImports)
+          .set({ progressDone: formRejected + done, updatedAt: new Date() })
+          .where(eq(compoundImports.id, id));
       }
     });
     const structuresMs = performance.now() - tStructures;
@@ -146,7 +197,10 @@ async function prepareJob(id: string): Promise<void> {
     const existing = new Map<string, string>();
     const existingFlat = new Map<string, string>();
     for (let i = 0; i < keys.length; i += 2000) {
-      const rows = await db.select({ key: compounds.structureKey, flat: compounds.flatKey, registryId: compounds.registryId }).from(compounds).where(inArray(compounds.flatKey, flats.slice(i, i + 2000)));
+      const rows = await db
+        .select({ key: compounds.structureKey, flat: compounds.flatKey, registryId: compounds.registryId })
+        .from(compounds)
+        .where(inArray(compounds.flatKey, flats.slice(i, i + 2000)));
       for (const r of rows) {
         existing.set(r.key, r.registryId);
         if (!existingFlat.has(r.flat)) existingFlat.set(r.flat, r.registryId);
@@ -157,8 +211,20 @@ async function prepareJob(id: string): Promise<void> {
       const field = p.smiles !== undefined ? "smiles" : "molfile";
       const dup = existing.get(p.properties.structureKey);
       const sib = existingFlat.get(p.properties.flatKey);
-      if (dup) issues.push({ record: p.recordNo, line: p.line, field, message: `Already registered as ${dup}; add a batch to ${dup} instead.` });
-      else if (sib) issues.push({ record: p.recordNo, line: p.line, field, message: `Another stereo form is registered as ${sib}; register this one with the form and a reason.` });
+      if (dup)
+        issues.push({
+          record: p.recordNo,
+          line: p.line,
+          field,
+          message: `Already registered as ${dup}; add a batch to ${dup} instead.`,
+        });
+      else if (sib)
+        issues.push({
+          record: p.recordNo,
+          line: p.line,
+          field,
+          message: `Another stereo form is registered as ${sib}; register this one with the form and a reason.`,
+        });
       else good.push(p);
     }
     issues.sort((a, b) => a.record - b.record || a.line - b.line);
@@ -173,7 +239,16 @@ async function prepareJob(id: string): Promise<void> {
       issues,
       warnings: prep.warnings,
       ignoredFields: parsed.ignoredFields,
-      sample: good.slice(0, 50).map((p) => ({ record: p.recordNo, line: p.line, name: p.name ?? null, smiles: p.properties.canonicalSmiles, formula: p.properties.formula, mw: p.properties.mwGPerMol })),
+      sample: good
+        .slice(0, 50)
+        .map((p) => ({
+          record: p.recordNo,
+          line: p.line,
+          name: p.name ?? null,
+          smiles: p.properties.canonicalSmiles,
+          formula: p.properties.formula,
+          mw: p.properties.mwGPerMol,
+        })),
       threads: prep.threads,
       prepareMs: 0,
     };
@@ -181,16 +256,37 @@ async function prepareJob(id: string): Promise<void> {
     await db.transaction(async (tx) => {
       await tx.delete(compoundImportRows).where(eq(compoundImportRows.importId, id));
       for (let i = 0; i < good.length; i += 1000) {
-        await tx.insert(compoundImportRows).values(good.slice(i, i + 1000).map((p) => ({ importId: id, recordNo: p.recordNo, line: p.line, ok: true, data: toPrepared(p) })));
+        await tx
+          .insert(compoundImportRows)
+          .values(
+            good
+              .slice(i, i + 1000)
+              .map((p) => ({ importId: id, recordNo: p.recordNo, line: p.line, ok: true, data: toPrepared(p) })),
+          );
       }
       preview.prepareMs = Math.round(performance.now() - t0);
-      preview.timings = { parseMs: Math.round(parseMs), structuresMs: Math.round(structuresMs), checkMs: Math.round(checkMs), storeMs: Math.round(performance.now() - tStore) };
-      await tx.update(compoundImports).set({ status: "ready", preview, progressDone: parsed.totalRecords, updatedAt: new Date() }).where(eq(compoundImports.id, id));
+      preview.timings = {
+        parseMs: Math.round(parseMs),
+        structuresMs: Math.round(structuresMs),
+        checkMs: Math.round(checkMs),
+        storeMs: Math.round(performance.now() - tStore),
+      };
+      await tx
+        .update(compoundImports)
+        .set({ status: "ready", preview, progressDone: parsed.totalRecords, updatedAt: new Date() })
+        .where(eq(compoundImports.id, id));
     });
   } catch (e) {
-    const message = e instanceof AppError && e.code !== "internal" ? e.message : "Preparing the file failed on our side; the error has been logged. Try again, or split the file.";
+    const message =
+      e instanceof AppError && e.code !== "internal"
+        ? e.message
+        : "Preparing the file failed on our side; the error has been logged. Try again, or split the file.";
     console.error("[inhibitrack] compound import preparation failed", id, e);
-    await db.update(compoundImports).set({ status: "failed", error: message, updatedAt: new Date() }).where(eq(compoundImports.id, id)).catch(() => undefined);
+    await db
+      .update(compoundImports)
+      .set({ status: "failed", error: message, updatedAt: new Date() })
+      .where(eq(compoundImports.id, id))
+      .catch(() => undefined);
   }
 }
 
@@ -199,10 +295,18 @@ export async function getImport(id: string): Promise<ImportJob> {
   const [job] = await db.select().from(compoundImports).where(eq(compoundImports.id, id));
   if (!job) throw new AppError("not_found", "No such import.");
   // Preparation runs in the server process: after a restart an unfinished job would wait forever.
-  if ((job.status === "stored" || job.status === "preparing") && !running.has(id) && Date.now() - job.updatedAt.getTime() > STALE_MS) {
+  if (
+    (job.status === "stored" || job.status === "preparing") &&
+    !running.has(id) &&
+    Date.now() - job.updatedAt.getTime() > STALE_MS
+  ) {
     const [failed] = await db
       .update(compoundImports)
-      .set({ status: "failed", error: `Checking ${job.fileName} was interrupted (the server restarted). Upload the file again; nothing was registered.`, updatedAt: new Date() })
+      .set({
+        status: "failed",
+        error: `Checking ${job.fileName} was interrupted (the server restarted). Upload the file again; nothing was registered.`,
+        updatedAt: new Date(),
+      })
       .where(and(eq(compoundImports.id, id), eq(compoundImports.updatedAt, job.updatedAt)))
       .returning();
     return failed ?? job;
@@ -238,13 +342,26 @@ export function importView(job: ImportJob, opts: { maxIssues?: number } = {}) {
       warnings: preview.warnings.slice(0, max),
       warningsTotal: preview.warnings.length,
     },
-    result: result && { mode: result.mode, registered: result.registered.length, notRegistered: result.notRegistered.length, firstRegistryId: result.registered[0]?.registryId ?? null, lastRegistryId: result.registered.at(-1)?.registryId ?? null },
+    result: result && {
+      mode: result.mode,
+      registered: result.registered.length,
+      notRegistered: result.notRegistered.length,
+      firstRegistryId: result.registered[0]?.registryId ?? null,
+      lastRegistryId: result.registered.at(-1)?.registryId ?? null,
+    },
   };
 }
 
 export async function listImports(limit = 20) {
   return db
-    .select({ id: compoundImports.id, fileName: compoundImports.fileName, status: compoundImports.status, createdAt: compoundImports.createdAt, by: users.name, progressTotal: compoundImports.progressTotal })
+    .select({
+      id: compoundImports.id,
+      fileName: compoundImports.fileName,
+      status: compoundImports.status,
+      createdAt: compoundImports.createdAt,
+      by: users.name,
+      progressTotal: compoundImports.progressTotal,
+    })
     .from(compoundImports)
     .leftJoin(users, eq(users.id, compoundImports.createdBy))
     .orderBy(desc(compoundImports.createdAt))
@@ -266,49 +383,102 @@ export async function commitImport(actor: Actor, id: string, mode: ImportMode): 
   return db.transaction(async (tx) => {
     const [job] = await tx.select().from(compoundImports).where(eq(compoundImports.id, id)).for("update");
     if (!job) throw new AppError("not_found", "No such import.");
-    if (job.status === "committed") throw new AppError("conflict", `${job.fileName} was already registered (${job.committedAt?.toISOString().slice(0, 16).replace("T", " ")} UTC).`);
-    if (job.status !== "ready") throw new AppError("conflict", job.status === "failed" ? `${job.fileName} could not be prepared: ${job.error ?? "see the import page"}` : `${job.fileName} is still being prepared; wait for the preview.`);
+    if (job.status === "committed")
+      throw new AppError(
+        "conflict",
+        `${job.fileName} was already registered (${job.committedAt?.toISOString().slice(0, 16).replace("T", " ")} UTC).`,
+      );
+    if (job.status !== "ready")
+      throw new AppError(
+        "conflict",
+        job.status === "failed"
+          ? `${job.fileName} could not be prepared: ${job.error ?? "see the import page"}`
+          : `${job.fileName} is still being prepared; wait for the preview.`,
+      );
     const preview = job.preview as ImportPreview;
     if (mode === "all_or_nothing" && preview.invalid > 0) {
       const shown = preview.invalidRecords.slice(0, 10).join(", ");
       throw new AppError(
         "bad_request",
         `${preview.invalid} of ${preview.totalRecords} records cannot be registered (record${preview.invalid > 1 ? "s" : ""} ${shown}${preview.invalid > 10 ? ", …" : ""}). In all-or-nothing mode nothing was registered; fix the file or choose "valid records only".`,
-        { details: preview.issues.slice(0, 200).map((i) => ({ record: i.record, line: i.line, field: i.field, message: i.message })) },
+        {
+          details: preview.issues
+            .slice(0, 200)
+            .map((i) => ({ record: i.record, line: i.line, field: i.field, message: i.message })),
+        },
       );
     }
-    const rows = await tx.select().from(compoundImportRows).where(and(eq(compoundImportRows.importId, id), eq(compoundImportRows.ok, true))).orderBy(asc(compoundImportRows.recordNo));
+    const rows = await tx
+      .select()
+      .from(compoundImportRows)
+      .where(and(eq(compoundImportRows.importId, id), eq(compoundImportRows.ok, true)))
+      .orderBy(asc(compoundImportRows.recordNo));
     const items = rows.map((r) => ({ record: r.recordNo, line: r.line, data: r.data as PreparedCompound }));
     // Registered by someone else since the preview?
     const taken = new Map<string, string>();
     for (let i = 0; i < items.length; i += 2000) {
       const keys = items.slice(i, i + 2000).map((x) => x.data.properties.structureKey);
-      for (const r of await tx.select({ key: compounds.structureKey, registryId: compounds.registryId }).from(compounds).where(inArray(compounds.structureKey, keys))) taken.set(r.key, r.registryId);
+      for (const r of await tx
+        .select({ key: compounds.structureKey, registryId: compounds.registryId })
+        .from(compounds)
+        .where(inArray(compounds.structureKey, keys)))
+        taken.set(r.key, r.registryId);
     }
     const late: ImportIssue[] = [];
     const toWrite = items.filter((x) => {
       const dup = taken.get(x.data.properties.structureKey);
-      if (dup) late.push({ record: x.record, line: x.line, field: "smiles", message: `Registered as ${dup} since the preview; add a batch to ${dup} instead.` });
+      if (dup)
+        late.push({
+          record: x.record,
+          line: x.line,
+          field: "smiles",
+          message: `Registered as ${dup} since the preview; add a batch to ${dup} instead.`,
+        });
       return !dup;
     });
     if (mode === "all_or_nothing" && late.length > 0) {
-      throw new AppError("conflict", `${late.length} record(s) were registered by someone else since the preview (record ${late[0]!.record}: ${late[0]!.message}). Nothing was registered.`, {
-        details: late.map((i) => ({ record: i.record, line: i.line, field: i.field, message: i.message })),
-      });
+      throw new AppError(
+        "conflict",
+        `${late.length} record(s) were registered by someone else since the preview (record ${late[0]!.record}: ${late[0]!.message}). Nothing was registered.`,
+        {
+          details: late.map((i) => ({ record: i.record, line: i.line, field: i.field, message: i.message })),
+        },
+      );
     }
-    const created = await insertFromStaging(tx, actor, id, toWrite.map((x) => x.record));
+    const created = await insertFromStaging(
+      tx,
+      actor,
+      id,
+      toWrite.map((x) => x.record),
+    );
     const result: ImportResult = {
       mode,
-      registered: toWrite.map((x, i) => ({ record: x.record, line: x.line, registryId: created[i]!.registryId, name: x.data.name ?? null })),
+      registered: toWrite.map((x, i) => ({
+        record: x.record,
+        line: x.line,
+        registryId: created[i]!.registryId,
+        name: x.data.name ?? null,
+      })),
       notRegistered: notRegisteredFrom([...preview.issues, ...late].sort((a, b) => a.record - b.record)),
     };
-    await tx.update(compoundImports).set({ status: "committed", mode, result, committedAt: new Date(), updatedAt: new Date() }).where(eq(compoundImports.id, id));
+    await tx
+      .update(compoundImports)
+      .set({ status: "committed", mode, result, committedAt: new Date(), updatedAt: new Date() })
+      .where(eq(compoundImports.id, id));
     await tx.delete(compoundImportRows).where(eq(compoundImportRows.importId, id));
     await audit(tx, actor, {
       action: "compound.import",
       entityType: "compound_import",
       entityId: id,
-      after: { fileName: job.fileName, sha256: job.sha256, mode, registered: result.registered.length, notRegistered: new Set(result.notRegistered.map((n) => n.record)).size, first: result.registered[0]?.registryId ?? null, last: result.registered.at(-1)?.registryId ?? null },
+      after: {
+        fileName: job.fileName,
+        sha256: job.sha256,
+        mode,
+        registered: result.registered.length,
+        notRegistered: new Set(result.notRegistered.map((n) => n.record)).size,
+        first: result.registered[0]?.registryId ?? null,
+        last: result.registered.at(-1)?.registryId ?? null,
+      },
     });
     return result;
   });
@@ -322,9 +492,18 @@ export async function commitImport(actor: Actor, id: string, mode: ImportMode): 
  * Measured with bench/compounds-import.ts: about twice as fast as multi-row INSERTs with
  * parameters for 10,000 records.
  */
-async function insertFromStaging(tx: Tx, actor: Actor, importId: string, recordNos: number[]): Promise<{ registryId: string }[]> {
+async function insertFromStaging(
+  tx: Tx,
+  actor: Actor,
+  importId: string,
+  recordNos: number[],
+): Promise<{ registryId: string }[]> {
   if (recordNos.length === 0) return [];
-  const numbers = (await tx.execute<{ n: number }>(sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${recordNos.length}::int)`))
+  const numbers = (
+    await tx.execute<{ n: number }>(
+      sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${recordNos.length}::int)`,
+    )
+  )
     .map((r) => Number(r.n))
     .sort((a, b) => a - b);
   const recs = sql`${`{${recordNos.join(",")}}`}::int[]`;
@@ -378,10 +557,25 @@ export function importReportCsv(job: ImportJob): string {
   type Line = { record: number; line: number; cells: (string | number | null)[] };
   const out: Line[] = [];
   if (result) {
-    for (const r of result.registered) out.push({ record: r.record, line: r.line, cells: [r.record, r.line, "registered", r.registryId, r.name, "", ""] });
-    for (const n of result.notRegistered) out.push({ record: n.record, line: n.line, cells: [n.record, n.line, "not registered", "", "", n.field, n.reason] });
+    for (const r of result.registered)
+      out.push({
+        record: r.record,
+        line: r.line,
+        cells: [r.record, r.line, "registered", r.registryId, r.name, "", ""],
+      });
+    for (const n of result.notRegistered)
+      out.push({
+        record: n.record,
+        line: n.line,
+        cells: [n.record, n.line, "not registered", "", "", n.field, n.reason],
+      });
   } else if (preview) {
-    for (const i of preview.issues) out.push({ record: i.record, line: i.line, cells: [i.record, i.line, "problem (not yet registered)", "", "", i.field, i.message] });
+    for (const i of preview.issues)
+      out.push({
+        record: i.record,
+        line: i.line,
+        cells: [i.record, i.line, "problem (not yet registered)", "", "", i.field, i.message],
+      });
   }
   out.sort((a, b) => a.record - b.record);
   for (const l of out) lines.push(l.cells.map(csvCell).join(","));

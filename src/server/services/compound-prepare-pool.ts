@@ -30,7 +30,10 @@ function split<T>(xs: readonly T[], n: number): T[][] {
 
 const yieldToLoop = () => new Promise<void>((r) => setImmediate(r));
 
-async function inThread(chunks: ImportRecord[][], onChunk: (i: number, r: ChunkResult) => Promise<void> | void): Promise<void> {
+async function inThread(
+  chunks: ImportRecord[][],
+  onChunk: (i: number, r: ChunkResult) => Promise<void> | void,
+): Promise<void> {
   for (const [i, c] of chunks.entries()) {
     await onChunk(i, prepareImport(c, { duplicates: "warn" }));
     await yieldToLoop();
@@ -42,7 +45,10 @@ function startWorker(): Promise<Worker> {
     // Started from a one-line script, not a file path, so the Next.js bundler does not try to
     // bundle the worker (and tsx with it): the worker loads the TypeScript source at run time.
     const boot = pathToFileURL(path.join(WORKER_DIR, "boot.mjs")).href;
-    const w = new Worker(`import(${JSON.stringify(boot)}).catch((e) => { throw e; });`, { eval: true, workerData: { file: path.join(WORKER_DIR, "compound-prepare.worker.ts") } });
+    const w = new Worker(`import(${JSON.stringify(boot)}).catch((e) => { throw e; });`, {
+      eval: true,
+      workerData: { file: path.join(WORKER_DIR, "compound-prepare.worker.ts") },
+    });
     const fail = (e: unknown) => reject(e instanceof Error ? e : new Error(String(e)));
     w.once("online", () => {
       w.off("error", fail);
@@ -52,7 +58,11 @@ function startWorker(): Promise<Worker> {
   });
 }
 
-async function inWorkers(count: number, chunks: ImportRecord[][], onChunk: (i: number, r: ChunkResult) => Promise<void> | void): Promise<void> {
+async function inWorkers(
+  count: number,
+  chunks: ImportRecord[][],
+  onChunk: (i: number, r: ChunkResult) => Promise<void> | void,
+): Promise<void> {
   const workers = await Promise.all(Array.from({ length: count }, startWorker));
   let next = 0;
   try {
@@ -70,7 +80,9 @@ async function inWorkers(count: number, chunks: ImportRecord[][], onChunk: (i: n
               Promise.resolve(onChunk(m.id, m.result)).then(send, reject);
             });
             w.once("error", reject);
-            w.once("exit", (code) => (code !== 0 ? reject(new Error(`A preparation worker stopped (exit ${code}).`)) : undefined));
+            w.once("exit", (code) =>
+              code !== 0 ? reject(new Error(`A preparation worker stopped (exit ${code}).`)) : undefined,
+            );
             send();
           }),
       ),
@@ -83,7 +95,11 @@ async function inWorkers(count: number, chunks: ImportRecord[][], onChunk: (i: n
 export type PrepareProgress = (done: number, total: number) => Promise<void> | void;
 
 /** prepareImport over all records, in parallel where it pays; results in record order. */
-export async function prepareAll(records: readonly ImportRecord[], onProgress?: PrepareProgress, opts: { threads?: number } = {}): Promise<PrepareResult & { threads: number }> {
+export async function prepareAll(
+  records: readonly ImportRecord[],
+  onProgress?: PrepareProgress,
+  opts: { threads?: number } = {},
+): Promise<PrepareResult & { threads: number }> {
   const chunks = split(records, CHUNK);
   const results: ChunkResult[] = new Array(chunks.length);
   let done = 0;
@@ -117,17 +133,30 @@ function merge(results: ChunkResult[]): PrepareResult {
   const byFlat = new Map<string, PreparedRecord>();
   for (const r of results) {
     issues.push(...r.issues);
-    warnings.push(...r.warnings.filter((w) => !w.message.startsWith(DUP_PREFIX) && !w.message.startsWith(STEREO_PREFIX)));
+    warnings.push(
+      ...r.warnings.filter((w) => !w.message.startsWith(DUP_PREFIX) && !w.message.startsWith(STEREO_PREFIX)),
+    );
     for (const p of r.prepared) {
       const field = p.smiles !== undefined ? "smiles" : "molfile";
       const first = byKey.get(p.properties.structureKey);
       if (first) {
-        issues.push({ record: p.recordNo, line: p.line, field, message: `Same structure as record ${first.recordNo} (line ${first.line}).` });
+        issues.push({
+          record: p.recordNo,
+          line: p.line,
+          field,
+          message: `Same structure as record ${first.recordNo} (line ${first.line}).`,
+        });
         continue;
       }
       byKey.set(p.properties.structureKey, p);
       const sibling = byFlat.get(p.properties.flatKey);
-      if (sibling) warnings.push({ record: p.recordNo, line: p.line, field, message: `Another stereo form of record ${sibling.recordNo} (line ${sibling.line}); both will be registered.` });
+      if (sibling)
+        warnings.push({
+          record: p.recordNo,
+          line: p.line,
+          field,
+          message: `Another stereo form of record ${sibling.recordNo} (line ${sibling.line}); both will be registered.`,
+        });
       else byFlat.set(p.properties.flatKey, p);
       prepared.push(p);
     }

@@ -33,14 +33,20 @@ beforeAll(async () => {
 });
 
 type Json = Record<string, unknown>;
-const post = (body: unknown, who: "chemist" | "admin" = "chemist") => callRoute(compoundsRoute.POST, { user: w.people[who], method: "POST", path: "/api/compounds", body });
-const getOne = (registryId: string) => callRoute(compoundRoute.GET, { user: w.people.viewer, path: `/api/compounds/${registryId}`, params: { registryId } });
+const post = (body: unknown, who: "chemist" | "admin" = "chemist") =>
+  callRoute(compoundsRoute.POST, { user: w.people[who], method: "POST", path: "/api/compounds", body });
+const getOne = (registryId: string) =>
+  callRoute(compoundRoute.GET, { user: w.people.viewer, path: `/api/compounds/${registryId}`, params: { registryId } });
 const search = (qs: string) => callRoute(compoundsRoute.GET, { user: w.people.viewer, path: `/api/compounds?${qs}` });
 
 /** Registers, or finds the registry ID when an earlier test file registered the same structure. */
-async function registerOrFind(smiles: string, name?: string): Promise<{ registryId: string; created: boolean; json: Json }> {
+async function registerOrFind(
+  smiles: string,
+  name?: string,
+): Promise<{ registryId: string; created: boolean; json: Json }> {
   const r = await post({ smiles, name });
-  if (r.status === 201) return { registryId: (r.json as Json).registryId as string, created: true, json: r.json as Json };
+  if (r.status === 201)
+    return { registryId: (r.json as Json).registryId as string, created: true, json: r.json as Json };
   expect(r.status).toBe(409);
   return { registryId: (r.json as Json).registryId as string, created: false, json: r.json as Json };
 }
@@ -116,19 +122,33 @@ describe("registering through POST /api/compounds", () => {
     expect((r.json as Json).error).toMatch(/Another stereo form of this structure is registered as INH-\d{6}/);
     const r2 = await post({ smiles: s, distinctReason: "single enantiomer, (S) as drawn" });
     expect(r2.status).toBe(201);
-    const [row] = await db.select().from(compounds).where(eq(compounds.registryId, (r2.json as Json).registryId as string));
+    const [row] = await db
+      .select()
+      .from(compounds)
+      .where(eq(compounds.registryId, (r2.json as Json).registryId as string));
     expect(row!.distinctReason).toBe("single enantiomer, (S) as drawn");
   });
 
   it("keeps the parent of a salt and records the counter-ion as the batch's salt form", async () => {
     const smiles = `${uniqueSmiles()}.Cl`;
-    const r = await post({ smiles, batch: { supplier: "Invented Supplier", purityPct: 98.5, amount: 12, amountUnit: "mg" }, stock: { concentrationMm: 10, solvent: "DMSO", volumeUl: 500 } });
+    const r = await post({
+      smiles,
+      batch: { supplier: "Invented Supplier", purityPct: 98.5, amount: 12, amountUnit: "mg" },
+      stock: { concentrationMm: 10, solvent: "DMSO", volumeUl: 500 },
+    });
     expect(r.status).toBe(201);
     const j = r.json as Json;
     expect(j.batchNumber).toBe(1);
     expect(j.formula as string).not.toContain("Cl");
     const d = await getCompound(j.registryId as string);
-    expect(d.batches[0]).toMatchObject({ batchNumber: 1, saltForm: "Cl", supplier: "Invented Supplier", purityPct: 98.5, amount: 12, amountUnit: "mg" });
+    expect(d.batches[0]).toMatchObject({
+      batchNumber: 1,
+      saltForm: "Cl",
+      supplier: "Invented Supplier",
+      purityPct: 98.5,
+      amount: 12,
+      amountUnit: "mg",
+    });
     expect(d.stocks[0]).toMatchObject({ batchNumber: 1, concentrationMm: 10, solvent: "DMSO", volumeUl: 500 });
     await addBatch(w.people.chemist, j.registryId as string, { supplier: "Second lot (invented)" });
     expect((await getCompound(j.registryId as string)).batches.map((b) => b.batchNumber)).toEqual([1, 2]);
@@ -137,12 +157,20 @@ describe("registering through POST /api/compounds", () => {
   it("records a structure edit in the audit log with before, after and reason, in the same transaction", async () => {
     const { registryId } = await registerOrFind(uniqueSmiles());
     const newSmiles = uniqueSmiles();
-    await editCompound(w.people.chemist, registryId, { smiles: newSmiles, reason: "corrected chain length after NMR (invented)" });
-    const [a] = await db.select().from(auditLog).where(and(eq(auditLog.entityId, registryId), eq(auditLog.action, "compound.structure.edit")));
+    await editCompound(w.people.chemist, registryId, {
+      smiles: newSmiles,
+      reason: "corrected chain length after NMR (invented)",
+    });
+    const [a] = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, registryId), eq(auditLog.action, "compound.structure.edit")));
     expect(a!.reason).toBe("corrected chain length after NMR (invented)");
     expect(a!.actorId).toBe(w.people.chemist.id);
     expect((a!.before as Json).smiles).not.toBe((a!.after as Json).smiles);
-    await expect(editCompound(w.people.chemist, registryId, { smiles: uniqueSmiles() })).rejects.toThrow(/needs a reason/);
+    await expect(editCompound(w.people.chemist, registryId, { smiles: uniqueSmiles() })).rejects.toThrow(
+      /needs a reason/,
+    );
   });
 });
 
@@ -169,12 +197,20 @@ describe("search", () => {
 
   it("finds substructures through the fingerprint prefilter and the exact check", async () => {
     const { registryId } = await registerOrFind("CC(=O)Oc1ccccc1C(=O)O");
-    const r = (await search(`substructure=${encodeURIComponent("OC(=O)c1ccccc1")}&limit=200`)).json as { items: Json[]; total: number; totalIsLowerBound: boolean; substructure: Json };
+    const r = (await search(`substructure=${encodeURIComponent("OC(=O)c1ccccc1")}&limit=200`)).json as {
+      items: Json[];
+      total: number;
+      totalIsLowerBound: boolean;
+      substructure: Json;
+    };
     expect(r.items.map((i) => i.registryId)).toContain(registryId);
     expect(r.totalIsLowerBound).toBe(false);
     expect(r.items.length).toBe(r.total);
     // Every hit really contains the fragment (checked here with the exact matcher over the whole table).
-    const none = (await search(`substructure=${encodeURIComponent("C1CCCCCCCCCCC1")}`)).json as { items: Json[]; total: number };
+    const none = (await search(`substructure=${encodeURIComponent("C1CCCCCCCCCCC1")}`)).json as {
+      items: Json[];
+      total: number;
+    };
     expect(none.total).toBe(0);
     const bad = await search(`substructure=${encodeURIComponent("c1ccc")}`);
     expect(bad.status).toBe(400);
@@ -196,12 +232,35 @@ describe("search", () => {
 describe("results across campaigns", () => {
   it("shows a compound's current results only in campaigns the person is a member of", async () => {
     const { registryId } = await registerOrFind(uniqueSmiles());
-    const [e] = await db.insert(experiments).values({ campaignId: w.campaignId, name: "Invented screen", kind: "single-dose" }).returning();
+    const [e] = await db
+      .insert(experiments)
+      .values({ campaignId: w.campaignId, name: "Invented screen", kind: "single-dose" })
+      .returning();
     const [a] = await db
       .insert(analyses)
-      .values({ experimentId: e!.id, campaignId: w.campaignId, status: "done", engineVersion: "test", inputHash: crypto.randomBytes(8).toString("hex"), inputs: { runs: [], masks: [], settings: {} } as never, isCurrent: true })
+      .values({
+        experimentId: e!.id,
+        campaignId: w.campaignId,
+        status: "done",
+        engineVersion: "test",
+        inputHash: crypto.randomBytes(8).toString("hex"),
+        inputs: { runs: [], masks: [], settings: {} } as never,
+        isCurrent: true,
+      })
       .returning();
-    await db.insert(compoundResults).values({ analysisId: a!.id, experimentId: e!.id, campaignId: w.campaignId, kind: "single-dose", compoundId: registryId, nPoints: 2, pctInhibition: 63.5, hit: true, detail: {} });
+    await db
+      .insert(compoundResults)
+      .values({
+        analysisId: a!.id,
+        experimentId: e!.id,
+        campaignId: w.campaignId,
+        kind: "single-dose",
+        compoundId: registryId,
+        nPoints: 2,
+        pctInhibition: 63.5,
+        hit: true,
+        detail: {},
+      });
     const seen = await resultsForCompound({ id: w.people.viewer.id, globalRole: "member" }, registryId);
     expect(seen).toHaveLength(1);
     expect(seen[0]).toMatchObject({ experiment: "Invented screen", pctInhibition: 63.5, hit: true });
@@ -214,7 +273,9 @@ describe("libraries", () => {
   it("creates a library from a pasted list, and refuses unknown IDs without creating anything", async () => {
     const ids = [await registerOrFind(uniqueSmiles()), await registerOrFind(uniqueSmiles())].map((x) => x.registryId);
     const name = `Follow-up ${crypto.randomBytes(3).toString("hex")} (invented)`;
-    await expect(createLibrary(w.people.chemist, { name, ids: `${ids[0]}\nINH-999999` })).rejects.toThrow(/Not in the registry: INH-999999\. Nothing was added\./);
+    await expect(createLibrary(w.people.chemist, { name, ids: `${ids[0]}\nINH-999999` })).rejects.toThrow(
+      /Not in the registry: INH-999999\. Nothing was added\./,
+    );
     expect(await db.select().from(compoundLibraries).where(eq(compoundLibraries.name, name))).toHaveLength(0);
     const lib = await createLibrary(w.people.chemist, { name, ids: `${ids[0]}, ${ids[1]}\n${ids[0]}` });
     expect(lib.added).toBe(2);
@@ -228,14 +289,34 @@ describe("bulk import", () => {
   const upload = async (name: string, text: string | Uint8Array<ArrayBuffer>) => {
     const form = new FormData();
     form.append("file", new File([text], name, { type: "application/octet-stream" }));
-    const r = await callRoute(importsRoute.POST, { user: w.people.chemist, method: "POST", path: "/api/compound-imports", body: form });
+    const r = await callRoute(importsRoute.POST, {
+      user: w.people.chemist,
+      method: "POST",
+      path: "/api/compound-imports",
+      body: form,
+    });
     expect(r.status).toBe(202);
     const id = (r.json as Json).id as string;
     await waitForImport(id);
-    return { id, view: (await callRoute(importRoute.GET, { user: w.people.chemist, path: `/api/compound-imports/${id}`, params: { importId: id } })).json as Json };
+    return {
+      id,
+      view: (
+        await callRoute(importRoute.GET, {
+          user: w.people.chemist,
+          path: `/api/compound-imports/${id}`,
+          params: { importId: id },
+        })
+      ).json as Json,
+    };
   };
   const commit = (id: string, mode: string) =>
-    callRoute(commitRoute.POST, { user: w.people.chemist, method: "POST", path: `/api/compound-imports/${id}/commit`, params: { importId: id }, body: { mode } });
+    callRoute(commitRoute.POST, {
+      user: w.people.chemist,
+      method: "POST",
+      path: `/api/compound-imports/${id}/commit`,
+      params: { importId: id },
+      body: { mode },
+    });
 
   // Records 3, 6 and 9 are bad: an unclosed ring, a purity over 100 %, an element that does not exist.
   const records = Array.from({ length: 10 }, (_, i) => ({ smiles: uniqueSmiles(), name: `Bulk-${i + 1} (invented)` }));
@@ -252,7 +333,12 @@ describe("bulk import", () => {
     expect(view.status).toBe("ready");
     expect(view.sha256).toBe(crypto.createHash("sha256").update(csv).digest("hex"));
     expect(new TextDecoder().decode(await getObject(importS3Key(view.sha256 as string)))).toBe(csv);
-    const p = view.preview as { invalidRecords: number[]; valid: number; totalRecords: number; issues: { record: number; line: number; field: string; message: string }[] };
+    const p = view.preview as {
+      invalidRecords: number[];
+      valid: number;
+      totalRecords: number;
+      issues: { record: number; line: number; field: string; message: string }[];
+    };
     expect(p.totalRecords).toBe(10);
     expect(p.invalidRecords).toEqual([3, 6, 9]);
     expect(p.valid).toBe(7);
@@ -267,7 +353,9 @@ describe("bulk import", () => {
     const before = await counts();
     const r = await commit(id, "all_or_nothing");
     expect(r.status).toBe(400);
-    expect((r.json as Json).error).toMatch(/^3 of 10 records cannot be registered \(records 3, 6, 9\)\. In all-or-nothing mode nothing was registered/);
+    expect((r.json as Json).error).toMatch(
+      /^3 of 10 records cannot be registered \(records 3, 6, 9\)\. In all-or-nothing mode nothing was registered/,
+    );
     expect(await counts()).toEqual(before);
 
     // Valid records only: the other seven, with their batches, in one go.
@@ -278,7 +366,11 @@ describe("bulk import", () => {
     expect(after.c - before.c).toBe(7);
     expect(after.b - before.b).toBe(7);
 
-    const report = await callRoute(reportRoute.GET, { user: w.people.viewer, path: `/api/compound-imports/${id}/report`, params: { importId: id } });
+    const report = await callRoute(reportRoute.GET, {
+      user: w.people.viewer,
+      path: `/api/compound-imports/${id}/report`,
+      params: { importId: id },
+    });
     const lines = (report.json as string).trim().split("\r\n");
     expect(lines[0]).toBe("record,line,outcome,registry_id,name,field,reason");
     expect(lines.filter((l) => /,registered,INH-\d{6},/.test(l))).toHaveLength(7);
@@ -291,7 +383,11 @@ describe("bulk import", () => {
 
   it("registers a clean file in all-or-nothing mode, and refuses structures already registered", async () => {
     const existing = await registerOrFind("Cn1cnc2c1c(=O)n(C)c(=O)n2C");
-    const clean = ["smiles,name,stock_concentration_mm,stock_solvent", `${uniqueSmiles()},Clean-1 (invented),10,DMSO`, `${uniqueSmiles()},Clean-2 (invented),10,DMSO`].join("\n");
+    const clean = [
+      "smiles,name,stock_concentration_mm,stock_solvent",
+      `${uniqueSmiles()},Clean-1 (invented),10,DMSO`,
+      `${uniqueSmiles()},Clean-2 (invented),10,DMSO`,
+    ].join("\n");
     const { id } = await upload("clean.csv", clean);
     const before = await counts();
     const r = await commit(id, "all_or_nothing");
@@ -301,12 +397,21 @@ describe("bulk import", () => {
 
     const again = await upload("with-duplicate.csv", `smiles\nCN1C=NC2=C1C(=O)N(C)C(=O)N2C\n`);
     const p = again.view.preview as { issues: { message: string }[] };
-    expect(p.issues[0]!.message).toBe(`Already registered as ${existing.registryId}; add a batch to ${existing.registryId} instead.`);
+    expect(p.issues[0]!.message).toBe(
+      `Already registered as ${existing.registryId}; add a batch to ${existing.registryId} instead.`,
+    );
   });
 
   it("imports SDF (keeping the molfile) and XLSX files the same way", async () => {
     const sdfSmiles = [uniqueSmiles(), uniqueSmiles()];
-    const sdf = sdfSmiles.map((sm, i) => `${Molecule.fromSmiles(sm).toMolfile().replace(/^[^\n]*/, `SDF-${i + 1} (invented)`)}\n> <supplier>\nInvented Supplier\n\n$$$$\n`).join("");
+    const sdf = sdfSmiles
+      .map(
+        (sm, i) =>
+          `${Molecule.fromSmiles(sm)
+            .toMolfile()
+            .replace(/^[^\n]*/, `SDF-${i + 1} (invented)`)}\n> <supplier>\nInvented Supplier\n\n$$$$\n`,
+      )
+      .join("");
     const s1 = await upload("two.sdf", sdf);
     expect((s1.view.preview as { valid: number }).valid).toBe(2);
     expect((await commit(s1.id, "all_or_nothing")).status).toBe(200);
@@ -331,7 +436,12 @@ describe("bulk import", () => {
     expect(view.error as string).toMatch(/^no-smiles\.csv: /);
     const form = new FormData();
     form.append("file", new File(["x"], "compounds.pdf", { type: "application/pdf" }));
-    const r = await callRoute(importsRoute.POST, { user: w.people.chemist, method: "POST", path: "/api/compound-imports", body: form });
+    const r = await callRoute(importsRoute.POST, {
+      user: w.people.chemist,
+      method: "POST",
+      path: "/api/compound-imports",
+      body: form,
+    });
     expect(r.status).toBe(400);
     expect((r.json as Json).error).toContain("use a .csv, .xlsx or .sdf file");
   });
@@ -339,7 +449,10 @@ describe("bulk import", () => {
   it("prepares a larger file on two worker threads and keeps record order", async () => {
     const n = 700;
     const lines = ["smiles,name"];
-    for (let i = 0; i < n; i++) lines.push(`${"C".repeat(1 + (i % 25))}Oc1ccc(cc1)S(=O)(=O)N${"C".repeat(1 + Math.floor(i / 25))}${i % 2 ? "F" : "Br"},W-${i + 1}`);
+    for (let i = 0; i < n; i++)
+      lines.push(
+        `${"C".repeat(1 + (i % 25))}Oc1ccc(cc1)S(=O)(=O)N${"C".repeat(1 + Math.floor(i / 25))}${i % 2 ? "F" : "Br"},W-${i + 1}`,
+      );
     const { view } = await upload("workers.csv", lines.join("\n"));
     const p = view.preview as { threads: number; totalRecords: number; valid: number; sample: { record: number }[] };
     expect(p.totalRecords).toBe(n);

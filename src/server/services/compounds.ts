@@ -1,7 +1,19 @@
 import "server-only";
 import { and, asc, desc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { db, type Tx } from "@/server/db/client";
-import { analyses, campaigns, compoundBatches, compoundLibraries, compoundResults, compounds, experiments, libraryMembers, memberships, stockSolutions, users } from "@/server/db/schema";
+import {
+  analyses,
+  campaigns,
+  compoundBatches,
+  compoundLibraries,
+  compoundResults,
+  compounds,
+  experiments,
+  libraryMembers,
+  memberships,
+  stockSolutions,
+  users,
+} from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import { env } from "@/env";
 import type { SessionUser } from "@/server/auth/session";
@@ -31,9 +43,14 @@ export function formatRegistryId(n: number): string {
 }
 
 export function isUniqueViolation(e: unknown, constraint?: string): boolean {
-  const get = (x: unknown, k: string) => (typeof x === "object" && x !== null && k in x ? (x as Record<string, unknown>)[k] : undefined);
+  const get = (x: unknown, k: string) =>
+    typeof x === "object" && x !== null && k in x ? (x as Record<string, unknown>)[k] : undefined;
   for (const err of [e, get(e, "cause")]) {
-    if (get(err, "code") === "23505" && (!constraint || get(err, "constraint_name") === constraint || get(err, "constraint") === constraint)) return true;
+    if (
+      get(err, "code") === "23505" &&
+      (!constraint || get(err, "constraint_name") === constraint || get(err, "constraint") === constraint)
+    )
+      return true;
   }
   return false;
 }
@@ -94,10 +111,16 @@ function structureColumns(p: CompoundProperties, molfile: string | null | undefi
  * gets the lowest ID. Multi-row INSERTs of up to 1,000 rows. A structure key that is already
  * registered fails the whole transaction with a unique violation (the caller checked before).
  */
-export async function insertCompounds(tx: Tx, actor: Actor | null, items: readonly PreparedCompound[]): Promise<{ id: string; registryId: string }[]> {
+export async function insertCompounds(
+  tx: Tx,
+  actor: Actor | null,
+  items: readonly PreparedCompound[],
+): Promise<{ id: string; registryId: string }[]> {
   if (items.length === 0) return [];
   const numbers = (
-    await tx.execute<{ n: number }>(sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${items.length}::int)`)
+    await tx.execute<{ n: number }>(
+      sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${items.length}::int)`,
+    )
   )
     .map((r) => Number(r.n))
     .sort((a, b) => a - b);
@@ -116,7 +139,10 @@ export async function insertCompounds(tx: Tx, actor: Actor | null, items: readon
     };
   });
   for (const part of chunks(rows)) {
-    const ids = await tx.insert(compounds).values(part).returning({ id: compounds.id, registryId: compounds.registryId });
+    const ids = await tx
+      .insert(compounds)
+      .values(part)
+      .returning({ id: compounds.id, registryId: compounds.registryId });
     out.push(...ids);
   }
   // Batches: numbered 1… per compound, in the order given.
@@ -140,7 +166,8 @@ export async function insertCompounds(tx: Tx, actor: Actor | null, items: readon
   items.forEach((it, i) => {
     for (const s of it.stocks) {
       const batchId = batchIds.get(`${i}:${s.batchIndex}`);
-      if (!batchId) throw new AppError("bad_request", `Stock solution refers to batch ${s.batchIndex + 1}, which is not given.`);
+      if (!batchId)
+        throw new AppError("bad_request", `Stock solution refers to batch ${s.batchIndex + 1}, which is not given.`);
       stockRows.push(stockValues(batchId, s, actor));
     }
   });
@@ -148,7 +175,12 @@ export async function insertCompounds(tx: Tx, actor: Actor | null, items: readon
   return out;
 }
 
-function batchValues(compoundId: string, batchNumber: number, b: BatchInput, actor: Actor | null): typeof compoundBatches.$inferInsert {
+function batchValues(
+  compoundId: string,
+  batchNumber: number,
+  b: BatchInput,
+  actor: Actor | null,
+): typeof compoundBatches.$inferInsert {
   return {
     compoundId,
     batchNumber,
@@ -177,8 +209,13 @@ function stockValues(batchId: string, s: StockInput, actor: Actor | null): typeo
 
 /** Parses one structure for registration; a structure that is not chemistry is a 400 naming the problem. */
 export function prepareStructure(input: { smiles?: string; molfile?: string }) {
-  const parsed = parseStructure(input.smiles !== undefined ? { smiles: input.smiles } : { molfile: input.molfile ?? "" });
-  if (!parsed.ok) throw new AppError("bad_request", parsed.error, { details: [{ field: input.smiles !== undefined ? "smiles" : "molfile", message: parsed.error }] });
+  const parsed = parseStructure(
+    input.smiles !== undefined ? { smiles: input.smiles } : { molfile: input.molfile ?? "" },
+  );
+  if (!parsed.ok)
+    throw new AppError("bad_request", parsed.error, {
+      details: [{ field: input.smiles !== undefined ? "smiles" : "molfile", message: parsed.error }],
+    });
   const properties = computeProperties(parsed.molecule);
   return {
     properties,
@@ -189,14 +226,22 @@ export function prepareStructure(input: { smiles?: string; molfile?: string }) {
 }
 
 async function existingByKey(tx: Tx | typeof db, structureKey: string) {
-  const [row] = await tx.select({ id: compounds.id, registryId: compounds.registryId }).from(compounds).where(eq(compounds.structureKey, structureKey)).limit(1);
+  const [row] = await tx
+    .select({ id: compounds.id, registryId: compounds.registryId })
+    .from(compounds)
+    .where(eq(compounds.structureKey, structureKey))
+    .limit(1);
   return row;
 }
 
 function duplicateError(registryId: string): AppError {
-  return new AppError("conflict", `This structure is already registered as ${registryId}. Add a new batch to ${registryId} instead.`, {
-    extra: { registryId, reason: "duplicate" },
-  });
+  return new AppError(
+    "conflict",
+    `This structure is already registered as ${registryId}. Add a new batch to ${registryId} instead.`,
+    {
+      extra: { registryId, reason: "duplicate" },
+    },
+  );
 }
 
 export type RegisterResult = {
@@ -231,7 +276,12 @@ export async function registerCompound(actor: Actor, input: RegisterCompoundInpu
       const dup = await existingByKey(tx, p.structureKey);
       if (dup) throw duplicateError(dup.registryId);
       if (!input.distinctReason) {
-        const siblings = await tx.select({ registryId: compounds.registryId }).from(compounds).where(eq(compounds.flatKey, p.flatKey)).orderBy(asc(compounds.registryNumber)).limit(5);
+        const siblings = await tx
+          .select({ registryId: compounds.registryId })
+          .from(compounds)
+          .where(eq(compounds.flatKey, p.flatKey))
+          .orderBy(asc(compounds.registryNumber))
+          .limit(5);
         if (siblings.length > 0) {
           const ids = siblings.map((s) => s.registryId);
           throw new AppError(
@@ -257,10 +307,22 @@ export async function registerCompound(actor: Actor, input: RegisterCompoundInpu
         action: "compound.register",
         entityType: "compound",
         entityId: created!.registryId,
-        after: { registryId: created!.registryId, smiles: p.canonicalSmiles, formula: p.formula, name: input.name ?? null, distinctReason: input.distinctReason ?? null },
+        after: {
+          registryId: created!.registryId,
+          smiles: p.canonicalSmiles,
+          formula: p.formula,
+          name: input.name ?? null,
+          distinctReason: input.distinctReason ?? null,
+        },
         reason: input.distinctReason ?? null,
       });
-      return { id: created!.id, registryId: created!.registryId, properties: p, batchNumber: wantsBatch ? 1 : null, warnings };
+      return {
+        id: created!.id,
+        registryId: created!.registryId,
+        properties: p,
+        batchNumber: wantsBatch ? 1 : null,
+        warnings,
+      };
     });
   } catch (e) {
     // Two people registering the same structure at once: the unique index decides.
@@ -280,7 +342,12 @@ async function compoundByRegistryId(tx: Tx | typeof db, registryId: string, forU
 }
 
 /** Adds a batch (numbered next) to a registered compound, optionally with a stock solution made from it. */
-export async function addBatch(actor: Actor, registryId: string, batch: BatchInput, stock?: StockInput): Promise<{ batchNumber: number }> {
+export async function addBatch(
+  actor: Actor,
+  registryId: string,
+  batch: BatchInput,
+  stock?: StockInput,
+): Promise<{ batchNumber: number }> {
   return db.transaction(async (tx) => {
     const c = await compoundByRegistryId(tx, registryId, true);
     const [last] = await tx
@@ -288,15 +355,28 @@ export async function addBatch(actor: Actor, registryId: string, batch: BatchInp
       .from(compoundBatches)
       .where(eq(compoundBatches.compoundId, c.id));
     const batchNumber = (last?.n ?? 0) + 1;
-    const [b] = await tx.insert(compoundBatches).values(batchValues(c.id, batchNumber, batch, actor)).returning({ id: compoundBatches.id });
+    const [b] = await tx
+      .insert(compoundBatches)
+      .values(batchValues(c.id, batchNumber, batch, actor))
+      .returning({ id: compoundBatches.id });
     if (hasStockData(stock)) await tx.insert(stockSolutions).values(stockValues(b!.id, stock!, actor));
-    await audit(tx, actor, { action: "compound.batch.add", entityType: "compound", entityId: c.registryId, after: { batchNumber, ...batch } });
+    await audit(tx, actor, {
+      action: "compound.batch.add",
+      entityType: "compound",
+      entityId: c.registryId,
+      after: { batchNumber, ...batch },
+    });
     return { batchNumber };
   });
 }
 
 /** Records a stock solution made from batch `batchNumber` of a compound. */
-export async function addStock(actor: Actor, registryId: string, batchNumber: number, stock: StockInput): Promise<void> {
+export async function addStock(
+  actor: Actor,
+  registryId: string,
+  batchNumber: number,
+  stock: StockInput,
+): Promise<void> {
   await db.transaction(async (tx) => {
     const c = await compoundByRegistryId(tx, registryId);
     const [b] = await tx
@@ -305,7 +385,12 @@ export async function addStock(actor: Actor, registryId: string, batchNumber: nu
       .where(and(eq(compoundBatches.compoundId, c.id), eq(compoundBatches.batchNumber, batchNumber)));
     if (!b) throw new AppError("not_found", `${c.registryId} has no batch ${batchNumber}.`);
     await tx.insert(stockSolutions).values(stockValues(b.id, stock, actor));
-    await audit(tx, actor, { action: "compound.stock.add", entityType: "compound", entityId: c.registryId, after: { batchNumber, ...stock } });
+    await audit(tx, actor, {
+      action: "compound.stock.add",
+      entityType: "compound",
+      entityId: c.registryId,
+      after: { batchNumber, ...stock },
+    });
   });
 }
 
@@ -320,7 +405,10 @@ export async function editCompound(
   input: { name?: string; aliases?: string[]; smiles?: string; molfile?: string; reason?: string },
 ): Promise<void> {
   const prep = input.smiles !== undefined || input.molfile !== undefined ? prepareStructure(input) : null;
-  if (prep && !input.reason) throw new AppError("bad_request", "A structure edit needs a reason (it is recorded in the audit log).", { details: [{ field: "reason", message: "Give a reason for the structure edit." }] });
+  if (prep && !input.reason)
+    throw new AppError("bad_request", "A structure edit needs a reason (it is recorded in the audit log).", {
+      details: [{ field: "reason", message: "Give a reason for the structure edit." }],
+    });
   await db.transaction(async (tx) => {
     const c = await compoundByRegistryId(tx, registryId, true);
     const set: Partial<typeof compounds.$inferInsert> = { updatedAt: new Date() };
@@ -337,7 +425,11 @@ export async function editCompound(
       entityType: "compound",
       entityId: c.registryId,
       before: { name: c.name, aliases: c.aliases, ...(prep ? { smiles: c.canonicalSmiles, formula: c.formula } : {}) },
-      after: { name: set.name ?? c.name, aliases: set.aliases ?? c.aliases, ...(prep ? { smiles: prep.properties.canonicalSmiles, formula: prep.properties.formula } : {}) },
+      after: {
+        name: set.name ?? c.name,
+        aliases: set.aliases ?? c.aliases,
+        ...(prep ? { smiles: prep.properties.canonicalSmiles, formula: prep.properties.formula } : {}),
+      },
       reason: input.reason ?? null,
     });
   });
@@ -391,7 +483,9 @@ export async function getCompound(registryId: string) {
       .innerJoin(compoundLibraries, eq(compoundLibraries.id, libraryMembers.libraryId))
       .where(eq(libraryMembers.compoundId, c.id))
       .orderBy(asc(compoundLibraries.name)),
-    c.registeredBy ? db.select({ name: users.name }).from(users).where(eq(users.id, c.registeredBy)) : Promise.resolve([]),
+    c.registeredBy
+      ? db.select({ name: users.name }).from(users).where(eq(users.id, c.registeredBy))
+      : Promise.resolve([]),
   ]);
   return {
     ...compoundSummary(c),
@@ -427,7 +521,15 @@ export type CompoundDetail = Awaited<ReturnType<typeof getCompound>>;
 
 // ---------------------------------------------------------------- search
 
-export const SORT_FIELDS = { registryId: compounds.registryNumber, name: compounds.name, mw: compounds.mwGPerMol, clogp: compounds.clogp, heavyAtoms: compounds.heavyAtoms, tpsa: compounds.tpsaA2, registeredAt: compounds.registeredAt } as const;
+export const SORT_FIELDS = {
+  registryId: compounds.registryNumber,
+  name: compounds.name,
+  mw: compounds.mwGPerMol,
+  clogp: compounds.clogp,
+  heavyAtoms: compounds.heavyAtoms,
+  tpsa: compounds.tpsaA2,
+  registeredAt: compounds.registeredAt,
+} as const;
 export type SortField = keyof typeof SORT_FIELDS;
 
 export type SearchInput = {
@@ -463,7 +565,10 @@ export const SMALL_SET_BUDGET_MS = 2_000;
 
 function filters(input: SearchInput): SQL[] {
   const where: SQL[] = [];
-  if (input.libraryId) where.push(sql`exists (select 1 from ${libraryMembers} m where m.compound_id = ${compounds.id} and m.library_id = ${input.libraryId})`);
+  if (input.libraryId)
+    where.push(
+      sql`exists (select 1 from ${libraryMembers} m where m.compound_id = ${compounds.id} and m.library_id = ${input.libraryId})`,
+    );
   if (input.mwMin !== undefined) where.push(sql`${compounds.mwGPerMol} >= ${input.mwMin}`);
   if (input.mwMax !== undefined) where.push(sql`${compounds.mwGPerMol} <= ${input.mwMax}`);
   return where;
@@ -496,7 +601,14 @@ function textQuery(q: string) {
   return { rank, similarity, where };
 }
 
-const RANK_NAMES = ["registry ID", "registry ID prefix", "exact name or alias", "name or alias prefix", "name or alias contains", "similar name or alias"];
+const RANK_NAMES = [
+  "registry ID",
+  "registry ID prefix",
+  "exact name or alias",
+  "name or alias prefix",
+  "name or alias contains",
+  "similar name or alias",
+];
 
 export async function searchCompounds(input: SearchInput): Promise<SearchResult> {
   const where = filters(input);
@@ -508,14 +620,23 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
 
   if (input.substructure && input.substructure.trim() !== "") {
     const query = parseFragmentQuery(input.substructure);
-    if (!query.ok) throw new AppError("bad_request", query.error, { details: [{ field: "substructure", message: query.error }] });
+    if (!query.ok)
+      throw new AppError("bad_request", query.error, { details: [{ field: "substructure", message: query.error }] });
     const bits = toBitString(query.fingerprint);
     const fp = sql`(${compounds.fingerprint} & ${bits}::bit(1024)) = ${bits}::bit(1024)`;
     // Ranking: text rank first when there is text; then smaller molecules first (closest to the
     // fragment), then the registry number; or the column the user sorted by.
-    const order = explicitSort ?? [...(text ? [asc(text.rank)] : []), asc(compounds.heavyAtoms), asc(compounds.registryNumber)];
+    const order = explicitSort ?? [
+      ...(text ? [asc(text.rank)] : []),
+      asc(compounds.heavyAtoms),
+      asc(compounds.registryNumber),
+    ];
     const candidates = await db
-      .select({ id: compounds.id, structureKey: compounds.structureKey, n: sql<number>`count(*) over ()`.mapWith(Number) })
+      .select({
+        id: compounds.id,
+        structureKey: compounds.structureKey,
+        n: sql<number>`count(*) over ()`.mapWith(Number),
+      })
       .from(compounds)
       .where(and(fp, cond))
       .orderBy(...order)
@@ -524,7 +645,12 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
     // A small candidate set is always checked to the end (an exact total even while openchemlib
     // is still cold in a fresh server process); a large one within the time budget.
     const budget = candidateTotal <= SMALL_CANDIDATE_SET ? SMALL_SET_BUDGET_MS : SUBSTRUCTURE_BUDGET_MS;
-    const page = exactSearchPage(query, candidates, { offset: input.offset, limit: input.limit, countAll: true, timeBudgetMs: budget });
+    const page = exactSearchPage(query, candidates, {
+      offset: input.offset,
+      limit: input.limit,
+      countAll: true,
+      timeBudgetMs: budget,
+    });
     const complete = page.complete && candidateTotal <= candidates.length;
     const ids = page.items.map((c) => c.id);
     const rows = ids.length ? await db.select().from(compounds).where(inArray(compounds.id, ids)) : [];
@@ -533,13 +659,24 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
       items: ids.map((id) => decorate(byId.get(id)!, input.thumbnails)),
       total: page.matched,
       totalIsLowerBound: !complete,
-      substructure: { understoodAs: query.understoodAs, candidates: candidateTotal, checked: page.checked, timedOut: page.timedOut },
+      substructure: {
+        understoodAs: query.understoodAs,
+        candidates: candidateTotal,
+        checked: page.checked,
+        timedOut: page.timedOut,
+      },
     };
   }
 
-  const order = explicitSort ?? (text ? [asc(text.rank), desc(text.similarity), asc(compounds.registryNumber)] : [asc(compounds.registryNumber)]);
+  const order =
+    explicitSort ??
+    (text ? [asc(text.rank), desc(text.similarity), asc(compounds.registryNumber)] : [asc(compounds.registryNumber)]);
   const rows = await db
-    .select({ c: compounds, total: sql<number>`count(*) over ()`.mapWith(Number), ...(text ? { rank: text.rank } : {}) })
+    .select({
+      c: compounds,
+      total: sql<number>`count(*) over ()`.mapWith(Number),
+      ...(text ? { rank: text.rank } : {}),
+    })
     .from(compounds)
     .where(cond)
     .orderBy(...order)
@@ -547,11 +684,17 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
     .offset(input.offset);
   let total = rows[0]?.total ?? 0;
   if (rows.length === 0 && input.offset > 0) {
-    const [r] = await db.select({ n: sql<number>`count(*)::int` }).from(compounds).where(cond);
+    const [r] = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(compounds)
+      .where(cond);
     total = r?.n ?? 0;
   }
   return {
-    items: rows.map((r) => ({ ...decorate(r.c, input.thumbnails), ...("rank" in r && r.rank !== undefined ? { rank: RANK_NAMES[Number(r.rank)] } : {}) })),
+    items: rows.map((r) => ({
+      ...decorate(r.c, input.thumbnails),
+      ...("rank" in r && r.rank !== undefined ? { rank: RANK_NAMES[Number(r.rank)] } : {}),
+    })),
     total,
     totalIsLowerBound: false,
   };
@@ -575,7 +718,10 @@ const REGISTRY_ID_TOKEN = /[A-Za-z][A-Za-z0-9]{0,7}-\d+/g;
 
 /** Registry IDs from pasted text (one per line, or separated by commas, spaces or tabs). */
 export function parseIdList(text: string): string[] {
-  const tokens = text.split(/[\s,;]+/).map((t) => t.trim().toUpperCase()).filter((t) => t !== "");
+  const tokens = text
+    .split(/[\s,;]+/)
+    .map((t) => t.trim().toUpperCase())
+    .filter((t) => t !== "");
   return [...new Set(tokens)];
 }
 
@@ -585,44 +731,82 @@ async function resolveIds(tx: Tx, idsText: string): Promise<string[]> {
   if (wanted.length > 10_000) throw new AppError("bad_request", "Paste at most 10,000 registry IDs at a time.");
   const notIds = wanted.filter((t) => !new RegExp(`^${REGISTRY_ID_TOKEN.source}$`).test(t));
   if (notIds.length > 0) {
-    throw new AppError("bad_request", `Not a registry ID: ${notIds.slice(0, 5).join(", ")}${notIds.length > 5 ? ` and ${notIds.length - 5} more` : ""}. Nothing was added.`, {
-      details: notIds.slice(0, 50).map((t) => ({ field: "ids", message: `"${t.slice(0, 40)}" is not a registry ID (e.g. ${formatRegistryId(1)}).` })),
-    });
+    throw new AppError(
+      "bad_request",
+      `Not a registry ID: ${notIds.slice(0, 5).join(", ")}${notIds.length > 5 ? ` and ${notIds.length - 5} more` : ""}. Nothing was added.`,
+      {
+        details: notIds
+          .slice(0, 50)
+          .map((t) => ({
+            field: "ids",
+            message: `"${t.slice(0, 40)}" is not a registry ID (e.g. ${formatRegistryId(1)}).`,
+          })),
+      },
+    );
   }
-  const found = await tx.select({ id: compounds.id, registryId: compounds.registryId }).from(compounds).where(inArray(compounds.registryId, wanted));
+  const found = await tx
+    .select({ id: compounds.id, registryId: compounds.registryId })
+    .from(compounds)
+    .where(inArray(compounds.registryId, wanted));
   const known = new Map(found.map((f) => [f.registryId, f.id]));
   const missing = wanted.filter((w) => !known.has(w));
   if (missing.length > 0) {
-    throw new AppError("bad_request", `Not in the registry: ${missing.slice(0, 5).join(", ")}${missing.length > 5 ? ` and ${missing.length - 5} more` : ""}. Nothing was added.`, {
-      details: missing.slice(0, 50).map((t) => ({ field: "ids", message: `${t} is not registered.` })),
-    });
+    throw new AppError(
+      "bad_request",
+      `Not in the registry: ${missing.slice(0, 5).join(", ")}${missing.length > 5 ? ` and ${missing.length - 5} more` : ""}. Nothing was added.`,
+      {
+        details: missing.slice(0, 50).map((t) => ({ field: "ids", message: `${t} is not registered.` })),
+      },
+    );
   }
   return wanted.map((w) => known.get(w)!);
 }
 
 /** Creates a library, optionally with members from a pasted list of registry IDs (all or none). */
-export async function createLibrary(actor: Actor, input: { name: string; description?: string; ids?: string }): Promise<{ id: string; added: number }> {
+export async function createLibrary(
+  actor: Actor,
+  input: { name: string; description?: string; ids?: string },
+): Promise<{ id: string; added: number }> {
   try {
     return await db.transaction(async (tx) => {
-      const [lib] = await tx.insert(compoundLibraries).values({ name: input.name, description: input.description ?? null, createdBy: actor.id }).returning({ id: compoundLibraries.id });
+      const [lib] = await tx
+        .insert(compoundLibraries)
+        .values({ name: input.name, description: input.description ?? null, createdBy: actor.id })
+        .returning({ id: compoundLibraries.id });
       const ids = input.ids ? await resolveIds(tx, input.ids) : [];
-      for (const part of chunks(ids)) await tx.insert(libraryMembers).values(part.map((compoundId) => ({ libraryId: lib!.id, compoundId, addedBy: actor.id })));
-      await audit(tx, actor, { action: "library.create", entityType: "library", entityId: lib!.id, after: { name: input.name, members: ids.length } });
+      for (const part of chunks(ids))
+        await tx
+          .insert(libraryMembers)
+          .values(part.map((compoundId) => ({ libraryId: lib!.id, compoundId, addedBy: actor.id })));
+      await audit(tx, actor, {
+        action: "library.create",
+        entityType: "library",
+        entityId: lib!.id,
+        after: { name: input.name, members: ids.length },
+      });
       return { id: lib!.id, added: ids.length };
     });
   } catch (e) {
-    if (isUniqueViolation(e, "compound_libraries_name")) throw new AppError("conflict", `A library named "${input.name}" exists already.`);
+    if (isUniqueViolation(e, "compound_libraries_name"))
+      throw new AppError("conflict", `A library named "${input.name}" exists already.`);
     throw e;
   }
 }
 
 /** Adds compounds to a library from registry IDs; ones already in it are skipped. */
-export async function addToLibrary(actor: Actor, libraryId: string, idsText: string): Promise<{ added: number; already: number }> {
+export async function addToLibrary(
+  actor: Actor,
+  libraryId: string,
+  idsText: string,
+): Promise<{ added: number; already: number }> {
   return db.transaction(async (tx) => {
     const [lib] = await tx.select().from(compoundLibraries).where(eq(compoundLibraries.id, libraryId));
     if (!lib) throw new AppError("not_found", "No such library.");
     const ids = await resolveIds(tx, idsText);
-    if (ids.length === 0) throw new AppError("bad_request", "Give at least one registry ID.", { details: [{ field: "ids", message: "Give at least one registry ID." }] });
+    if (ids.length === 0)
+      throw new AppError("bad_request", "Give at least one registry ID.", {
+        details: [{ field: "ids", message: "Give at least one registry ID." }],
+      });
     let added = 0;
     for (const part of chunks(ids)) {
       const r = await tx
@@ -640,9 +824,17 @@ export async function addToLibrary(actor: Actor, libraryId: string, idsText: str
 export async function removeFromLibrary(actor: Actor, libraryId: string, registryId: string): Promise<void> {
   await db.transaction(async (tx) => {
     const c = await compoundByRegistryId(tx, registryId);
-    const r = await tx.delete(libraryMembers).where(and(eq(libraryMembers.libraryId, libraryId), eq(libraryMembers.compoundId, c.id))).returning({ c: libraryMembers.compoundId });
+    const r = await tx
+      .delete(libraryMembers)
+      .where(and(eq(libraryMembers.libraryId, libraryId), eq(libraryMembers.compoundId, c.id)))
+      .returning({ c: libraryMembers.compoundId });
     if (r.length === 0) throw new AppError("not_found", `${c.registryId} is not in this library.`);
-    await audit(tx, actor, { action: "library.remove", entityType: "library", entityId: libraryId, before: { registryId: c.registryId } });
+    await audit(tx, actor, {
+      action: "library.remove",
+      entityType: "library",
+      entityId: libraryId,
+      before: { registryId: c.registryId },
+    });
   });
 }
 
@@ -681,7 +873,10 @@ export async function getLibrary(libraryId: string) {
  * the analyses service.
  */
 export async function resultsForCompound(user: Pick<SessionUser, "id" | "globalRole">, registryId: string) {
-  const visible = user.globalRole === "admin" ? sql`true` : sql`exists (select 1 from ${memberships} m where m.campaign_id = ${compoundResults.campaignId} and m.user_id = ${user.id})`;
+  const visible =
+    user.globalRole === "admin"
+      ? sql`true`
+      : sql`exists (select 1 from ${memberships} m where m.campaign_id = ${compoundResults.campaignId} and m.user_id = ${user.id})`;
   return db
     .select({
       campaignId: campaigns.id,

@@ -10,11 +10,20 @@ import { makeWorld, outbox, callRoute, TEST_PASSWORD } from "@/test/harness";
 import { platesWorld, smallMap, smallExport, campaignRow } from "@/test/plates";
 import { analysesWorld } from "@/test/analyses";
 import { createPlateMap, uploadRun } from "./plates";
-import { digestDue, digestWeek, gatherDigest, optOut, optOutToken, readOptOutToken, sendCampaignDigest } from "./digest";
+import {
+  digestDue,
+  digestWeek,
+  gatherDigest,
+  optOut,
+  optOutToken,
+  readOptOutToken,
+  sendCampaignDigest,
+} from "./digest";
 import * as digestRoute from "@/app/api/campaigns/[campaignId]/digest/route";
 import { hashPassword } from "@/server/auth/password";
 
-const mailsTo = async (since: number, campaignName: string) => (await outbox()).slice(since).filter((m) => m.subject.includes(campaignName));
+const mailsTo = async (since: number, campaignName: string) =>
+  (await outbox()).slice(since).filter((m) => m.subject.includes(campaignName));
 
 describe("digest week and schedule (time zones via the IANA database in Intl)", () => {
   it("uses the Monday of the ISO week in the campaign's zone", () => {
@@ -36,8 +45,16 @@ describe("weekly digest", () => {
     const w = await makeWorld();
     await analysesWorld(w); // an accepted run and a single-dose analysis: INH-000001 at 50 % inhibition is a hit
     const campaign = await campaignRow(w.campaignId);
-    const { id: swappedMap } = await createPlateMap(w.people.assay, w.campaignId, { name: `Swapped ${w.tag}`, map: smallMap(true) });
-    await uploadRun(w.people.assay, campaign, { plateMapId: swappedMap, fileName: `swapped-${w.tag}.csv`, contentType: "text/csv", bytes: smallExport(99_000 + Number.parseInt(w.tag.slice(0, 4), 16)) });
+    const { id: swappedMap } = await createPlateMap(w.people.assay, w.campaignId, {
+      name: `Swapped ${w.tag}`,
+      map: smallMap(true),
+    });
+    await uploadRun(w.people.assay, campaign, {
+      plateMapId: swappedMap,
+      fileName: `swapped-${w.tag}.csv`,
+      contentType: "text/csv",
+      bytes: smallExport(99_000 + Number.parseInt(w.tag.slice(0, 4), 16)),
+    });
 
     const d = await gatherDigest(campaign, new Date());
     expect(d.runs.total).toBe(2);
@@ -49,7 +66,9 @@ describe("weekly digest", () => {
     const s1 = await sendCampaignDigest(w.campaignId, { trigger: "send-now" });
     expect(s1.sent).toBe(4); // viewer, chemist, assay scientist, lead; the non-member gets none
     const mails = await mailsTo(before, campaign.name);
-    expect(mails.map((m) => m.to[0]).sort()).toEqual([w.people.assay.email, w.people.chemist.email, w.people.lead.email, w.people.viewer.email].sort());
+    expect(mails.map((m) => m.to[0]).sort()).toEqual(
+      [w.people.assay.email, w.people.chemist.email, w.people.lead.email, w.people.viewer.email].sort(),
+    );
     const one = mails[0]!;
     expect(one.text).toContain("2 plate runs uploaded, 1 accepted, 1 failed QC");
     expect(one.text).toContain("INH-000001");
@@ -65,7 +84,10 @@ describe("weekly digest", () => {
     const w = await makeWorld();
     const campaign = await campaignRow(w.campaignId);
     const before = (await outbox()).length;
-    const [a, b] = await Promise.all([sendCampaignDigest(w.campaignId, { trigger: "schedule" }), sendCampaignDigest(w.campaignId, { trigger: "send-now" })]);
+    const [a, b] = await Promise.all([
+      sendCampaignDigest(w.campaignId, { trigger: "schedule" }),
+      sendCampaignDigest(w.campaignId, { trigger: "send-now" }),
+    ]);
     expect(a.sent + b.sent).toBe(4);
     const mails = await mailsTo(before, campaign.name);
     expect(mails).toHaveLength(4);
@@ -97,7 +119,13 @@ describe("weekly digest", () => {
     const now = new Date();
     const s = await sendCampaignDigest(w.campaignId, { trigger: "schedule", now });
     expect(s).toMatchObject({ sent: 4, failed: 1 });
-    const row = async () => (await db.select().from(digestSends).where(and(eq(digestSends.campaignId, w.campaignId), eq(digestSends.userId, bad.id))))[0]!;
+    const row = async () =>
+      (
+        await db
+          .select()
+          .from(digestSends)
+          .where(and(eq(digestSends.campaignId, w.campaignId), eq(digestSends.userId, bad.id)))
+      )[0]!;
     const r1 = await row();
     expect(r1.status).toBe("failed");
     expect(r1.attempts).toBe(1);
@@ -115,11 +143,23 @@ describe("weekly digest", () => {
     const w = await makeWorld();
     await platesWorld(w);
     const before = (await outbox()).length;
-    const r = await callRoute(digestRoute.POST, { user: w.people.lead, method: "POST", path: `/api/campaigns/${w.campaignId}/digest`, params: { campaignId: w.campaignId }, body: { preview: true } });
+    const r = await callRoute(digestRoute.POST, {
+      user: w.people.lead,
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/digest`,
+      params: { campaignId: w.campaignId },
+      body: { preview: true },
+    });
     expect(r.status).toBe(200);
     expect((r.json as { html: string }).html).toContain(`Test campaign ${w.tag}`);
     expect((await outbox()).length).toBe(before);
-    const v = await callRoute(digestRoute.POST, { user: w.people.viewer, method: "POST", path: `/api/campaigns/${w.campaignId}/digest`, params: { campaignId: w.campaignId }, body: {} });
+    const v = await callRoute(digestRoute.POST, {
+      user: w.people.viewer,
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/digest`,
+      params: { campaignId: w.campaignId },
+      body: {},
+    });
     expect(v.status).toBe(403);
   });
 });

@@ -3,7 +3,19 @@ import crypto from "node:crypto";
 import { and, asc, desc, eq, gte, lt, sql } from "drizzle-orm";
 import { render } from "@react-email/components";
 import { db } from "@/server/db/client";
-import { analyses, auditLog, campaigns, compoundResults, compounds, digestOptOuts, digestSends, hitRows, memberships, plateRuns, users } from "@/server/db/schema";
+import {
+  analyses,
+  auditLog,
+  campaigns,
+  compoundResults,
+  compounds,
+  digestOptOuts,
+  digestSends,
+  hitRows,
+  memberships,
+  plateRuns,
+  users,
+} from "@/server/db/schema";
 import { sendMail } from "@/server/mail/client";
 import { AppError } from "@/server/errors";
 import { env } from "@/env";
@@ -23,7 +35,15 @@ export const MAX_ATTEMPTS = 4;
 
 /** The local date-time parts of an instant in a time zone (no library: Intl knows the zones). */
 function localParts(now: Date, timeZone: string) {
-  const f = new Intl.DateTimeFormat("en-GB", { timeZone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", weekday: "short", hourCycle: "h23" });
+  const f = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    weekday: "short",
+    hourCycle: "h23",
+  });
   const p = Object.fromEntries(f.formatToParts(now).map((x) => [x.type, x.value]));
   const weekday = ["Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun"].indexOf(p.weekday!) + 1; // ISO: Monday 1
   return { y: Number(p.year), m: Number(p.month), d: Number(p.day), hour: Number(p.hour), weekday };
@@ -84,20 +104,36 @@ export async function optOut(userId: string, campaignId: string, via: "link" | "
   await db.transaction(async (tx) => {
     await tx.insert(digestOptOuts).values({ userId, campaignId, via }).onConflictDoNothing();
     const [u] = await tx.select({ email: users.email }).from(users).where(eq(users.id, userId));
-    await audit(tx, u ? { id: userId, email: u.email } : null, { campaignId, action: "digest.opt_out", entityType: "user", entityId: userId, after: { via } });
+    await audit(tx, u ? { id: userId, email: u.email } : null, {
+      campaignId,
+      action: "digest.opt_out",
+      entityType: "user",
+      entityId: userId,
+      after: { via },
+    });
   });
 }
 
 export async function optIn(userId: string, campaignId: string): Promise<void> {
   await db.transaction(async (tx) => {
-    await tx.delete(digestOptOuts).where(and(eq(digestOptOuts.userId, userId), eq(digestOptOuts.campaignId, campaignId)));
+    await tx
+      .delete(digestOptOuts)
+      .where(and(eq(digestOptOuts.userId, userId), eq(digestOptOuts.campaignId, campaignId)));
     const [u] = await tx.select({ email: users.email }).from(users).where(eq(users.id, userId));
-    await audit(tx, u ? { id: userId, email: u.email } : null, { campaignId, action: "digest.opt_in", entityType: "user", entityId: userId });
+    await audit(tx, u ? { id: userId, email: u.email } : null, {
+      campaignId,
+      action: "digest.opt_in",
+      entityType: "user",
+      entityId: userId,
+    });
   });
 }
 
 export async function optOutsOf(userId: string): Promise<Set<string>> {
-  const rows = await db.select({ c: digestOptOuts.campaignId }).from(digestOptOuts).where(eq(digestOptOuts.userId, userId));
+  const rows = await db
+    .select({ c: digestOptOuts.campaignId })
+    .from(digestOptOuts)
+    .where(eq(digestOptOuts.userId, userId));
   return new Set(rows.map((r) => r.c));
 }
 
@@ -107,7 +143,10 @@ export async function optOutsOf(userId: string): Promise<Set<string>> {
 export async function gatherDigest(campaign: Campaign, now: Date): Promise<DigestData> {
   const to = now;
   const from = new Date(now.getTime() - 7 * DAY);
-  const [regCount] = await db.select({ n: sql<number>`count(*)::int` }).from(compounds).where(and(gte(compounds.registeredAt, from), lt(compounds.registeredAt, to)));
+  const [regCount] = await db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(compounds)
+    .where(and(gte(compounds.registeredAt, from), lt(compounds.registeredAt, to)));
   const registered = await db
     .select({ registryId: compounds.registryId, name: compounds.name })
     .from(compounds)
@@ -115,11 +154,23 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
     .orderBy(asc(compounds.registryId))
     .limit(15);
   const runs = await db
-    .select({ id: plateRuns.id, fileName: plateRuns.fileName, zPrime: plateRuns.zPrime, verdict: plateRuns.qcVerdict, decision: plateRuns.decision, qc: plateRuns.qc })
+    .select({
+      id: plateRuns.id,
+      fileName: plateRuns.fileName,
+      zPrime: plateRuns.zPrime,
+      verdict: plateRuns.qcVerdict,
+      decision: plateRuns.decision,
+      qc: plateRuns.qc,
+    })
     .from(plateRuns)
     .where(and(eq(plateRuns.campaignId, campaign.id), gte(plateRuns.uploadedAt, from), lt(plateRuns.uploadedAt, to)))
     .orderBy(asc(plateRuns.fileName));
-  const fresh = and(eq(compoundResults.campaignId, campaign.id), eq(analyses.isCurrent, true), gte(analyses.finishedAt, from), lt(analyses.finishedAt, to));
+  const fresh = and(
+    eq(compoundResults.campaignId, campaign.id),
+    eq(analyses.isCurrent, true),
+    gte(analyses.finishedAt, from),
+    lt(analyses.finishedAt, to),
+  );
   const hits = await db
     .select({ compoundId: compoundResults.compoundId, pctInhibition: compoundResults.pctInhibition })
     .from(compoundResults)
@@ -127,21 +178,47 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
     .where(and(fresh, eq(compoundResults.kind, "single-dose"), eq(compoundResults.hit, true)))
     .orderBy(desc(compoundResults.pctInhibition));
   const mech = await db
-    .select({ compoundId: compoundResults.compoundId, mechanism: compoundResults.mechanism, label: compoundResults.mechanismLabel, kiUm: compoundResults.kiUm, experimentId: compoundResults.experimentId })
+    .select({
+      compoundId: compoundResults.compoundId,
+      mechanism: compoundResults.mechanism,
+      label: compoundResults.mechanismLabel,
+      kiUm: compoundResults.kiUm,
+      experimentId: compoundResults.experimentId,
+    })
     .from(compoundResults)
     .innerJoin(analyses, eq(analyses.id, compoundResults.analysisId))
     .where(and(fresh, eq(compoundResults.kind, "mechanism")))
     .orderBy(asc(compoundResults.kiUm));
   const triage = await db
-    .select({ entityId: auditLog.entityId, action: auditLog.action, by: auditLog.actorEmail, at: auditLog.at, before: auditLog.before, after: auditLog.after })
+    .select({
+      entityId: auditLog.entityId,
+      action: auditLog.action,
+      by: auditLog.actorEmail,
+      at: auditLog.at,
+      before: auditLog.before,
+      after: auditLog.after,
+    })
     .from(auditLog)
-    .where(and(eq(auditLog.campaignId, campaign.id), gte(auditLog.at, from), lt(auditLog.at, to), sql`(${auditLog.action} ilike 'triage%' or ${auditLog.action} ilike 'hit.%')`))
+    .where(
+      and(
+        eq(auditLog.campaignId, campaign.id),
+        gte(auditLog.at, from),
+        lt(auditLog.at, to),
+        sql`(${auditLog.action} ilike 'triage%' or ${auditLog.action} ilike 'hit.%')`,
+      ),
+    )
     .orderBy(desc(auditLog.at))
     .limit(50);
   // The top ten as the hit grid ranks them (clean before flagged or ambiguous, then Ki), from the
   // same table the grid reads, so the e-mail and the app agree (overrides included).
   const top = await db
-    .select({ compoundId: hitRows.compoundId, mechanism: hitRows.mechanism, kiUm: hitRows.kiUm, flagged: hitRows.flagged, ic50Um: hitRows.ic50Um })
+    .select({
+      compoundId: hitRows.compoundId,
+      mechanism: hitRows.mechanism,
+      kiUm: hitRows.kiUm,
+      flagged: hitRows.flagged,
+      ic50Um: hitRows.ic50Um,
+    })
     .from(hitRows)
     .where(and(eq(hitRows.campaignId, campaign.id), sql`${hitRows.kiUm} is not null`))
     .orderBy(asc(hitRows.flagged), asc(hitRows.kiUm), asc(hitRows.compoundId))
@@ -164,11 +241,19 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
       total: runs.length,
       accepted: runs.filter((r) => r.decision === "accepted").length,
       failedQc: runs.filter((r) => r.verdict === "fail").length,
-      failed: runs.filter((r) => r.verdict === "fail").map((r) => ({ id: r.id, fileName: r.fileName, zPrime: r.zPrime, reason: r.qc.reasons[0] ?? null })),
+      failed: runs
+        .filter((r) => r.verdict === "fail")
+        .map((r) => ({ id: r.id, fileName: r.fileName, zPrime: r.zPrime, reason: r.qc.reasons[0] ?? null })),
     },
     newHits: hits,
     mechanismCalls: mech,
-    triage: triage.map((t) => ({ compoundId: (t.entityId ?? "").split("/").pop() ?? "", action: t.action, by: t.by, at: t.at, detail: describe(t) })),
+    triage: triage.map((t) => ({
+      compoundId: (t.entityId ?? "").split("/").pop() ?? "",
+      action: t.action,
+      by: t.by,
+      at: t.at,
+      detail: describe(t),
+    })),
     topTen: top,
   };
 }
@@ -204,24 +289,46 @@ export async function recipients(campaignId: string) {
     .orderBy(asc(users.email));
 }
 
-export type SendSummary = { week: string; sent: number; alreadySent: number; failed: number; optedOut: number; inProgress: number };
+export type SendSummary = {
+  week: string;
+  sent: number;
+  alreadySent: number;
+  failed: number;
+  optedOut: number;
+  inProgress: number;
+};
 
 /**
  * Sends this week's digest of a campaign to every recipient who has not had it. One row per
  * (campaign, recipient, week) is claimed with a conditional UPDATE, so two workers, a retry and
  * a second "send now" cannot send twice; the same key is the e-mail API's idempotency key.
  */
-export async function sendCampaignDigest(campaignId: string, opts: { trigger: "schedule" | "send-now" | "retry"; now?: Date; actor?: Actor | null } = { trigger: "schedule" }): Promise<SendSummary> {
+export async function sendCampaignDigest(
+  campaignId: string,
+  opts: { trigger: "schedule" | "send-now" | "retry"; now?: Date; actor?: Actor | null } = { trigger: "schedule" },
+): Promise<SendSummary> {
   const now = opts.now ?? new Date();
   const campaign = await campaignById(campaignId);
   const week = digestWeek(now, campaign.timeZone);
   const people = await recipients(campaignId);
-  const [{ n: optedOut } = { n: 0 }] = await db.select({ n: sql<number>`count(*)::int` }).from(digestOptOuts).where(eq(digestOptOuts.campaignId, campaignId));
+  const [{ n: optedOut } = { n: 0 }] = await db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(digestOptOuts)
+    .where(eq(digestOptOuts.campaignId, campaignId));
   const summary: SendSummary = { week, sent: 0, alreadySent: 0, failed: 0, optedOut, inProgress: 0 };
   if (people.length === 0) return summary;
   await db
     .insert(digestSends)
-    .values(people.map((p) => ({ campaignId, userId: p.id, week, email: p.email, idempotencyKey: `digest/${campaignId}/${p.id}/${week}`, trigger: opts.trigger })))
+    .values(
+      people.map((p) => ({
+        campaignId,
+        userId: p.id,
+        week,
+        email: p.email,
+        idempotencyKey: `digest/${campaignId}/${p.id}/${week}`,
+        trigger: opts.trigger,
+      })),
+    )
     .onConflictDoNothing();
   let data: DigestData | null = null;
   for (const p of people) {
@@ -242,7 +349,10 @@ export async function sendCampaignDigest(campaignId: string, opts: { trigger: "s
       )
       .returning();
     if (!claimed) {
-      const [row] = await db.select({ status: digestSends.status }).from(digestSends).where(and(eq(digestSends.campaignId, campaignId), eq(digestSends.userId, p.id), eq(digestSends.week, week)));
+      const [row] = await db
+        .select({ status: digestSends.status })
+        .from(digestSends)
+        .where(and(eq(digestSends.campaignId, campaignId), eq(digestSends.userId, p.id), eq(digestSends.week, week)));
       if (row?.status === "sent") summary.alreadySent += 1;
       else if (row?.status === "failed") summary.failed += 1;
       else summary.inProgress += 1;
@@ -251,20 +361,41 @@ export async function sendCampaignDigest(campaignId: string, opts: { trigger: "s
     try {
       data ??= await gatherDigest(campaign, now);
       const mail = await renderDigest(data, p);
-      const { id } = await sendMail({ to: p.email, subject: mail.subject, html: mail.html, text: mail.text, idempotencyKey: claimed.idempotencyKey });
-      await db.update(digestSends).set({ status: "sent", messageId: id, sentAt: new Date(), lastError: null }).where(eq(digestSends.id, claimed.id));
+      const { id } = await sendMail({
+        to: p.email,
+        subject: mail.subject,
+        html: mail.html,
+        text: mail.text,
+        idempotencyKey: claimed.idempotencyKey,
+      });
+      await db
+        .update(digestSends)
+        .set({ status: "sent", messageId: id, sentAt: new Date(), lastError: null })
+        .where(eq(digestSends.id, claimed.id));
       summary.sent += 1;
     } catch (e) {
       const delay = RETRY_DELAYS_MS[Math.min(claimed.attempts - 1, RETRY_DELAYS_MS.length - 1)]!;
       await db
         .update(digestSends)
-        .set({ status: "failed", lastError: e instanceof Error ? e.message.slice(0, 500) : String(e).slice(0, 500), nextAttemptAt: new Date(now.getTime() + delay) })
+        .set({
+          status: "failed",
+          lastError: e instanceof Error ? e.message.slice(0, 500) : String(e).slice(0, 500),
+          nextAttemptAt: new Date(now.getTime() + delay),
+        })
         .where(eq(digestSends.id, claimed.id));
       summary.failed += 1;
     }
   }
   if (opts.actor && opts.trigger === "send-now") {
-    await db.transaction((tx) => audit(tx, opts.actor!, { campaignId, action: "digest.send_now", entityType: "campaign", entityId: campaignId, after: summary }));
+    await db.transaction((tx) =>
+      audit(tx, opts.actor!, {
+        campaignId,
+        action: "digest.send_now",
+        entityType: "campaign",
+        entityId: campaignId,
+        after: summary,
+      }),
+    );
   }
   return summary;
 }
@@ -311,7 +442,11 @@ export async function sendLog(campaignId: string, limit = 100) {
     .limit(limit);
 }
 
-export async function setSchedule(actor: Actor, campaignId: string, s: { digestWeekday: number; digestHour: number; timeZone: string }) {
+export async function setSchedule(
+  actor: Actor,
+  campaignId: string,
+  s: { digestWeekday: number; digestHour: number; timeZone: string },
+) {
   const before = await campaignById(campaignId);
   await db.transaction(async (tx) => {
     await tx.update(campaigns).set(s).where(eq(campaigns.id, campaignId));
@@ -325,4 +460,3 @@ export async function setSchedule(actor: Actor, campaignId: string, s: { digestW
     });
   });
 }
-

@@ -66,7 +66,10 @@ export function hitsCsv(items: HitItem[]): string {
   return `${lines.join("\r\n")}\r\n`;
 }
 
-export async function hitsXlsx(items: HitItem[], meta: { campaignName: string; query: string; truncated: boolean; exportedBy: string }): Promise<Buffer> {
+export async function hitsXlsx(
+  items: HitItem[],
+  meta: { campaignName: string; query: string; truncated: boolean; exportedBy: string },
+): Promise<Buffer> {
   const wb = new ExcelJS.Workbook();
   wb.creator = "Inhibitrack";
   wb.created = new Date();
@@ -81,8 +84,13 @@ export async function hitsXlsx(items: HitItem[], meta: { campaignName: string; q
     ["Exported by", meta.exportedBy],
     ["View (sort and filters)", meta.query || "default ranked order, no filters"],
     ["Rows", items.length],
-    ...(meta.truncated ? [["Note", `Only the first ${items.length} rows of the view are exported; narrow the filters for the rest.`]] : []),
-    ["Units", "Concentrations (Ki, Kic, Kiu, IC50) in µM; MW in g/mol; LE in kcal/mol per heavy atom at 298 K; LipE = pKi − cLogP."],
+    ...(meta.truncated
+      ? [["Note", `Only the first ${items.length} rows of the view are exported; narrow the filters for the rest.`]]
+      : []),
+    [
+      "Units",
+      "Concentrations (Ki, Kic, Kiu, IC50) in µM; MW in g/mol; LE in kcal/mol per heavy atom at 298 K; LipE = pKi − cLogP.",
+    ],
     [
       "Caution",
       "Research use only. Potency and mechanism calls depend on assay conditions and must be reviewed by a qualified scientist before decisions; rows with flags are not clean fits.",

@@ -7,7 +7,18 @@ import crypto from "node:crypto";
 import ExcelJS from "exceljs";
 import { and, eq, sql } from "drizzle-orm";
 import { db } from "@/server/db/client";
-import { analyses, auditLog, compoundResults, compounds, experiments, hitComments, hitRows, memberships, triageDecisions, users } from "@/server/db/schema";
+import {
+  analyses,
+  auditLog,
+  compoundResults,
+  compounds,
+  experiments,
+  hitComments,
+  hitRows,
+  memberships,
+  triageDecisions,
+  users,
+} from "@/server/db/schema";
 import { makeWorld, callRoute, newTestUser, type World } from "@/test/harness";
 import { platesWorld, registryIds } from "@/test/plates";
 import { analysesWorld } from "@/test/analyses";
@@ -50,11 +61,30 @@ const invented: Invented[] = [
 ];
 
 async function addAnalysis(w: World, runId: string, kind: Kind, rows: Invented[]) {
-  const [e] = await db.insert(experiments).values({ campaignId: w.campaignId, name: `Invented ${kind} ${w.tag}`, kind }).returning();
-  const inputs = { engineVersion: "test", kind, settings: { resolved: { hitThresholdPct: 50, kmUm: null, enzymeNm: null } }, runs: [{ id: runId, sha256: "x", fileName: "x", decision: "accepted" }], masks: [] };
+  const [e] = await db
+    .insert(experiments)
+    .values({ campaignId: w.campaignId, name: `Invented ${kind} ${w.tag}`, kind })
+    .returning();
+  const inputs = {
+    engineVersion: "test",
+    kind,
+    settings: { resolved: { hitThresholdPct: 50, kmUm: null, enzymeNm: null } },
+    runs: [{ id: runId, sha256: "x", fileName: "x", decision: "accepted" }],
+    masks: [],
+  };
   const [a] = await db
     .insert(analyses)
-    .values({ experimentId: e!.id, campaignId: w.campaignId, status: "done", progress: 1, engineVersion: "test", inputHash: crypto.randomUUID(), inputs, isCurrent: true, finishedAt: new Date() })
+    .values({
+      experimentId: e!.id,
+      campaignId: w.campaignId,
+      status: "done",
+      progress: 1,
+      engineVersion: "test",
+      inputHash: crypto.randomUUID(),
+      inputs,
+      isCurrent: true,
+      finishedAt: new Date(),
+    })
     .returning();
   await db.insert(compoundResults).values(
     rows.map((r) => ({
@@ -74,7 +104,11 @@ async function addAnalysis(w: World, runId: string, kind: Kind, rows: Invented[]
       mechanismLabel: kind === "mechanism" ? r.label : null,
       kiUm: kind === "mechanism" ? r.ki : null,
       kicUm: kind === "mechanism" ? r.ki : null,
-      flags: (kind === "dose-response" && r.flags?.[0]?.startsWith("hill")) || (kind === "mechanism" && r.flags?.[0]?.startsWith("ki")) ? r.flags! : [],
+      flags:
+        (kind === "dose-response" && r.flags?.[0]?.startsWith("hill")) ||
+        (kind === "mechanism" && r.flags?.[0]?.startsWith("ki"))
+          ? r.flags!
+          : [],
       detail: {},
     })),
   );
@@ -83,15 +117,26 @@ async function addAnalysis(w: World, runId: string, kind: Kind, rows: Invented[]
 let w: World;
 const ids = registryIds(12);
 const base = () => `/api/campaigns/${w.campaignId}/hits`;
-const list = async (qs: string, user = w.people.lead) => callRoute(hitsRoute.GET, { user, path: `${base()}?${qs}`, params: { campaignId: w.campaignId } });
+const list = async (qs: string, user = w.people.lead) =>
+  callRoute(hitsRoute.GET, { user, path: `${base()}?${qs}`, params: { campaignId: w.campaignId } });
 const order = (j: unknown) => (j as { items: { registryId: string }[] }).items.map((i) => i.registryId);
 
 beforeAll(async () => {
   w = await makeWorld();
   const { runId } = await platesWorld(w);
   await addAnalysis(w, runId, "single-dose", invented);
-  await addAnalysis(w, runId, "dose-response", invented.filter((r) => r.ic50 !== undefined));
-  await addAnalysis(w, runId, "mechanism", invented.filter((r) => r.ki !== undefined));
+  await addAnalysis(
+    w,
+    runId,
+    "dose-response",
+    invented.filter((r) => r.ic50 !== undefined),
+  );
+  await addAnalysis(
+    w,
+    runId,
+    "mechanism",
+    invented.filter((r) => r.ki !== undefined),
+  );
   await db.transaction((tx) => refreshHitRows(tx, w.campaignId, ids));
 });
 afterAll(() => stopBoss());
@@ -108,7 +153,10 @@ describe("hit rows", () => {
   });
 
   it("hold pKi, LE and LipE computed from the published definitions (same as src/lib/hits/efficiency.ts)", async () => {
-    const [r] = await db.select().from(hitRows).where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000002")));
+    const [r] = await db
+      .select()
+      .from(hitRows)
+      .where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000002")));
     const [c] = await db.select().from(compounds).where(eq(compounds.registryId, "INH-000002"));
     // Ki 10 nM → pKi 8 (definition); LE = 1.37·pKi/HA (Hopkins, Groom & Alex 2004); LipE = pKi − cLogP (Leeson & Springthorpe 2007).
     expect(r!.pKi).toBeCloseTo(8, 10);
@@ -116,7 +164,10 @@ describe("hit rows", () => {
     expect(r!.le).toBeCloseTo(ligandEfficiency(pKiFromMicromolar(0.01), c!.heavyAtoms)!, 10);
     expect(r!.lipe).toBeCloseTo(lipophilicEfficiency(8, c!.clogp)!, 10);
     expect(r!.mwGPerMol).toBe(c!.mwGPerMol);
-    const none = await db.select().from(hitRows).where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000001")));
+    const none = await db
+      .select()
+      .from(hitRows)
+      .where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000001")));
     expect(none[0]!.le).toBeNull();
   });
 
@@ -165,7 +216,10 @@ describe("one query everywhere", () => {
 
   it("keeps each row's stored API item in step with the row, whatever writes it (the trigger)", async () => {
     // A write that does not go through refreshHitRows: the trigger still rewrites the stored item.
-    await db.update(hitRows).set({ ownerName: "Direct Writer (invented)", commentCount: 41 }).where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000011")));
+    await db
+      .update(hitRows)
+      .set({ ownerName: "Direct Writer (invented)", commentCount: 41 })
+      .where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, "INH-000011")));
     const f = hitListSchema.parse({ sort: "registryId", dir: "asc" });
     const page = await listHits(w.campaignId, f, 100, 0);
     const all = await exportHits(w.campaignId, f);
@@ -181,7 +235,11 @@ describe("one query everywhere", () => {
   it("gives the same rows from the API, the grid's datasource request and the CSV and XLSX exports", async () => {
     const handWritten = "sort=pctInhibition&dir=desc&mechanism=competitive,mixed,none&ic50Max=3";
     const fromGrid = hitQueryString(
-      gridToQuery([{ colId: "pctInhibition", sort: "desc" }], { ic50: { filterType: "number", type: "lessThanOrEqual", filter: 3 } }, { mechanism: ["competitive", "mixed", "none"] }),
+      gridToQuery(
+        [{ colId: "pctInhibition", sort: "desc" }],
+        { ic50: { filterType: "number", type: "lessThanOrEqual", filter: 3 } },
+        { mechanism: ["competitive", "mixed", "none"] },
+      ),
       { limit: 100, offset: 0 },
     );
     const api = order((await list(`${handWritten}&limit=100`)).json);
@@ -189,7 +247,11 @@ describe("one query everywhere", () => {
     expect(api).toEqual(["INH-000012", "INH-000003", "INH-000001", "INH-000002", "INH-000009"]); // 99, 95, 92, 88, 40 % (invented table)
     expect(grid).toEqual(api);
 
-    const csv = await callRoute(exportRoute.GET, { user: w.people.viewer, path: `${base()}/export?format=csv&${handWritten}`, params: { campaignId: w.campaignId } });
+    const csv = await callRoute(exportRoute.GET, {
+      user: w.people.viewer,
+      path: `${base()}/export?format=csv&${handWritten}`,
+      params: { campaignId: w.campaignId },
+    });
     expect(csv.status).toBe(200);
     const lines = (csv.json as string).trim().split("\r\n");
     expect(lines[0]).toContain("Ki (µM)");
@@ -198,7 +260,11 @@ describe("one query everywhere", () => {
     expect(lines[0]).toContain("LE (kcal/mol per heavy atom)");
     expect(lines.slice(1).map((l) => l.split(",")[0])).toEqual(api);
 
-    const x = await callRoute(exportRoute.GET, { user: w.people.viewer, path: `${base()}/export?format=xlsx&${handWritten}`, params: { campaignId: w.campaignId } });
+    const x = await callRoute(exportRoute.GET, {
+      user: w.people.viewer,
+      path: `${base()}/export?format=xlsx&${handWritten}`,
+      params: { campaignId: w.campaignId },
+    });
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(Buffer.from(await x.response.arrayBuffer()) as unknown as ArrayBuffer);
     const ws = wb.getWorksheet("Hits")!;
@@ -212,12 +278,22 @@ describe("export neutralises formula-looking text and keeps numbers as numbers",
   it("in CSV and in XLSX (OWASP CSV injection guidance: prefix a single quote)", async () => {
     // An invented lead whose display name looks like a formula becomes the owner of INH-000008.
     const evil = await newTestUser("formula-name");
-    await db.update(users).set({ name: "=HYPERLINK(\"http://x.invalid\",\"a\")" }).where(eq(users.id, evil.id));
+    await db.update(users).set({ name: '=HYPERLINK("http://x.invalid","a")' }).where(eq(users.id, evil.id));
     await db.insert(memberships).values({ campaignId: w.campaignId, userId: evil.id, role: "lead" });
-    const p = await callRoute(hitRoute.PATCH, { user: evil, method: "PATCH", path: `${base()}/INH-000008`, params: { campaignId: w.campaignId, registryId: "INH-000008" }, body: { status: "dropped", comment: "inactive (invented)" } });
+    const p = await callRoute(hitRoute.PATCH, {
+      user: evil,
+      method: "PATCH",
+      path: `${base()}/INH-000008`,
+      params: { campaignId: w.campaignId, registryId: "INH-000008" },
+      body: { status: "dropped", comment: "inactive (invented)" },
+    });
     expect(p.status).toBe(200);
 
-    const csv = await callRoute(exportRoute.GET, { user: w.people.lead, path: `${base()}/export?format=csv&q=INH-000008`, params: { campaignId: w.campaignId } });
+    const csv = await callRoute(exportRoute.GET, {
+      user: w.people.lead,
+      path: `${base()}/export?format=csv&q=INH-000008`,
+      params: { campaignId: w.campaignId },
+    });
     const [header, row] = (csv.json as string).trim().split("\r\n");
     const cols = header!.split(",");
     expect(row).toContain(`"'=HYPERLINK(""http://x.invalid"",""a"")"`);
@@ -226,13 +302,17 @@ describe("export neutralises formula-looking text and keeps numbers as numbers",
     expect(pctAt).toBeGreaterThan(0);
     expect(row).toMatch(/,-5,/);
 
-    const x = await callRoute(exportRoute.GET, { user: w.people.lead, path: `${base()}/export?format=xlsx&q=INH-000008`, params: { campaignId: w.campaignId } });
+    const x = await callRoute(exportRoute.GET, {
+      user: w.people.lead,
+      path: `${base()}/export?format=xlsx&q=INH-000008`,
+      params: { campaignId: w.campaignId },
+    });
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(Buffer.from(await x.response.arrayBuffer()) as unknown as ArrayBuffer);
     const ws = wb.getWorksheet("Hits")!;
     const headers = (ws.getRow(1).values as unknown[]).slice(1).map(String);
     const cell = (name: string) => ws.getRow(2).getCell(headers.indexOf(name) + 1).value;
-    expect(cell("Owner")).toBe("'=HYPERLINK(\"http://x.invalid\",\"a\")");
+    expect(cell("Owner")).toBe('\'=HYPERLINK("http://x.invalid","a")');
     expect(cell("Single-dose inhibition (%)")).toBe(-5);
     expect(typeof cell("MW (g/mol)")).toBe("number");
   });
@@ -240,13 +320,28 @@ describe("export neutralises formula-looking text and keeps numbers as numbers",
 
 describe("triage", () => {
   const counts = async (id: string) => {
-    const [d] = await db.select({ n: sql<number>`count(*)::int` }).from(triageDecisions).where(and(eq(triageDecisions.campaignId, w.campaignId), eq(triageDecisions.compoundId, id)));
-    const [a] = await db.select({ n: sql<number>`count(*)::int` }).from(auditLog).where(and(eq(auditLog.campaignId, w.campaignId), eq(auditLog.entityId, id)));
-    const [r] = await db.select().from(hitRows).where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, id)));
+    const [d] = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(triageDecisions)
+      .where(and(eq(triageDecisions.campaignId, w.campaignId), eq(triageDecisions.compoundId, id)));
+    const [a] = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(auditLog)
+      .where(and(eq(auditLog.campaignId, w.campaignId), eq(auditLog.entityId, id)));
+    const [r] = await db
+      .select()
+      .from(hitRows)
+      .where(and(eq(hitRows.campaignId, w.campaignId), eq(hitRows.compoundId, id)));
     return { decisions: d!.n, audits: a!.n, status: r!.status };
   };
   const patch = (user: World["people"][keyof World["people"]], id: string, body: unknown) =>
-    callRoute(hitRoute.PATCH, { user, method: "PATCH", path: `${base()}/${id}`, params: { campaignId: w.campaignId, registryId: id }, body });
+    callRoute(hitRoute.PATCH, {
+      user,
+      method: "PATCH",
+      path: `${base()}/${id}`,
+      params: { campaignId: w.campaignId, registryId: id },
+      body,
+    });
 
   it("a viewer's and a chemist's PATCH are refused (403) and change nothing", async () => {
     const before = await counts("INH-000002");
@@ -257,22 +352,42 @@ describe("triage", () => {
   });
 
   it("a lead's change keeps history (who, when, from, to, comment) and an audit row, and shows in the grid", async () => {
-    const r = await patch(w.people.lead, "INH-000002", { status: "confirmed", comment: "clean competitive, potent (invented)" });
+    const r = await patch(w.people.lead, "INH-000002", {
+      status: "confirmed",
+      comment: "clean competitive, potent (invented)",
+    });
     expect(r.status).toBe(200);
     const r2 = await patch(w.people.lead, "INH-000002", { status: "advance" });
     expect(r2.status).toBe(200);
-    const hist = await db.select().from(triageDecisions).where(and(eq(triageDecisions.campaignId, w.campaignId), eq(triageDecisions.compoundId, "INH-000002"))).orderBy(triageDecisions.at);
+    const hist = await db
+      .select()
+      .from(triageDecisions)
+      .where(and(eq(triageDecisions.campaignId, w.campaignId), eq(triageDecisions.compoundId, "INH-000002")))
+      .orderBy(triageDecisions.at);
     expect(hist.map((h) => [h.fromStatus, h.toStatus, h.by])).toEqual([
       ["unreviewed", "confirmed", w.people.lead.id],
       ["confirmed", "advance", w.people.lead.id],
     ]);
     expect(hist[0]!.comment).toBe("clean competitive, potent (invented)");
-    const audits = await db.select().from(auditLog).where(and(eq(auditLog.campaignId, w.campaignId), eq(auditLog.entityId, "INH-000002"), eq(auditLog.action, "triage.status")));
+    const audits = await db
+      .select()
+      .from(auditLog)
+      .where(
+        and(
+          eq(auditLog.campaignId, w.campaignId),
+          eq(auditLog.entityId, "INH-000002"),
+          eq(auditLog.action, "triage.status"),
+        ),
+      );
     expect(audits.map((a) => (a.after as { status: string }).status)).toEqual(["confirmed", "advance"]);
     const g = await list("status=advance");
     expect(order(g.json)).toEqual(["INH-000002"]);
     expect((g.json as { items: { owner: string }[] }).items[0]!.owner).toBe(w.people.lead.name);
-    const detail = await callRoute(hitRoute.GET, { user: w.people.viewer, path: `${base()}/INH-000002`, params: { campaignId: w.campaignId, registryId: "INH-000002" } });
+    const detail = await callRoute(hitRoute.GET, {
+      user: w.people.viewer,
+      path: `${base()}/INH-000002`,
+      params: { campaignId: w.campaignId, registryId: "INH-000002" },
+    });
     expect((detail.json as { history: { to: string }[] }).history.map((h) => h.to)).toEqual(["advance", "confirmed"]);
   });
 
@@ -280,11 +395,23 @@ describe("triage", () => {
     const before = await counts("INH-000004");
     const held = async () => (await list("status=on-hold")).json as { total: number };
     expect((await held()).total).toBe(0); // the total is now kept until the rows change
-    const bad = await callRoute(hitsRoute.PATCH, { user: w.people.lead, method: "PATCH", path: base(), params: { campaignId: w.campaignId }, body: { registryIds: ["INH-000004", "INH-999999"], status: "on hold" } });
+    const bad = await callRoute(hitsRoute.PATCH, {
+      user: w.people.lead,
+      method: "PATCH",
+      path: base(),
+      params: { campaignId: w.campaignId },
+      body: { registryIds: ["INH-000004", "INH-999999"], status: "on hold" },
+    });
     expect(bad.status).toBe(400);
     expect((bad.json as { error: string }).error).toContain("INH-999999");
     expect(await counts("INH-000004")).toEqual(before);
-    const ok = await callRoute(hitsRoute.PATCH, { user: w.people.admin, method: "PATCH", path: base(), params: { campaignId: w.campaignId }, body: { registryIds: ["INH-000004", "INH-000010"], status: "on hold", comment: "wait for resynthesis" } });
+    const ok = await callRoute(hitsRoute.PATCH, {
+      user: w.people.admin,
+      method: "PATCH",
+      path: base(),
+      params: { campaignId: w.campaignId },
+      body: { registryIds: ["INH-000004", "INH-000010"], status: "on hold", comment: "wait for resynthesis" },
+    });
     expect(ok.status).toBe(200);
     expect((await counts("INH-000004")).status).toBe("on-hold");
     expect((await counts("INH-000010")).status).toBe("on-hold");
@@ -293,10 +420,19 @@ describe("triage", () => {
 
   it("chemists comment, viewers cannot; the grid counts comments", async () => {
     const post = (user: World["people"]["viewer"]) =>
-      callRoute(commentsRoute.POST, { user, method: "POST", path: `${base()}/INH-000005/comments`, params: { campaignId: w.campaignId, registryId: "INH-000005" }, body: { body: "resynthesis planned (invented)" } });
+      callRoute(commentsRoute.POST, {
+        user,
+        method: "POST",
+        path: `${base()}/INH-000005/comments`,
+        params: { campaignId: w.campaignId, registryId: "INH-000005" },
+        body: { body: "resynthesis planned (invented)" },
+      });
     expect((await post(w.people.viewer)).status).toBe(403);
     expect((await post(w.people.chemist)).status).toBe(201);
-    const [c] = await db.select({ n: sql<number>`count(*)::int` }).from(hitComments).where(eq(hitComments.campaignId, w.campaignId));
+    const [c] = await db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(hitComments)
+      .where(eq(hitComments.campaignId, w.campaignId));
     expect(c!.n).toBe(1);
     const g = await list("commentsMin=1");
     expect(order(g.json)).toEqual(["INH-000005"]);
@@ -306,14 +442,28 @@ describe("triage", () => {
 describe("saved views", () => {
   it("are per person: saved, replaced by name, invisible to others", async () => {
     const save = (user: World["people"]["viewer"], name: string, sort: string) =>
-      callRoute(viewsRoute.POST, { user, method: "POST", path: `${base()}/views`, params: { campaignId: w.campaignId }, body: { name, state: { columns: [{ colId: "le", hide: true }], query: { sort } } } });
+      callRoute(viewsRoute.POST, {
+        user,
+        method: "POST",
+        path: `${base()}/views`,
+        params: { campaignId: w.campaignId },
+        body: { name, state: { columns: [{ colId: "le", hide: true }], query: { sort } } },
+      });
     expect((await save(w.people.viewer, "Potent first", "ki")).status).toBe(201);
     expect((await save(w.people.viewer, "potent FIRST", "le")).status).toBe(201);
-    const mine = await callRoute(viewsRoute.GET, { user: w.people.viewer, path: `${base()}/views`, params: { campaignId: w.campaignId } });
+    const mine = await callRoute(viewsRoute.GET, {
+      user: w.people.viewer,
+      path: `${base()}/views`,
+      params: { campaignId: w.campaignId },
+    });
     const items = (mine.json as { items: { name: string; state: { query: { sort: string } } }[] }).items;
     expect(items).toHaveLength(1);
     expect(items[0]!.state.query.sort).toBe("le");
-    const theirs = await callRoute(viewsRoute.GET, { user: w.people.chemist, path: `${base()}/views`, params: { campaignId: w.campaignId } });
+    const theirs = await callRoute(viewsRoute.GET, {
+      user: w.people.chemist,
+      path: `${base()}/views`,
+      params: { campaignId: w.campaignId },
+    });
     expect((theirs.json as { items: unknown[] }).items).toHaveLength(0);
   });
 });

@@ -1,12 +1,28 @@
 import "server-only";
 import { and, asc, desc, eq, getTableColumns, inArray, sql, type SQL, type SQLWrapper } from "drizzle-orm";
 import { db, type Db, type Tx } from "@/server/db/client";
-import { compoundBatches, compounds, hitComments, hitRows, hitRowVersions, hitViews, triageDecisions, users } from "@/server/db/schema";
+import {
+  compoundBatches,
+  compounds,
+  hitComments,
+  hitRows,
+  hitRowVersions,
+  hitViews,
+  triageDecisions,
+  users,
+} from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import type { SessionUser } from "@/server/auth/session";
 import { audit } from "./audit";
 import type { HitItem } from "@/lib/hits/item";
-import { rangeFields, triageLabels, type HitFilter, type SavedViewState, type SortField, type TriageStatus } from "@/lib/hits/query";
+import {
+  rangeFields,
+  triageLabels,
+  type HitFilter,
+  type SavedViewState,
+  type SortField,
+  type TriageStatus,
+} from "@/lib/hits/query";
 
 type Actor = Pick<SessionUser, "id" | "email">;
 
@@ -31,7 +47,12 @@ type Actor = Pick<SessionUser, "id" | "email">;
  * `prune`, every row of the campaign without a current result goes (a re-analysis that drops
  * a compound).
  */
-export async function refreshHitRows(tx: Tx, campaignId: string, compoundIds: readonly string[], opts: { prune?: boolean } = {}): Promise<void> {
+export async function refreshHitRows(
+  tx: Tx,
+  campaignId: string,
+  compoundIds: readonly string[],
+  opts: { prune?: boolean } = {},
+): Promise<void> {
   const ids = [...new Set(compoundIds)];
   if (ids.length > 0) {
     const idArray = sql`${`{${ids.map((i) => `"${i.replace(/["\\]/g, "")}"`).join(",")}}`}::text[]`;
@@ -193,10 +214,14 @@ function whereOf(campaignId: string, f: HitFilter): SQL {
   }
   if (f.flagged !== undefined) parts.push(eq(hitRows.flagged, f.flagged));
   if (f.hit !== undefined) parts.push(eq(hitRows.hit, f.hit));
-  if (f.q) parts.push(sql`(${hitRows.compoundId} ilike ${`%${likeEscape(f.q)}%`} or ${hitRows.name} ilike ${`%${likeEscape(f.q)}%`})`);
+  if (f.q)
+    parts.push(
+      sql`(${hitRows.compoundId} ilike ${`%${likeEscape(f.q)}%`} or ${hitRows.name} ilike ${`%${likeEscape(f.q)}%`})`,
+    );
   if (f.owner) parts.push(sql`${hitRows.ownerName} ilike ${`%${likeEscape(f.owner)}%`}`);
   if (f.lastTestedFrom) parts.push(sql`${hitRows.lastTestedAt} >= ${f.lastTestedFrom.toISOString()}`);
-  if (f.lastTestedTo) parts.push(sql`${hitRows.lastTestedAt} < ${new Date(f.lastTestedTo.getTime() + 86_400_000).toISOString()}`);
+  if (f.lastTestedTo)
+    parts.push(sql`${hitRows.lastTestedAt} < ${new Date(f.lastTestedTo.getTime() + 86_400_000).toISOString()}`);
   for (const field of rangeFields) {
     const col = sortColumn[field];
     const min = f[`${field}Min`];
@@ -213,7 +238,9 @@ function orderOf(f: HitFilter): SQL {
     return sql`${hitRows.flagged} asc, ${hitRows.kiUm} asc nulls last, ${hitRows.ic50Um} asc nulls last, ${hitRows.pctInhibition} desc nulls last, ${hitRows.compoundId} asc`;
   }
   const col = sortColumn[f.sort];
-  return f.dir === "desc" ? sql`${col} desc nulls last, ${hitRows.compoundId} desc` : sql`${col} asc nulls last, ${hitRows.compoundId} asc`;
+  return f.dir === "desc"
+    ? sql`${col} desc nulls last, ${hitRows.compoundId} desc`
+    : sql`${col} asc nulls last, ${hitRows.compoundId} asc`;
 }
 
 /** Every column but the stored API item (which only the page query reads). */
@@ -255,7 +282,17 @@ export function hitJson(r: HitRow): HitItem {
 }
 export type { HitItem };
 
-export const HIT_UNITS = { ki: "µM", kic: "µM", kiu: "µM", ic50: "µM", pctInhibition: "%", le: "kcal/mol per heavy atom", mw: "g/mol", lipe: "dimensionless", alpha: "dimensionless" };
+export const HIT_UNITS = {
+  ki: "µM",
+  kic: "µM",
+  kiu: "µM",
+  ic50: "µM",
+  pctInhibition: "%",
+  le: "kcal/mol per heavy atom",
+  mw: "g/mol",
+  lipe: "dimensionless",
+  alpha: "dimensionless",
+};
 
 // Totals of recent filters, per campaign version (hit_row_versions): counting up to 100,000
 // rows on every page was most of a request's cost (bench/hits.ts). The version is read before
@@ -272,12 +309,20 @@ function filterKey(campaignId: string, version: number, f: HitFilter): string {
   const parts = Object.entries(rest)
     .filter(([, v]) => v !== undefined)
     .sort(([a], [b]) => a.localeCompare(b))
-    .map(([k, v]) => `${k}=${v instanceof Date ? v.toISOString() : Array.isArray(v) ? [...v].sort().join(",") : String(v)}`);
+    .map(
+      ([k, v]) =>
+        `${k}=${v instanceof Date ? v.toISOString() : Array.isArray(v) ? [...v].sort().join(",") : String(v)}`,
+    );
   return `${campaignId}|${version}|${parts.join("&")}`;
 }
 
 /** A sorted, filtered page of the campaign's hit rows as JSON text (`[…]`), and how many rows match. */
-export async function listHitsJson(campaignId: string, f: HitFilter, limit: number, offset: number): Promise<{ itemsJson: string; total: number }> {
+export async function listHitsJson(
+  campaignId: string,
+  f: HitFilter,
+  limit: number,
+  offset: number,
+): Promise<{ itemsJson: string; total: number }> {
   const where = whereOf(campaignId, f);
   // One statement (one round trip) for the page and the version its total is cached under. Each
   // row's item is stored JSON text (hit_rows.item_json, kept by a trigger): a page is 100 strings
@@ -306,7 +351,12 @@ export async function listHitsJson(campaignId: string, f: HitFilter, limit: numb
 }
 
 /** The same page as objects. */
-export async function listHits(campaignId: string, f: HitFilter, limit: number, offset: number): Promise<{ items: HitItem[]; total: number }> {
+export async function listHits(
+  campaignId: string,
+  f: HitFilter,
+  limit: number,
+  offset: number,
+): Promise<{ items: HitItem[]; total: number }> {
   const r = await listHitsJson(campaignId, f, limit, offset);
   return { items: JSON.parse(r.itemsJson) as HitItem[], total: r.total };
 }
@@ -315,7 +365,12 @@ export const EXPORT_MAX_ROWS = 100_000;
 
 /** Every row of the view (same filter and order as the grid), up to EXPORT_MAX_ROWS. */
 export async function exportHits(campaignId: string, f: HitFilter): Promise<{ items: HitItem[]; truncated: boolean }> {
-  const rows = await db.select(rowColumns).from(hitRows).where(whereOf(campaignId, f)).orderBy(orderOf(f)).limit(EXPORT_MAX_ROWS + 1);
+  const rows = await db
+    .select(rowColumns)
+    .from(hitRows)
+    .where(whereOf(campaignId, f))
+    .orderBy(orderOf(f))
+    .limit(EXPORT_MAX_ROWS + 1);
   return { items: rows.slice(0, EXPORT_MAX_ROWS).map(hitJson), truncated: rows.length > EXPORT_MAX_ROWS };
 }
 
@@ -327,7 +382,13 @@ export async function exportHits(campaignId: string, f: HitFilter): Promise<{ it
  * Any unknown compound refuses the whole request (nothing written). Setting the status a
  * compound already has changes nothing and is not recorded.
  */
-export async function setTriageStatus(actor: Actor, campaignId: string, registryIds: string[], status: TriageStatus, comment?: string) {
+export async function setTriageStatus(
+  actor: Actor,
+  campaignId: string,
+  registryIds: string[],
+  status: TriageStatus,
+  comment?: string,
+) {
   const ids = [...new Set(registryIds)];
   return db.transaction(async (tx) => {
     const rows = await tx
@@ -338,13 +399,30 @@ export async function setTriageStatus(actor: Actor, campaignId: string, registry
     const known = new Map(rows.map((r) => [r.compoundId, r.status]));
     const missing = ids.filter((i) => !known.has(i));
     if (missing.length) {
-      throw new AppError(ids.length === 1 ? "not_found" : "bad_request", `No result in this campaign for ${missing.slice(0, 5).join(", ")}${missing.length > 5 ? ` and ${missing.length - 5} more` : ""}. Nothing was changed.`, {
-        details: missing.slice(0, 50).map((m) => ({ field: "registryIds", message: `${m} has no current result in this campaign.` })),
-      });
+      throw new AppError(
+        ids.length === 1 ? "not_found" : "bad_request",
+        `No result in this campaign for ${missing.slice(0, 5).join(", ")}${missing.length > 5 ? ` and ${missing.length - 5} more` : ""}. Nothing was changed.`,
+        {
+          details: missing
+            .slice(0, 50)
+            .map((m) => ({ field: "registryIds", message: `${m} has no current result in this campaign.` })),
+        },
+      );
     }
     const changing = ids.filter((i) => known.get(i) !== status);
     if (changing.length) {
-      await tx.insert(triageDecisions).values(changing.map((compoundId) => ({ campaignId, compoundId, fromStatus: known.get(compoundId)!, toStatus: status, comment: comment || null, by: actor.id })));
+      await tx
+        .insert(triageDecisions)
+        .values(
+          changing.map((compoundId) => ({
+            campaignId,
+            compoundId,
+            fromStatus: known.get(compoundId)!,
+            toStatus: status,
+            comment: comment || null,
+            by: actor.id,
+          })),
+        );
       for (const compoundId of changing) {
         await audit(tx, actor, {
           campaignId,
@@ -365,9 +443,15 @@ export async function setTriageStatus(actor: Actor, campaignId: string, registry
 /** A comment on a compound in the campaign (members who may comment). */
 export async function addComment(actor: Actor, campaignId: string, registryId: string, body: string) {
   return db.transaction(async (tx) => {
-    const [row] = await tx.select({ id: hitRows.compoundId }).from(hitRows).where(and(eq(hitRows.campaignId, campaignId), eq(hitRows.compoundId, registryId)));
+    const [row] = await tx
+      .select({ id: hitRows.compoundId })
+      .from(hitRows)
+      .where(and(eq(hitRows.campaignId, campaignId), eq(hitRows.compoundId, registryId)));
     if (!row) throw new AppError("not_found", `No result in this campaign for ${registryId}.`);
-    const [c] = await tx.insert(hitComments).values({ campaignId, compoundId: registryId, body, by: actor.id }).returning({ id: hitComments.id, at: hitComments.at });
+    const [c] = await tx
+      .insert(hitComments)
+      .values({ campaignId, compoundId: registryId, body, by: actor.id })
+      .returning({ id: hitComments.id, at: hitComments.at });
     await refreshHitRows(tx, campaignId, [registryId]);
     return { id: c!.id, at: c!.at.toISOString() };
   });
@@ -377,7 +461,10 @@ export async function addComment(actor: Actor, campaignId: string, registryId: s
 
 /** Everything the compound panel shows: the row, structure, current results with plot data, batches, history, comments. */
 export async function hitDetail(campaignId: string, registryId: string) {
-  const [row] = await db.select(rowColumns).from(hitRows).where(and(eq(hitRows.campaignId, campaignId), eq(hitRows.compoundId, registryId)));
+  const [row] = await db
+    .select(rowColumns)
+    .from(hitRows)
+    .where(and(eq(hitRows.campaignId, campaignId), eq(hitRows.compoundId, registryId)));
   if (!row) throw new AppError("not_found", `No result in this campaign for ${registryId}.`);
   const [compound] = await db.select().from(compounds).where(eq(compounds.registryId, registryId));
   const [results, batches, history, comments] = await Promise.all([
@@ -406,13 +493,26 @@ export async function hitDetail(campaignId: string, registryId: string) {
       order by a.finished_at desc nulls last`),
     compound
       ? db
-          .select({ batchNumber: compoundBatches.batchNumber, supplier: compoundBatches.supplier, purityPct: compoundBatches.purityPct, saltForm: compoundBatches.saltForm, batchDate: compoundBatches.batchDate })
+          .select({
+            batchNumber: compoundBatches.batchNumber,
+            supplier: compoundBatches.supplier,
+            purityPct: compoundBatches.purityPct,
+            saltForm: compoundBatches.saltForm,
+            batchDate: compoundBatches.batchDate,
+          })
           .from(compoundBatches)
           .where(eq(compoundBatches.compoundId, compound.id))
           .orderBy(asc(compoundBatches.batchNumber))
       : Promise.resolve([]),
     db
-      .select({ id: triageDecisions.id, from: triageDecisions.fromStatus, to: triageDecisions.toStatus, comment: triageDecisions.comment, at: triageDecisions.at, by: users.name })
+      .select({
+        id: triageDecisions.id,
+        from: triageDecisions.fromStatus,
+        to: triageDecisions.toStatus,
+        comment: triageDecisions.comment,
+        at: triageDecisions.at,
+        by: users.name,
+      })
       .from(triageDecisions)
       .leftJoin(users, eq(users.id, triageDecisions.by))
       .where(and(eq(triageDecisions.campaignId, campaignId), eq(triageDecisions.compoundId, registryId)))
@@ -427,7 +527,16 @@ export async function hitDetail(campaignId: string, registryId: string) {
   return {
     row: hitJson(row),
     compound: compound
-      ? { registryId: compound.registryId, name: compound.name, smiles: compound.canonicalSmiles, formula: compound.formula, mw: compound.mwGPerMol, clogp: compound.clogp, heavyAtoms: compound.heavyAtoms, structureKey: compound.structureKey }
+      ? {
+          registryId: compound.registryId,
+          name: compound.name,
+          smiles: compound.canonicalSmiles,
+          formula: compound.formula,
+          mw: compound.mwGPerMol,
+          clogp: compound.clogp,
+          heavyAtoms: compound.heavyAtoms,
+          structureKey: compound.structureKey,
+        }
       : null,
     results: [...results].map((r) => ({
       kind: r.kind,
@@ -441,14 +550,22 @@ export async function hitDetail(campaignId: string, registryId: string) {
       detail: r.detail,
     })),
     batches: batches.map((b) => ({ ...b, batchDate: b.batchDate ?? null })),
-    history: history.map((h) => ({ ...h, at: h.at.toISOString(), fromLabel: triageLabels[h.from], toLabel: triageLabels[h.to] })),
+    history: history.map((h) => ({
+      ...h,
+      at: h.at.toISOString(),
+      fromLabel: triageLabels[h.from],
+      toLabel: triageLabels[h.to],
+    })),
     comments: comments.map((c) => ({ ...c, at: c.at.toISOString() })),
   };
 }
 
 /** The structure key of a compound with a hit row in the campaign (for its drawing). */
 export async function hitStructureKey(campaignId: string, registryId: string): Promise<string> {
-  const [row] = await db.select({ key: hitRows.structureKey }).from(hitRows).where(and(eq(hitRows.campaignId, campaignId), eq(hitRows.compoundId, registryId)));
+  const [row] = await db
+    .select({ key: hitRows.structureKey })
+    .from(hitRows)
+    .where(and(eq(hitRows.campaignId, campaignId), eq(hitRows.compoundId, registryId)));
   if (!row?.key) throw new AppError("not_found", `No structure for ${registryId} in this campaign.`);
   return row.key;
 }
@@ -456,8 +573,17 @@ export async function hitStructureKey(campaignId: string, registryId: string): P
 // ---------------------------------------------------------------- saved views
 
 export async function listViews(userId: string, campaignId: string) {
-  const rows = await db.select().from(hitViews).where(and(eq(hitViews.userId, userId), eq(hitViews.campaignId, campaignId))).orderBy(asc(sql`lower(${hitViews.name})`));
-  return rows.map((v) => ({ id: v.id, name: v.name, state: v.state as SavedViewState, updatedAt: v.updatedAt.toISOString() }));
+  const rows = await db
+    .select()
+    .from(hitViews)
+    .where(and(eq(hitViews.userId, userId), eq(hitViews.campaignId, campaignId)))
+    .orderBy(asc(sql`lower(${hitViews.name})`));
+  return rows.map((v) => ({
+    id: v.id,
+    name: v.name,
+    state: v.state as SavedViewState,
+    updatedAt: v.updatedAt.toISOString(),
+  }));
 }
 
 /** Saves a named view for the user (a view of the same name is replaced). */

@@ -23,12 +23,27 @@ export async function campaignOverview(campaignId: string) {
              count(*)::int as rows,
              count(*) filter (where flagged)::int as flagged
       from hit_rows where campaign_id = ${campaignId}`),
-    db.execute<{ id: string; label: string; at: string; z_prime: number | null; verdict: "pass" | "fail"; decision: string }>(sql`
+    db.execute<{
+      id: string;
+      label: string;
+      at: string;
+      z_prime: number | null;
+      verdict: "pass" | "fail";
+      decision: string;
+    }>(sql`
       select * from (
         select id, coalesce(barcode, file_name) as label, uploaded_at as at, z_prime, qc_verdict as verdict, decision
         from plate_runs where campaign_id = ${campaignId} order by uploaded_at desc, file_name desc limit 200) t
       order by at asc, label asc`),
-    db.execute<{ id: string; compound_id: string; from_status: string; to_status: string; comment: string | null; at: string; by: string | null }>(sql`
+    db.execute<{
+      id: string;
+      compound_id: string;
+      from_status: string;
+      to_status: string;
+      comment: string | null;
+      at: string;
+      by: string | null;
+    }>(sql`
       select d.id, d.compound_id, d.from_status, d.to_status, d.comment, d.at, u.name as by
       from triage_decisions d left join users u on u.id = d.by
       where d.campaign_id = ${campaignId} order by d.at desc, d.id desc limit 8`),
@@ -54,8 +69,29 @@ export async function campaignOverview(campaignId: string) {
       newKi: hits?.new_ki ?? 0,
     },
     totals: { runs: runs?.total_runs ?? 0, hitRows: hits?.rows ?? 0, flagged: hits?.flagged ?? 0 },
-    trend: [...trend].map((t) => ({ id: t.id, label: t.label, at: new Date(t.at).toISOString(), zPrime: t.z_prime, verdict: t.verdict, decision: t.decision })),
-    decisions: [...decisions].map((d) => ({ id: d.id, compoundId: d.compound_id, from: d.from_status, to: d.to_status, comment: d.comment, at: new Date(d.at).toISOString(), by: d.by })),
-    activity: [...activity].map((a) => ({ kind: a.kind as "run" | "analysis" | "comment", what: a.what, at: new Date(a.at).toISOString(), by: a.by, ref: a.ref })),
+    trend: [...trend].map((t) => ({
+      id: t.id,
+      label: t.label,
+      at: new Date(t.at).toISOString(),
+      zPrime: t.z_prime,
+      verdict: t.verdict,
+      decision: t.decision,
+    })),
+    decisions: [...decisions].map((d) => ({
+      id: d.id,
+      compoundId: d.compound_id,
+      from: d.from_status,
+      to: d.to_status,
+      comment: d.comment,
+      at: new Date(d.at).toISOString(),
+      by: d.by,
+    })),
+    activity: [...activity].map((a) => ({
+      kind: a.kind as "run" | "analysis" | "comment",
+      what: a.what,
+      at: new Date(a.at).toISOString(),
+      by: a.by,
+      ref: a.ref,
+    })),
   };
 }

@@ -84,7 +84,12 @@ async function objectExists(sha256: string): Promise<boolean> {
 const maps = new Map<number, string>();
 async function mapFor(format: number): Promise<string> {
   if (!maps.has(format)) {
-    const file = format === 96 ? "single-dose-96.map.csv" : format === 384 ? "dose-response-384.map.csv" : "single-dose-1536.map.csv";
+    const file =
+      format === 96
+        ? "single-dose-96.map.csv"
+        : format === 384
+          ? "dose-response-384.map.csv"
+          : "single-dose-1536.map.csv";
     const r = await postMap(`Fixture map ${format}`, format, bytesOf(`${dir}/${file}`), file);
     expect(r.status).toBe(201);
     maps.set(format, (r.json as { id: string }).id);
@@ -121,16 +126,24 @@ describe("plate maps", () => {
     const before = await counts();
     const r = await postMap("Bad compound", 96, new TextEncoder().encode(csv));
     expect(r.status).toBe(400);
-    expect(r.json).toMatchObject({ error: 'well C5: compound "ABC-5" is not a registry ID (expected e.g. INH-000123)', details: [{ well: "C5" }] });
+    expect(r.json).toMatchObject({
+      error: 'well C5: compound "ABC-5" is not a registry ID (expected e.g. INH-000123)',
+      details: [{ well: "C5" }],
+    });
     expect(await counts()).toEqual(before);
   });
 
   it("refuses a compound that is not in the compound registry, naming the first well that uses it", async () => {
-    const csv = plateMapToCsv(smallMap()).replace("C5,sample,INH-000005", "C5,sample,INH-987654").replace("C6,sample,INH-000006", "C6,sample,INH-987654");
+    const csv = plateMapToCsv(smallMap())
+      .replace("C5,sample,INH-000005", "C5,sample,INH-987654")
+      .replace("C6,sample,INH-000006", "C6,sample,INH-987654");
     const before = await counts();
     const r = await postMap("Unregistered compound", 96, new TextEncoder().encode(csv));
     expect(r.status).toBe(400);
-    expect(r.json).toMatchObject({ error: "well C5: compound INH-987654 is not in the compound registry; register it first", details: [{ well: "C5" }] });
+    expect(r.json).toMatchObject({
+      error: "well C5: compound INH-987654 is not in the compound registry; register it first",
+      details: [{ well: "C5" }],
+    });
     expect(await counts()).toEqual(before);
   });
 
@@ -141,10 +154,20 @@ describe("plate maps", () => {
     const [row] = await db.select().from(plateMaps).where(eq(plateMaps.id, id));
     expect(row!.name).toBe("Editable (swapped)");
     expect(row!.wells.find((x) => x.well === "A1")!.role).toBe("full");
-    await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: id, fileName: "editable.csv", contentType: "text/csv", bytes: smallExport(31) });
-    const e = (await updatePlateMap(w.people.assay, w.campaignId, id, { name: "Editable again", map: smallMap() }).catch((x: unknown) => x)) as AppError;
+    await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+      plateMapId: id,
+      fileName: "editable.csv",
+      contentType: "text/csv",
+      bytes: smallExport(31),
+    });
+    const e = (await updatePlateMap(w.people.assay, w.campaignId, id, {
+      name: "Editable again",
+      map: smallMap(),
+    }).catch((x: unknown) => x)) as AppError;
     expect(e.status).toBe(409);
-    expect(e.message).toBe("Plate runs were uploaded against this plate map, so it is kept as it was. Save your changes as a new plate map.");
+    expect(e.message).toBe(
+      "Plate runs were uploaded against this plate map, so it is kept as it was. Save your changes as a new plate map.",
+    );
   });
 
   it("refuses a second plate map with the same name (409)", async () => {
@@ -155,15 +178,26 @@ describe("plate maps", () => {
 
 describe("plate runs: upload, QC, raw file", () => {
   it("QC figures of the science.md worked example: Z′ 0.87102, SW 24.79, S/B 10, CV 3.16 % / 7.07 %, 550 → 50 %", async () => {
-    const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, { name: "Worked example", map: smallMap() });
-    const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: "worked.csv", contentType: "text/csv", bytes: smallExport(1) });
+    const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, {
+      name: "Worked example",
+      map: smallMap(),
+    });
+    const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+      plateMapId: mapId,
+      fileName: "worked.csv",
+      contentType: "text/csv",
+      bytes: smallExport(1),
+    });
     expect(run.qc.zPrime).toBeCloseTo(0.87102, 5);
     expect(run.qc.signalWindow).toBeCloseTo(24.79, 2);
     expect(run.qc.signalToBackground).toBeCloseTo(10, 10);
     expect(run.qc.cvNeutralPct).toBeCloseTo(3.16, 2);
     expect(run.qc.cvFullPct).toBeCloseTo(7.07, 2);
     expect(run.qc.verdict).toBe("pass");
-    const [c1] = await db.select().from(wellReadings).where(and(eq(wellReadings.runId, run.id), eq(wellReadings.well, "C1")));
+    const [c1] = await db
+      .select()
+      .from(wellReadings)
+      .where(and(eq(wellReadings.runId, run.id), eq(wellReadings.well, "C1")));
     expect(c1!.inhibitionPct).toBeCloseTo(50, 10);
     expect(c1!.compoundId).toBe("INH-000001");
     expect(c1!.concentrationUm).toBe(10);
@@ -176,19 +210,38 @@ describe("plate runs: upload, QC, raw file", () => {
     const mapId = await mapFor(96);
     const r = await postRun(mapId, "single-dose-96.long.csv", fixtureBytes, { barcode: "INV-0001" });
     expect(r.status).toBe(201);
-    const body = r.json as { id: string; sha256: string; wells: number; reads: number; qc: Record<string, number | string> };
+    const body = r.json as {
+      id: string;
+      sha256: string;
+      wells: number;
+      reads: number;
+      qc: Record<string, number | string>;
+    };
     fixtureRunId = body.id;
     expect(body.sha256).toBe(sha(fixtureBytes));
     expect(body.wells).toBe(96);
     expect(body.reads).toBe(1);
-    expect(Object.keys(body.qc).sort()).toEqual(["cvFullPct", "cvNeutralPct", "signalToBackground", "signalWindow", "verdict", "zPrime"]);
+    expect(Object.keys(body.qc).sort()).toEqual([
+      "cvFullPct",
+      "cvNeutralPct",
+      "signalToBackground",
+      "signalWindow",
+      "verdict",
+      "zPrime",
+    ]);
     expect(await objectExists(body.sha256)).toBe(true);
-    const ctrl = await db.select({ role: wellReadings.role, signal: wellReadings.signal }).from(wellReadings).where(eq(wellReadings.runId, body.id));
+    const ctrl = await db
+      .select({ role: wellReadings.role, signal: wellReadings.signal })
+      .from(wellReadings)
+      .where(eq(wellReadings.runId, body.id));
     const n = ctrl.filter((x) => x.role === "neutral").map((x) => x.signal);
     const f = ctrl.filter((x) => x.role === "full").map((x) => x.signal);
     const py = execFileSync(
       "python3",
-      ["-c", "import json,sys,numpy as np;a,b=map(np.array,json.load(sys.stdin));sa,sb=a.std(ddof=1),b.std(ddof=1);print(json.dumps([1-3*(sa+sb)/abs(a.mean()-b.mean()),a.mean()/b.mean(),(abs(a.mean()-b.mean())-3*(sa+sb))/sa]))"],
+      [
+        "-c",
+        "import json,sys,numpy as np;a,b=map(np.array,json.load(sys.stdin));sa,sb=a.std(ddof=1),b.std(ddof=1);print(json.dumps([1-3*(sa+sb)/abs(a.mean()-b.mean()),a.mean()/b.mean(),(abs(a.mean()-b.mean())-3*(sa+sb))/sa]))",
+      ],
       { input: JSON.stringify([n, f]) },
     ).toString();
     const [z, sb, sw] = JSON.parse(py) as number[];
@@ -198,13 +251,27 @@ describe("plate runs: upload, QC, raw file", () => {
   });
 
   it("GET the run answers its QC and every well's value and % inhibition; the raw file downloads byte for byte", async () => {
-    const r = await callRoute(runRoute.GET, { user: w.people.viewer, path: "/x", params: { campaignId: w.campaignId, runId: fixtureRunId } });
+    const r = await callRoute(runRoute.GET, {
+      user: w.people.viewer,
+      path: "/x",
+      params: { campaignId: w.campaignId, runId: fixtureRunId },
+    });
     expect(r.status).toBe(200);
-    const body = r.json as { readings: { well: string; value: number; inhibitionPct: number | null; role: string }[]; file: { sha256: string }; barcode: string };
+    const body = r.json as {
+      readings: { well: string; value: number; inhibitionPct: number | null; role: string }[];
+      file: { sha256: string };
+      barcode: string;
+    };
     expect(body.readings).toHaveLength(96);
     expect(body.barcode).toBe("INV-0001");
-    expect(body.readings.filter((x) => x.role === "sample").every((x) => typeof x.inhibitionPct === "number")).toBe(true);
-    const f = await callRoute(fileRoute.GET, { user: w.people.viewer, path: "/x", params: { campaignId: w.campaignId, runId: fixtureRunId } });
+    expect(body.readings.filter((x) => x.role === "sample").every((x) => typeof x.inhibitionPct === "number")).toBe(
+      true,
+    );
+    const f = await callRoute(fileRoute.GET, {
+      user: w.people.viewer,
+      path: "/x",
+      params: { campaignId: w.campaignId, runId: fixtureRunId },
+    });
     expect(f.status).toBe(200);
     const got = new Uint8Array(await f.response.arrayBuffer());
     expect(sha(got)).toBe(sha(fixtureBytes));
@@ -250,7 +317,11 @@ describe("plate runs: upload, QC, raw file", () => {
       body: form({ plateMapId: await mapFor(96) }, { name: "single-dose-96.grid.csv", bytes }),
     });
     expect(r.status).toBe(200);
-    expect(r.json).toMatchObject({ preview: { shape: "grid-endpoint", format: 96, wells: 96 }, readout: "endpoint", qc: { verdict: "pass" } });
+    expect(r.json).toMatchObject({
+      preview: { shape: "grid-endpoint", format: 96, wells: 96 },
+      readout: "endpoint",
+      qc: { verdict: "pass" },
+    });
     expect(await counts()).toEqual(before);
     expect(await objectExists(sha(bytes))).toBe(false);
   });
@@ -274,12 +345,19 @@ describe("plate runs: bad input is refused with its exact message and leaves not
 
   it("an export missing a well the plate map uses is refused, naming the well", async () => {
     const mapId = await mapFor(96);
-    const text = fs.readFileSync(`${dir}/single-dose-96.long.csv`, "utf8").split("\n").filter((l) => !l.startsWith("A3,")).join("\n");
+    const text = fs
+      .readFileSync(`${dir}/single-dose-96.long.csv`, "utf8")
+      .split("\n")
+      .filter((l) => !l.startsWith("A3,"))
+      .join("\n");
     const bytes = new TextEncoder().encode(text);
     const before = await counts();
     const r = await postRun(mapId, "missing-a3.csv", bytes);
     expect(r.status).toBe(400);
-    expect(r.json).toMatchObject({ error: "missing-a3.csv, well A3: the plate map has a sample well here but the export has no reading for it", details: [{ well: "A3" }] });
+    expect(r.json).toMatchObject({
+      error: "missing-a3.csv, well A3: the plate map has a sample well here but the export has no reading for it",
+      details: [{ well: "A3" }],
+    });
     expect(await counts()).toEqual(before);
     expect(await objectExists(sha(bytes))).toBe(false);
   });
@@ -287,7 +365,12 @@ describe("plate runs: bad input is refused with its exact message and leaves not
   it("a file over 25 MB is refused before it is hashed or stored (413)", async () => {
     const big = new Uint8Array(25 * 1024 * 1024 + 1).fill(0x41);
     const before = await counts();
-    const e = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: await mapFor(96), fileName: "huge.csv", contentType: "text/csv", bytes: big }).catch((x: unknown) => x);
+    const e = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+      plateMapId: await mapFor(96),
+      fileName: "huge.csv",
+      contentType: "text/csv",
+      bytes: big,
+    }).catch((x: unknown) => x);
     expect(e).toBeInstanceOf(AppError);
     expect((e as AppError).status).toBe(413);
     expect((e as AppError).message).toBe("huge.csv: file is 25.0 MB; the limit is 25 MB");
@@ -301,28 +384,55 @@ describe("plate runs: bad input is refused with its exact message and leaves not
     const before = await counts();
     await db.execute(sql`create or replace function test_fail_reading() returns trigger language plpgsql as $$
       begin if new.well = 'C12' then raise exception 'simulated crash in the middle of the readings insert'; end if; return new; end $$`);
-    await db.execute(sql`create trigger test_fail_reading before insert on well_readings for each row execute function test_fail_reading()`);
+    await db.execute(
+      sql`create trigger test_fail_reading before insert on well_readings for each row execute function test_fail_reading()`,
+    );
     try {
-      const e = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: "crash.csv", contentType: "text/csv", bytes }).catch((x: unknown) => x);
+      const e = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+        plateMapId: mapId,
+        fileName: "crash.csv",
+        contentType: "text/csv",
+        bytes,
+      }).catch((x: unknown) => x);
       expect(e).toBeInstanceOf(Error);
-      expect(String((e as Error & { cause?: Error }).cause?.message ?? (e as Error).message)).toContain("simulated crash");
+      expect(String((e as Error & { cause?: Error }).cause?.message ?? (e as Error).message)).toContain(
+        "simulated crash",
+      );
     } finally {
       await db.execute(sql`drop trigger test_fail_reading on well_readings`);
       await db.execute(sql`drop function test_fail_reading()`);
     }
     expect(await counts()).toEqual(before);
-    expect(await db.select().from(plateRuns).where(eq(plateRuns.sha256, sha(bytes)))).toEqual([]);
+    expect(
+      await db
+        .select()
+        .from(plateRuns)
+        .where(eq(plateRuns.sha256, sha(bytes))),
+    ).toEqual([]);
     expect(await objectExists(sha(bytes))).toBe(false);
     // The same file then uploads cleanly.
-    const ok = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: "crash.csv", contentType: "text/csv", bytes });
+    const ok = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+      plateMapId: mapId,
+      fileName: "crash.csv",
+      contentType: "text/csv",
+      bytes,
+    });
     expect(ok.wells).toBe(24);
   });
 });
 
 describe("QC verdicts, masks and decisions", () => {
   it("a run whose controls are swapped fails QC and cannot be accepted", async () => {
-    const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, { name: "Swapped controls", map: smallMap(true) });
-    const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: "swapped.csv", contentType: "text/csv", bytes: smallExport(5) });
+    const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, {
+      name: "Swapped controls",
+      map: smallMap(true),
+    });
+    const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+      plateMapId: mapId,
+      fileName: "swapped.csv",
+      contentType: "text/csv",
+      bytes: smallExport(5),
+    });
     expect(run.qc.zPrime).toBeCloseTo(0.87102, 5); // Z′ alone cannot see it
     expect(run.qc.verdict).toBe("fail");
     const e = await decideRun(w.people.assay, w.campaignId, run.id, "accepted", "looks fine").catch((x: unknown) => x);
@@ -330,22 +440,39 @@ describe("QC verdicts, masks and decisions", () => {
     await decideRun(w.people.assay, w.campaignId, run.id, "rejected", "controls swapped at dispensing");
     const [row] = await db.select().from(plateRuns).where(eq(plateRuns.id, run.id));
     expect(row!.decision).toBe("rejected");
-    const a = await db.select().from(auditLog).where(and(eq(auditLog.entityId, run.id), eq(auditLog.action, "plate_run.reject")));
+    const a = await db
+      .select()
+      .from(auditLog)
+      .where(and(eq(auditLog.entityId, run.id), eq(auditLog.action, "plate_run.reject")));
     expect(a[0]!.reason).toBe("controls swapped at dispensing");
   });
 
   it("masking recomputes QC and % inhibition in one transaction, is audited, and unmasking keeps the history", async () => {
     const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, { name: "Mask test", map: smallMap() });
-    const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), { plateMapId: mapId, fileName: "mask.csv", contentType: "text/csv", bytes: smallExport(9) });
+    const run = await uploadRun(w.people.assay, await campaignRow(w.campaignId), {
+      plateMapId: mapId,
+      fileName: "mask.csv",
+      contentType: "text/csv",
+      bytes: smallExport(9),
+    });
     const qc = await maskWell(w.people.assay, w.campaignId, run.id, "A03", "pipetting error noted at set-up");
     // Without 1040 the neutral mean is (950+1010+980+1020+1000)/5 = 992.
     expect(qc.neutral!.mean).toBeCloseTo(992, 10);
     expect(qc.maskedWells).toBe(1);
-    const [c1] = await db.select().from(wellReadings).where(and(eq(wellReadings.runId, run.id), eq(wellReadings.well, "C1")));
+    const [c1] = await db
+      .select()
+      .from(wellReadings)
+      .where(and(eq(wellReadings.runId, run.id), eq(wellReadings.well, "C1")));
     expect(c1!.inhibitionPct).toBeCloseTo((100 * (992 - 550)) / (992 - 100), 10);
-    const [a3] = await db.select().from(wellReadings).where(and(eq(wellReadings.runId, run.id), eq(wellReadings.well, "A3")));
+    const [a3] = await db
+      .select()
+      .from(wellReadings)
+      .where(and(eq(wellReadings.runId, run.id), eq(wellReadings.well, "A3")));
     expect(a3!.masked).toBe(true);
-    expect(((await maskWell(w.people.assay, w.campaignId, run.id, "A3", "again").catch((x: unknown) => x)) as AppError).status).toBe(409);
+    expect(
+      ((await maskWell(w.people.assay, w.campaignId, run.id, "A3", "again").catch((x: unknown) => x)) as AppError)
+        .status,
+    ).toBe(409);
     await unmaskWell(w.people.assay, w.campaignId, run.id, "A3", "error was in another plate");
     const masks = await db.select().from(plateWellMasks).where(eq(plateWellMasks.runId, run.id));
     expect(masks).toHaveLength(1);
@@ -353,7 +480,10 @@ describe("QC verdicts, masks and decisions", () => {
     expect(masks[0]!.unmaskReason).toBe("error was in another plate");
     const [again] = await db.select().from(plateRuns).where(eq(plateRuns.id, run.id));
     expect(again!.zPrime).toBeCloseTo(0.87102, 5);
-    const acts = await db.select({ action: auditLog.action, reason: auditLog.reason }).from(auditLog).where(eq(auditLog.entityId, run.id));
+    const acts = await db
+      .select({ action: auditLog.action, reason: auditLog.reason })
+      .from(auditLog)
+      .where(eq(auditLog.entityId, run.id));
     expect(acts.map((x) => x.action).sort()).toEqual(["plate_run.mask", "plate_run.unmask", "plate_run.upload"]);
     await decideRun(w.people.assay, w.campaignId, run.id, "accepted", "QC passes; controls look normal");
     const [decided] = await db.select().from(plateRuns).where(eq(plateRuns.id, run.id));
@@ -361,15 +491,27 @@ describe("QC verdicts, masks and decisions", () => {
   });
 
   it("a mask without a reason is refused", async () => {
-    const [run] = await db.select({ id: plateRuns.id }).from(plateRuns).where(eq(plateRuns.campaignId, w.campaignId)).limit(1);
+    const [run] = await db
+      .select({ id: plateRuns.id })
+      .from(plateRuns)
+      .where(eq(plateRuns.campaignId, w.campaignId))
+      .limit(1);
     const e = (await maskWell(w.people.assay, w.campaignId, run!.id, "A1", " ").catch((x: unknown) => x)) as AppError;
     expect(e.status).toBe(400);
     expect(e.message).toBe("Give a reason for masking a well (at least 3 characters).");
   });
 
   it("another campaign's run answers 404", async () => {
-    const [run] = await db.select({ id: plateRuns.id }).from(plateRuns).where(eq(plateRuns.campaignId, w.campaignId)).limit(1);
-    const r = await callRoute(runRoute.GET, { user: w.people.nonMember, path: "/x", params: { campaignId: w.otherCampaignId, runId: run!.id } });
+    const [run] = await db
+      .select({ id: plateRuns.id })
+      .from(plateRuns)
+      .where(eq(plateRuns.campaignId, w.campaignId))
+      .limit(1);
+    const r = await callRoute(runRoute.GET, {
+      user: w.people.nonMember,
+      path: "/x",
+      params: { campaignId: w.otherCampaignId, runId: run!.id },
+    });
     expect(r.status).toBe(404);
   });
 });

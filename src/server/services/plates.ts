@@ -8,9 +8,24 @@ import { deleteObject, getObject, putObject } from "@/server/storage/s3";
 import { env } from "@/env";
 import type { SessionUser } from "@/server/auth/session";
 import { audit } from "./audit";
-import { countRoles, formulaInjectionMessage, issue, plateMapFromWells, type PlateIssue, type PlateMap, type PlateMapWell } from "@/lib/plates";
+import {
+  countRoles,
+  formulaInjectionMessage,
+  issue,
+  plateMapFromWells,
+  type PlateIssue,
+  type PlateMap,
+  type PlateMapWell,
+} from "@/lib/plates";
 import { MAX_FILE_BYTES, parseReaderExport, type ExportPreview } from "@/lib/plates/reader-export";
-import { buildReadings, computeRunQc, type QcInputWell, type RunQc, type RunReading, type SignalDirection } from "@/lib/plates/run-qc";
+import {
+  buildReadings,
+  computeRunQc,
+  type QcInputWell,
+  type RunQc,
+  type RunReading,
+  type SignalDirection,
+} from "@/lib/plates/run-qc";
 import { canonicalWell, type PlateFormat } from "@/lib/plates/geometry";
 
 type Actor = Pick<SessionUser, "id" | "email">;
@@ -35,8 +50,12 @@ function issuesError(issues: readonly PlateIssue[]): AppError {
 }
 
 function isUniqueViolation(e: unknown): boolean {
-  const code = (x: unknown) => (typeof x === "object" && x !== null && "code" in x ? (x as { code: unknown }).code : undefined);
-  return code(e) === "23505" || (typeof e === "object" && e !== null && "cause" in e && code((e as { cause: unknown }).cause) === "23505");
+  const code = (x: unknown) =>
+    typeof x === "object" && x !== null && "code" in x ? (x as { code: unknown }).code : undefined;
+  return (
+    code(e) === "23505" ||
+    (typeof e === "object" && e !== null && "cause" in e && code((e as { cause: unknown }).cause) === "23505")
+  );
 }
 
 // ---------------------------------------------------------------- compounds
@@ -55,13 +74,27 @@ async function compoundIssues(map: PlateMap): Promise<PlateIssue[]> {
   const firstWell = new Map<string, string>();
   for (const w of map.wells) {
     if (w.compound === undefined) continue;
-    if (!registryIdRe.test(w.compound)) out.push(issue({ well: w.well }, `compound "${w.compound.slice(0, 40)}" is not a registry ID (expected e.g. ${env.REGISTRY_PREFIX}000123)`));
+    if (!registryIdRe.test(w.compound))
+      out.push(
+        issue(
+          { well: w.well },
+          `compound "${w.compound.slice(0, 40)}" is not a registry ID (expected e.g. ${env.REGISTRY_PREFIX}000123)`,
+        ),
+      );
     else if (!firstWell.has(w.compound)) firstWell.set(w.compound, w.well);
   }
   if (firstWell.size > 0) {
     const ids = [...firstWell.keys()];
-    const found = new Set((await db.select({ id: compounds.registryId }).from(compounds).where(inArray(compounds.registryId, ids))).map((r) => r.id));
-    for (const id of ids) if (!found.has(id)) out.push(issue({ well: firstWell.get(id)! }, `compound ${id} is not in the compound registry; register it first`));
+    const found = new Set(
+      (await db.select({ id: compounds.registryId }).from(compounds).where(inArray(compounds.registryId, ids))).map(
+        (r) => r.id,
+      ),
+    );
+    for (const id of ids)
+      if (!found.has(id))
+        out.push(
+          issue({ well: firstWell.get(id)! }, `compound ${id} is not in the compound registry; register it first`),
+        );
   }
   return out.slice(0, 50);
 }
@@ -76,7 +109,14 @@ export type PlateMapInput = {
 };
 
 function listedWells(map: PlateMap): PlateMapWell[] {
-  return map.wells.filter((w) => w.role !== "empty" || w.compound !== undefined || w.concentrationUm !== undefined || w.substrateUm !== undefined || w.group !== undefined);
+  return map.wells.filter(
+    (w) =>
+      w.role !== "empty" ||
+      w.compound !== undefined ||
+      w.concentrationUm !== undefined ||
+      w.substrateUm !== undefined ||
+      w.group !== undefined,
+  );
 }
 
 function checkName(name: string): string {
@@ -112,28 +152,53 @@ export async function createPlateMap(actor: Actor, campaignId: string, input: Pl
           updatedBy: actor.id,
         })
         .returning({ id: plateMaps.id });
-      await audit(tx, actor, { campaignId, action: "plate_map.create", entityType: "plate_map", entityId: row!.id, after: { name, format: input.map.format, ...counts } });
+      await audit(tx, actor, {
+        campaignId,
+        action: "plate_map.create",
+        entityType: "plate_map",
+        entityId: row!.id,
+        after: { name, format: input.map.format, ...counts },
+      });
       return { id: row!.id };
     });
   } catch (e) {
-    if (isUniqueViolation(e)) throw new AppError("conflict", `A plate map named "${name}" already exists in this campaign.`);
+    if (isUniqueViolation(e))
+      throw new AppError("conflict", `A plate map named "${name}" already exists in this campaign.`);
     throw e;
   }
 }
 
 /** Change a plate map that no run has used yet (a used map is kept as it was: save a copy instead). */
-export async function updatePlateMap(actor: Actor, campaignId: string, mapId: string, input: PlateMapInput): Promise<{ id: string }> {
+export async function updatePlateMap(
+  actor: Actor,
+  campaignId: string,
+  mapId: string,
+  input: PlateMapInput,
+): Promise<{ id: string }> {
   const name = checkName(input.name);
   const bad = await compoundIssues(input.map);
   if (bad.length > 0) throw issuesError(bad);
   const counts = countRoles(input.map);
   try {
     return await db.transaction(async (tx) => {
-      const [old] = await tx.select().from(plateMaps).where(and(eq(plateMaps.id, mapId), eq(plateMaps.campaignId, campaignId))).for("update");
+      const [old] = await tx
+        .select()
+        .from(plateMaps)
+        .where(and(eq(plateMaps.id, mapId), eq(plateMaps.campaignId, campaignId)))
+        .for("update");
       if (!old) throw new AppError("not_found", "No such plate map in this campaign.");
-      if (old.format !== input.map.format) throw new AppError("bad_request", `This plate map is ${old.format}-well; its format cannot change.`);
-      const [used] = await tx.select({ id: plateRuns.id }).from(plateRuns).where(eq(plateRuns.plateMapId, mapId)).limit(1);
-      if (used) throw new AppError("conflict", "Plate runs were uploaded against this plate map, so it is kept as it was. Save your changes as a new plate map.");
+      if (old.format !== input.map.format)
+        throw new AppError("bad_request", `This plate map is ${old.format}-well; its format cannot change.`);
+      const [used] = await tx
+        .select({ id: plateRuns.id })
+        .from(plateRuns)
+        .where(eq(plateRuns.plateMapId, mapId))
+        .limit(1);
+      if (used)
+        throw new AppError(
+          "conflict",
+          "Plate runs were uploaded against this plate map, so it is kept as it was. Save your changes as a new plate map.",
+        );
       await tx
         .update(plateMaps)
         .set({
@@ -148,11 +213,19 @@ export async function updatePlateMap(actor: Actor, campaignId: string, mapId: st
           updatedAt: new Date(),
         })
         .where(eq(plateMaps.id, mapId));
-      await audit(tx, actor, { campaignId, action: "plate_map.update", entityType: "plate_map", entityId: mapId, before: { name: old.name, sampleWells: old.sampleWells }, after: { name, ...counts } });
+      await audit(tx, actor, {
+        campaignId,
+        action: "plate_map.update",
+        entityType: "plate_map",
+        entityId: mapId,
+        before: { name: old.name, sampleWells: old.sampleWells },
+        after: { name, ...counts },
+      });
       return { id: mapId };
     });
   } catch (e) {
-    if (isUniqueViolation(e)) throw new AppError("conflict", `A plate map named "${name}" already exists in this campaign.`);
+    if (isUniqueViolation(e))
+      throw new AppError("conflict", `A plate map named "${name}" already exists in this campaign.`);
     throw e;
   }
 }
@@ -179,7 +252,10 @@ export async function listPlateMaps(campaignId: string) {
 }
 
 export async function getPlateMap(campaignId: string, mapId: string) {
-  const [row] = await db.select().from(plateMaps).where(and(eq(plateMaps.id, mapId), eq(plateMaps.campaignId, campaignId)));
+  const [row] = await db
+    .select()
+    .from(plateMaps)
+    .where(and(eq(plateMaps.id, mapId), eq(plateMaps.campaignId, campaignId)));
   if (!row) throw new AppError("not_found", "No such plate map in this campaign.");
   return { ...row, map: plateMapFromWells(row.format as PlateFormat, row.wells) };
 }
@@ -199,27 +275,45 @@ export type RunSummary = {
   sha256: string;
   wells: number;
   reads: number;
-  qc: { zPrime: number | null; signalToBackground: number | null; signalWindow: number | null; cvNeutralPct: number | null; cvFullPct: number | null; verdict: "pass" | "fail" };
+  qc: {
+    zPrime: number | null;
+    signalToBackground: number | null;
+    signalWindow: number | null;
+    cvNeutralPct: number | null;
+    cvFullPct: number | null;
+    verdict: "pass" | "fail";
+  };
 };
 
 const MIB = 1024 * 1024;
 export const UPLOAD_LIMIT_BYTES = MAX_FILE_BYTES;
 
 function checkSize(fileName: string, size: number): void {
-  if (size > MAX_FILE_BYTES) throw new AppError("too_large", `${fileName}: file is ${(size / MIB).toFixed(1)} MB; the limit is ${MAX_FILE_BYTES / MIB} MB`);
+  if (size > MAX_FILE_BYTES)
+    throw new AppError(
+      "too_large",
+      `${fileName}: file is ${(size / MIB).toFixed(1)} MB; the limit is ${MAX_FILE_BYTES / MIB} MB`,
+    );
 }
 
 function cleanFileName(name: string): string {
   // Keep the name people recognise, without path parts or control characters.
   const base = name.split(/[\\/]/).pop() ?? "export";
-  const cleaned = [...base].filter((ch) => ch.charCodeAt(0) >= 32 && ch.charCodeAt(0) !== 127).join("").trim().slice(0, 200);
+  const cleaned = [...base]
+    .filter((ch) => ch.charCodeAt(0) >= 32 && ch.charCodeAt(0) !== 127)
+    .join("")
+    .trim()
+    .slice(0, 200);
   return cleaned || "export";
 }
 
 export const s3KeyFor = (sha256: string) => `plate-runs/sha256/${sha256}`;
 
 async function loadMapRow(campaignId: string, plateMapId: string) {
-  const [row] = await db.select().from(plateMaps).where(and(eq(plateMaps.id, plateMapId), eq(plateMaps.campaignId, campaignId)));
+  const [row] = await db
+    .select()
+    .from(plateMaps)
+    .where(and(eq(plateMaps.id, plateMapId), eq(plateMaps.campaignId, campaignId)));
   if (!row) throw new AppError("not_found", "No such plate map in this campaign.");
   return row;
 }
@@ -234,19 +328,50 @@ async function parseAgainstMap(mapRow: typeof plateMaps.$inferSelect, bytes: Uin
 }
 
 function qcWells(readings: ReturnType<typeof buildReadings> & { ok: true }): QcInputWell[] {
-  return readings.readings.map((r) => ({ well: r.well, role: r.role, signal: r.signal, isEdge: r.isEdge, masked: false, rateLinear: r.rate ? !r.rate.curved : null }));
+  return readings.readings.map((r) => ({
+    well: r.well,
+    role: r.role,
+    signal: r.signal,
+    isEdge: r.isEdge,
+    masked: false,
+    rateLinear: r.rate ? !r.rate.curved : null,
+  }));
 }
 
-export type RunPreview = { preview: ExportPreview; readout: "endpoint" | "kinetic"; wells: number; reads: number; qc: RunQc; plateMap: { id: string; name: string; format: number } };
+export type RunPreview = {
+  preview: ExportPreview;
+  readout: "endpoint" | "kinetic";
+  wells: number;
+  reads: number;
+  qc: RunQc;
+  plateMap: { id: string; name: string; format: number };
+};
 
 /** Parse only, nothing stored: what was detected, checked against the plate map, with provisional QC. */
-export async function previewRun(campaign: Campaign, plateMapId: string, fileName: string, bytes: Uint8Array): Promise<RunPreview> {
+export async function previewRun(
+  campaign: Campaign,
+  plateMapId: string,
+  fileName: string,
+  bytes: Uint8Array,
+): Promise<RunPreview> {
   const name = cleanFileName(fileName);
   checkSize(name, bytes.byteLength);
   const mapRow = await loadMapRow(campaign.id, plateMapId);
   const { exp, built } = await parseAgainstMap(mapRow, bytes, name);
-  const { qc } = computeRunQc(qcWells(built), { readout: built.readout, direction: mapRow.signalDirection, minZPrime: campaign.qcMinZPrime, maxCvPct: campaign.qcMaxCvPct });
-  return { preview: exp.preview, readout: built.readout, wells: exp.wells.size, reads: exp.reads, qc, plateMap: { id: mapRow.id, name: mapRow.name, format: mapRow.format } };
+  const { qc } = computeRunQc(qcWells(built), {
+    readout: built.readout,
+    direction: mapRow.signalDirection,
+    minZPrime: campaign.qcMinZPrime,
+    maxCvPct: campaign.qcMaxCvPct,
+  });
+  return {
+    preview: exp.preview,
+    readout: built.readout,
+    wells: exp.wells.size,
+    reads: exp.reads,
+    qc,
+    plateMap: { id: mapRow.id, name: mapRow.name, format: mapRow.format },
+  };
 }
 
 async function deleteIfUnreferenced(sha256: string): Promise<void> {
@@ -265,9 +390,13 @@ async function duplicateError(campaignId: string, sha256: string, fileName: stri
     .from(plateRuns)
     .where(and(eq(plateRuns.campaignId, campaignId), eq(plateRuns.sha256, sha256)));
   if (!dup) return null;
-  return new AppError("conflict", `${fileName}: this file (SHA-256 ${sha256.slice(0, 12)}…) was already uploaded as "${dup.fileName}" on ${dup.uploadedAt.toISOString().slice(0, 10)}.`, {
-    extra: { runId: dup.id },
-  });
+  return new AppError(
+    "conflict",
+    `${fileName}: this file (SHA-256 ${sha256.slice(0, 12)}…) was already uploaded as "${dup.fileName}" on ${dup.uploadedAt.toISOString().slice(0, 10)}.`,
+    {
+      extra: { runId: dup.id },
+    },
+  );
 }
 
 /**
@@ -275,7 +404,12 @@ async function duplicateError(campaignId: string, sha256: string, fileName: stri
  * bench/plates-server.ts: drizzle's multi-row `values()` with ~32,000 bound parameters took about
  * 180 ms for 1536 wells, most of the 300 ms budget; this form takes a small fraction of that.
  */
-async function insertReadings(tx: Tx, runId: string, readings: RunReading[], inhibitionPct: Map<string, number | null>): Promise<void> {
+async function insertReadings(
+  tx: Tx,
+  runId: string,
+  readings: RunReading[],
+  inhibitionPct: Map<string, number | null>,
+): Promise<void> {
   const rows = readings.map((r) => ({
     well: r.well,
     well_index: r.wellIndex,
@@ -324,7 +458,12 @@ export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadI
   await putObject(key, input.bytes, contentType, sha256);
   try {
     const { exp, built } = await parseAgainstMap(mapRow, input.bytes, fileName);
-    const { qc, inhibitionPct } = computeRunQc(qcWells(built), { readout: built.readout, direction: mapRow.signalDirection, minZPrime: campaign.qcMinZPrime, maxCvPct: campaign.qcMaxCvPct });
+    const { qc, inhibitionPct } = computeRunQc(qcWells(built), {
+      readout: built.readout,
+      direction: mapRow.signalDirection,
+      minZPrime: campaign.qcMinZPrime,
+      maxCvPct: campaign.qcMaxCvPct,
+    });
     const id = await db.transaction(async (tx) => {
       const [run] = await tx
         .insert(plateRuns)
@@ -364,11 +503,22 @@ export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadI
       sha256,
       wells: exp.wells.size,
       reads: exp.reads,
-      qc: { zPrime: qc.zPrime, signalToBackground: qc.signalToBackground, signalWindow: qc.signalWindow, cvNeutralPct: qc.cvNeutralPct, cvFullPct: qc.cvFullPct, verdict: qc.verdict },
+      qc: {
+        zPrime: qc.zPrime,
+        signalToBackground: qc.signalToBackground,
+        signalWindow: qc.signalWindow,
+        cvNeutralPct: qc.cvNeutralPct,
+        cvFullPct: qc.cvFullPct,
+        verdict: qc.verdict,
+      },
     };
   } catch (e) {
     await deleteIfUnreferenced(sha256);
-    if (isUniqueViolation(e)) throw (await duplicateError(campaign.id, sha256, fileName)) ?? new AppError("conflict", "This file was uploaded twice at the same time.");
+    if (isUniqueViolation(e))
+      throw (
+        (await duplicateError(campaign.id, sha256, fileName)) ??
+        new AppError("conflict", "This file was uploaded twice at the same time.")
+      );
     throw e;
   }
 }
@@ -378,13 +528,25 @@ export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadI
 /** Recompute QC and % inhibition of a run from its stored readings and open masks (inside tx). */
 async function recompute(tx: Tx, runId: string): Promise<RunQc> {
   const [head] = await tx
-    .select({ readout: plateRuns.readout, direction: plateMaps.signalDirection, minZPrime: campaigns.qcMinZPrime, maxCvPct: campaigns.qcMaxCvPct })
+    .select({
+      readout: plateRuns.readout,
+      direction: plateMaps.signalDirection,
+      minZPrime: campaigns.qcMinZPrime,
+      maxCvPct: campaigns.qcMaxCvPct,
+    })
     .from(plateRuns)
     .innerJoin(plateMaps, eq(plateMaps.id, plateRuns.plateMapId))
     .innerJoin(campaigns, eq(campaigns.id, plateRuns.campaignId))
     .where(eq(plateRuns.id, runId));
   const rows = await tx
-    .select({ well: wellReadings.well, role: wellReadings.role, signal: wellReadings.signal, isEdge: wellReadings.isEdge, masked: wellReadings.masked, rateLinear: wellReadings.rateLinear })
+    .select({
+      well: wellReadings.well,
+      role: wellReadings.role,
+      signal: wellReadings.signal,
+      isEdge: wellReadings.isEdge,
+      masked: wellReadings.masked,
+      rateLinear: wellReadings.rateLinear,
+    })
     .from(wellReadings)
     .where(eq(wellReadings.runId, runId));
   const { qc, inhibitionPct } = computeRunQc(rows, {
@@ -403,7 +565,11 @@ async function recompute(tx: Tx, runId: string): Promise<RunQc> {
 }
 
 async function lockRun(tx: Tx, campaignId: string, runId: string) {
-  const [run] = await tx.select().from(plateRuns).where(and(eq(plateRuns.id, runId), eq(plateRuns.campaignId, campaignId))).for("update");
+  const [run] = await tx
+    .select()
+    .from(plateRuns)
+    .where(and(eq(plateRuns.id, runId), eq(plateRuns.campaignId, campaignId)))
+    .for("update");
   if (!run) throw new AppError("not_found", "No such plate run in this campaign.");
   return run;
 }
@@ -416,16 +582,28 @@ function checkReason(reason: string, what: string): string {
 }
 
 /** Mask one well with a reason (audited); QC and % inhibition are recomputed in the same transaction. */
-export async function maskWell(actor: Actor, campaignId: string, runId: string, wellName: string, reason: string): Promise<RunQc> {
+export async function maskWell(
+  actor: Actor,
+  campaignId: string,
+  runId: string,
+  wellName: string,
+  reason: string,
+): Promise<RunQc> {
   const why = checkReason(reason, "masking a well");
   return db.transaction(async (tx) => {
     const run = await lockRun(tx, campaignId, runId);
     const well = canonicalWell(wellName, run.format as PlateFormat) ?? wellName.trim().toUpperCase();
-    const [reading] = await tx.select({ masked: wellReadings.masked }).from(wellReadings).where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
+    const [reading] = await tx
+      .select({ masked: wellReadings.masked })
+      .from(wellReadings)
+      .where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
     if (!reading) throw new AppError("not_found", `Well ${well.slice(0, 4)} has no reading on this run.`);
     if (reading.masked) throw new AppError("conflict", `Well ${well} is already masked.`);
     await tx.insert(plateWellMasks).values({ runId, well, reason: why, maskedBy: actor.id });
-    await tx.update(wellReadings).set({ masked: true }).where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
+    await tx
+      .update(wellReadings)
+      .set({ masked: true })
+      .where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
     const qc = await recompute(tx, runId);
     await audit(tx, actor, {
       campaignId,
@@ -441,7 +619,13 @@ export async function maskWell(actor: Actor, campaignId: string, runId: string, 
 }
 
 /** Unmask a well (the mask row is closed, not deleted); QC and % inhibition are recomputed. */
-export async function unmaskWell(actor: Actor, campaignId: string, runId: string, wellName: string, reason: string): Promise<RunQc> {
+export async function unmaskWell(
+  actor: Actor,
+  campaignId: string,
+  runId: string,
+  wellName: string,
+  reason: string,
+): Promise<RunQc> {
   const why = checkReason(reason, "unmasking a well");
   return db.transaction(async (tx) => {
     const run = await lockRun(tx, campaignId, runId);
@@ -452,7 +636,10 @@ export async function unmaskWell(actor: Actor, campaignId: string, runId: string
       .where(and(eq(plateWellMasks.runId, runId), eq(plateWellMasks.well, well), isNull(plateWellMasks.unmaskedAt)))
       .returning({ id: plateWellMasks.id });
     if (closed.length === 0) throw new AppError("conflict", `Well ${well.slice(0, 4)} is not masked.`);
-    await tx.update(wellReadings).set({ masked: false }).where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
+    await tx
+      .update(wellReadings)
+      .set({ masked: false })
+      .where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
     const qc = await recompute(tx, runId);
     await audit(tx, actor, {
       campaignId,
@@ -471,14 +658,26 @@ export async function unmaskWell(actor: Actor, campaignId: string, runId: string
  * Accept or reject a run with a reason (audited). A run that fails QC cannot be accepted: its
  * numbers must not count until the wells at fault are masked (with reasons) and QC passes.
  */
-export async function decideRun(actor: Actor, campaignId: string, runId: string, decision: "accepted" | "rejected", reason: string): Promise<void> {
+export async function decideRun(
+  actor: Actor,
+  campaignId: string,
+  runId: string,
+  decision: "accepted" | "rejected",
+  reason: string,
+): Promise<void> {
   const why = checkReason(reason, decision === "accepted" ? "accepting the run" : "rejecting the run");
   await db.transaction(async (tx) => {
     const run = await lockRun(tx, campaignId, runId);
     if (decision === "accepted" && run.qcVerdict !== "pass") {
-      throw new AppError("conflict", `This run fails QC (${run.qc.reasons[0] ?? "see the QC panel"}), so it cannot be accepted. Mask the wells at fault with a reason, or reject the run.`);
+      throw new AppError(
+        "conflict",
+        `This run fails QC (${run.qc.reasons[0] ?? "see the QC panel"}), so it cannot be accepted. Mask the wells at fault with a reason, or reject the run.`,
+      );
     }
-    await tx.update(plateRuns).set({ decision, decisionReason: why, decidedBy: actor.id, decidedAt: new Date() }).where(eq(plateRuns.id, runId));
+    await tx
+      .update(plateRuns)
+      .set({ decision, decisionReason: why, decidedBy: actor.id, decidedAt: new Date() })
+      .where(eq(plateRuns.id, runId));
     await audit(tx, actor, {
       campaignId,
       action: decision === "accepted" ? "plate_run.accept" : "plate_run.reject",
@@ -521,14 +720,25 @@ export async function listRuns(campaignId: string) {
 
 export async function getRunDetail(campaignId: string, runId: string) {
   const [run] = await db
-    .select({ run: plateRuns, plateMapName: plateMaps.name, signalDirection: plateMaps.signalDirection, uploadedByName: users.name })
+    .select({
+      run: plateRuns,
+      plateMapName: plateMaps.name,
+      signalDirection: plateMaps.signalDirection,
+      uploadedByName: users.name,
+    })
     .from(plateRuns)
     .innerJoin(plateMaps, eq(plateMaps.id, plateRuns.plateMapId))
     .leftJoin(users, eq(users.id, plateRuns.uploadedBy))
     .where(and(eq(plateRuns.id, runId), eq(plateRuns.campaignId, campaignId)));
   if (!run) throw new AppError("not_found", "No such plate run in this campaign.");
-  const [decider] = run.run.decidedBy ? await db.select({ name: users.name }).from(users).where(eq(users.id, run.run.decidedBy)) : [];
-  const readings = await db.select().from(wellReadings).where(eq(wellReadings.runId, runId)).orderBy(asc(wellReadings.wellIndex));
+  const [decider] = run.run.decidedBy
+    ? await db.select({ name: users.name }).from(users).where(eq(users.id, run.run.decidedBy))
+    : [];
+  const readings = await db
+    .select()
+    .from(wellReadings)
+    .where(eq(wellReadings.runId, runId))
+    .orderBy(asc(wellReadings.wellIndex));
   const masks = await db
     .select({
       id: plateWellMasks.id,
@@ -549,7 +759,14 @@ export async function getRunDetail(campaignId: string, runId: string) {
 /** Z′ of every run over time, for the campaign's trend chart. */
 export async function zPrimeTrend(campaignId: string) {
   return db
-    .select({ id: plateRuns.id, fileName: plateRuns.fileName, uploadedAt: plateRuns.uploadedAt, zPrime: plateRuns.zPrime, verdict: plateRuns.qcVerdict, decision: plateRuns.decision })
+    .select({
+      id: plateRuns.id,
+      fileName: plateRuns.fileName,
+      uploadedAt: plateRuns.uploadedAt,
+      zPrime: plateRuns.zPrime,
+      verdict: plateRuns.qcVerdict,
+      decision: plateRuns.decision,
+    })
     .from(plateRuns)
     .where(eq(plateRuns.campaignId, campaignId))
     .orderBy(asc(plateRuns.uploadedAt));
@@ -558,7 +775,12 @@ export async function zPrimeTrend(campaignId: string) {
 /** The raw file as uploaded, checked against its recorded SHA-256 before it is served. */
 export async function getRawFile(campaignId: string, runId: string) {
   const [run] = await db
-    .select({ s3Key: plateRuns.s3Key, sha256: plateRuns.sha256, fileName: plateRuns.fileName, contentType: plateRuns.contentType })
+    .select({
+      s3Key: plateRuns.s3Key,
+      sha256: plateRuns.sha256,
+      fileName: plateRuns.fileName,
+      contentType: plateRuns.contentType,
+    })
     .from(plateRuns)
     .where(and(eq(plateRuns.id, runId), eq(plateRuns.campaignId, campaignId)));
   if (!run) throw new AppError("not_found", "No such plate run in this campaign.");

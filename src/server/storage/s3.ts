@@ -1,5 +1,11 @@
 import "server-only";
-import { S3Client, PutObjectCommand, GetObjectCommand, HeadBucketCommand, DeleteObjectCommand } from "@aws-sdk/client-s3";
+import {
+  S3Client,
+  PutObjectCommand,
+  GetObjectCommand,
+  HeadBucketCommand,
+  DeleteObjectCommand,
+} from "@aws-sdk/client-s3";
 import { env } from "@/env";
 
 // Path-style addressing and checksums only when required: the SDK's default streamed checksums

@@ -89,8 +89,16 @@ export function AcceptInviteForm({ action, token, existing }: { action: Action; 
         </label>
       )}
       <label>
-        <span className="field-label">{existing ? "Password of your existing account" : "Choose a password (at least 10 characters)"}</span>
-        <input className="input" name="password" type="password" autoComplete={existing ? "current-password" : "new-password"} required />
+        <span className="field-label">
+          {existing ? "Password of your existing account" : "Choose a password (at least 10 characters)"}
+        </span>
+        <input
+          className="input"
+          name="password"
+          type="password"
+          autoComplete={existing ? "current-password" : "new-password"}
+          required
+        />
         <FieldError state={state} name="password" />
       </label>
       <button className="btn-primary" type="submit" disabled={pending}>

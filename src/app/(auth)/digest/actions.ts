@@ -10,7 +10,15 @@ import { optOut, readOptOutToken } from "@/server/services/digest";
  */
 export const stopDigestAction = formAction(z.object({ token: z.string().min(10).max(600) }), async ({ token }) => {
   const who = readOptOutToken(token);
-  if (!who) throw new AppError("bad_request", "This link is not valid. Open it from the digest e-mail, or stop the digest in your settings.");
+  if (!who)
+    throw new AppError(
+      "bad_request",
+      "This link is not valid. Open it from the digest e-mail, or stop the digest in your settings.",
+    );
   await optOut(who.userId, who.campaignId, "link");
-  return { ok: true, message: "Done: you will not receive this campaign's weekly digest any more. You can turn it back on in your settings." };
+  return {
+    ok: true,
+    message:
+      "Done: you will not receive this campaign's weekly digest any more. You can turn it back on in your settings.",
+  };
 });

@@ -19,7 +19,11 @@ export function CampaignNav({ campaignId }: { campaignId: string }) {
     <nav className="flex flex-col gap-0.5 text-sm" aria-label="Campaign">
       {items.map((i) => {
         const href = i.global ? `/compounds?campaign=${campaignId}` : `${base}${i.href}`;
-        const active = i.global ? path.startsWith("/compounds") : i.href === "" ? path === base : path.startsWith(`${base}${i.href}`);
+        const active = i.global
+          ? path.startsWith("/compounds")
+          : i.href === ""
+            ? path === base
+            : path.startsWith(`${base}${i.href}`);
         return (
           <Link
             key={i.label}

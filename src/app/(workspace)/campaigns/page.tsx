@@ -35,7 +35,9 @@ export default async function CampaignsPage() {
                   <Link href={`/campaigns/${c.id}`}>{c.name}</Link>
                 </td>
                 <td className="text-ink-soft">{c.targetEnzyme}</td>
-                <td>{c.role ? roleLabels[c.role] : <span className="text-ink-muted">administrator (not a member)</span>}</td>
+                <td>
+                  {c.role ? roleLabels[c.role] : <span className="text-ink-muted">administrator (not a member)</span>}
+                </td>
                 <td className="num text-ink-muted">{c.createdAt.toISOString().slice(0, 10)}</td>
               </tr>
             ))}

@@ -4,8 +4,23 @@ import { z } from "zod";
 import { formAction } from "@/server/action";
 import { AppError } from "@/server/errors";
 import { requireCapabilityAnywhere } from "@/server/auth/guard";
-import { addBatch, addStock, addToLibrary, createLibrary, editCompound, registerCompound, removeFromLibrary } from "@/server/services/compounds";
-import { aliasesSchema, batchSchema, registerCompoundSchema, safeText, safeTextRequired, stockSchema } from "@/lib/chem/validation";
+import {
+  addBatch,
+  addStock,
+  addToLibrary,
+  createLibrary,
+  editCompound,
+  registerCompound,
+  removeFromLibrary,
+} from "@/server/services/compounds";
+import {
+  aliasesSchema,
+  batchSchema,
+  registerCompoundSchema,
+  safeText,
+  safeTextRequired,
+  stockSchema,
+} from "@/lib/chem/validation";
 
 /** Form fields named "batch.supplier" → { batch: { supplier } }, so the forms reuse the API's schemas. */
 function nestDotted(raw: unknown): unknown {
@@ -23,7 +38,10 @@ function nestDotted(raw: unknown): unknown {
   return out;
 }
 
-const registryId = z.string().trim().regex(/^[A-Za-z][A-Za-z0-9]{0,7}-\d{1,9}$/, "Not a registry ID (e.g. INH-000123).");
+const registryId = z
+  .string()
+  .trim()
+  .regex(/^[A-Za-z][A-Za-z0-9]{0,7}-\d{1,9}$/, "Not a registry ID (e.g. INH-000123).");
 const libraryId = z.string().uuid("Not a library id.");
 
 /**
@@ -35,30 +53,46 @@ export const registerCompoundAction = formAction(z.preprocess(nestDotted, regist
   try {
     const r = await registerCompound(user, input);
     revalidatePath("/compounds");
-    return { ok: true, data: { registryId: r.registryId, warnings: r.warnings }, message: `Registered as ${r.registryId}.` };
+    return {
+      ok: true,
+      data: { registryId: r.registryId, warnings: r.warnings },
+      message: `Registered as ${r.registryId}.`,
+    };
   } catch (e) {
     if (e instanceof AppError && e.code === "conflict" && typeof e.extra?.registryId === "string") {
       const fieldErrors: Record<string, string> = { duplicateOf: e.extra.registryId };
-      if (e.extra.reason === "needs_distinct_reason") fieldErrors.distinctReason = "Give a reason to register this stereo form as a distinct compound.";
+      if (e.extra.reason === "needs_distinct_reason")
+        fieldErrors.distinctReason = "Give a reason to register this stereo form as a distinct compound.";
       return { ok: false, error: e.message, fieldErrors, status: 409 };
     }
     throw e;
   }
 });
 
-const addBatchSchema = z.preprocess(nestDotted, z.object({ registryId, batch: batchSchema.default({}), stock: stockSchema.optional() }));
+const addBatchSchema = z.preprocess(
+  nestDotted,
+  z.object({ registryId, batch: batchSchema.default({}), stock: stockSchema.optional() }),
+);
 
 /** Add a batch (numbered next) to a compound, optionally with a stock solution made from it. */
 export const addBatchAction = formAction(addBatchSchema, async (input) => {
   const user = await requireCapabilityAnywhere("compound:write");
   const { batchNumber } = await addBatch(user, input.registryId, input.batch, input.stock);
   revalidatePath(`/compounds/${input.registryId.toUpperCase()}`);
-  return { ok: true, data: { batchNumber }, message: `Batch ${batchNumber} added to ${input.registryId.toUpperCase()}.` };
+  return {
+    ok: true,
+    data: { batchNumber },
+    message: `Batch ${batchNumber} added to ${input.registryId.toUpperCase()}.`,
+  };
 });
 
 const addStockSchema = z.preprocess(
   nestDotted,
-  z.object({ registryId, batchNumber: z.coerce.number().int("Choose a batch.").min(1, "Choose a batch."), stock: stockSchema }),
+  z.object({
+    registryId,
+    batchNumber: z.coerce.number().int("Choose a batch.").min(1, "Choose a batch."),
+    stock: stockSchema,
+  }),
 );
 
 /** Record a stock solution made from one batch. */
@@ -73,14 +107,22 @@ const editSchema = z.object({
   registryId,
   name: safeText(200),
   aliases: aliasesSchema,
-  smiles: z.preprocess((v) => (v === "" ? undefined : v), z.string().trim().max(2000, "SMILES is longer than 2000 characters.").optional()),
+  smiles: z.preprocess(
+    (v) => (v === "" ? undefined : v),
+    z.string().trim().max(2000, "SMILES is longer than 2000 characters.").optional(),
+  ),
   reason: safeText(500),
 });
 
 /** Edit names and aliases, or the structure (with a reason; audited with before and after). */
 export const editCompoundAction = formAction(editSchema, async (input) => {
   const user = await requireCapabilityAnywhere("compound:write");
-  await editCompound(user, input.registryId, { name: input.name ?? "", aliases: input.aliases ?? [], smiles: input.smiles, reason: input.reason });
+  await editCompound(user, input.registryId, {
+    name: input.name ?? "",
+    aliases: input.aliases ?? [],
+    smiles: input.smiles,
+    reason: input.reason,
+  });
   revalidatePath(`/compounds/${input.registryId.toUpperCase()}`);
   return { ok: true, message: input.smiles ? "Structure updated; the change is in the audit log." : "Names updated." };
 });
@@ -99,7 +141,10 @@ export const createLibraryAction = formAction(createLibrarySchema, async (input)
   return { ok: true, data: { id }, message: `Library created with ${added} compound${added === 1 ? "" : "s"}.` };
 });
 
-const addToLibrarySchema = z.object({ libraryId, ids: z.string().trim().min(1, "Give at least one registry ID.").max(200_000) });
+const addToLibrarySchema = z.object({
+  libraryId,
+  ids: z.string().trim().min(1, "Give at least one registry ID.").max(200_000),
+});
 
 /** Add compounds to a library by registry ID (pasted list or one ID). */
 export const addToLibraryAction = formAction(addToLibrarySchema, async (input) => {

@@ -11,7 +11,11 @@ export const dynamic = "force-dynamic";
 
 const one = (v: string | string[] | undefined) => (typeof v === "string" ? v.slice(0, 500) : "");
 
-export default async function CompoundsPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function CompoundsPage({
+  searchParams,
+}: {
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const user = await pageUser();
   const sp = await searchParams;
   const [writer, libraries] = await Promise.all([canWriteCompounds(user), listLibraries()]);
@@ -36,15 +40,21 @@ export default async function CompoundsPage({ searchParams }: { searchParams: Pr
         </nav>
       </div>
       <p className="mb-3 text-sm text-ink-muted">
-        Compounds are shared by every campaign; batches and stock solutions belong to a compound. Search by registry ID, name or supplier code, or by a
-        substructure.
+        Compounds are shared by every campaign; batches and stock solutions belong to a compound. Search by registry ID,
+        name or supplier code, or by a substructure.
       </p>
       <ChemicalSafetyNote className="mb-3" />
       <CompoundGrid
         libraries={libraries.map((l) => ({ id: l.id, name: l.name }))}
-        initial={{ q: one(sp.q), substructure: one(sp.substructure), library: libraries.some((l) => l.id === sp.library) ? one(sp.library) : "" }}
+        initial={{
+          q: one(sp.q),
+          substructure: one(sp.substructure),
+          library: libraries.some((l) => l.id === sp.library) ? one(sp.library) : "",
+        }}
       />
-      <p className="mt-3 text-2xs text-ink-muted">{COMPUTED_PROPERTIES_CAUTION} Acceptors follow the rule-of-five definition (all N and O atoms).</p>
+      <p className="mt-3 text-2xs text-ink-muted">
+        {COMPUTED_PROPERTIES_CAUTION} Acceptors follow the rule-of-five definition (all N and O atoms).
+      </p>
     </main>
   );
 }

@@ -17,11 +17,20 @@ export const changePasswordAction = formAction(changePasswordSchema, async ({ cu
   redirect("/settings?changed=1");
 });
 
-export const setMyDigestAction = formAction(z.object({ campaignId: z.string().uuid(), receive: z.enum(["0", "1"]) }), async ({ campaignId, receive }) => {
-  const user = await requireUser();
-  await requireCampaign(campaignId);
-  if (receive === "1") await optIn(user.id, campaignId);
-  else await optOut(user.id, campaignId, "settings");
-  revalidatePath("/settings");
-  return { ok: true, message: receive === "1" ? "You will receive this campaign's weekly digest." : "You will not receive this campaign's weekly digest." };
-});
+export const setMyDigestAction = formAction(
+  z.object({ campaignId: z.string().uuid(), receive: z.enum(["0", "1"]) }),
+  async ({ campaignId, receive }) => {
+    const user = await requireUser();
+    await requireCampaign(campaignId);
+    if (receive === "1") await optIn(user.id, campaignId);
+    else await optOut(user.id, campaignId, "settings");
+    revalidatePath("/settings");
+    return {
+      ok: true,
+      message:
+        receive === "1"
+          ? "You will receive this campaign's weekly digest."
+          : "You will not receive this campaign's weekly digest.",
+    };
+  },
+);

@@ -20,7 +20,11 @@ export default async function SettingsPage({ searchParams }: { searchParams: Pro
       </p>
       <section>
         <h3 className="mb-2">Password</h3>
-        {changed ? <p className="mb-2 rounded bg-pass-soft px-2 py-1.5 text-sm text-pass">Password changed. Every other session was signed out.</p> : null}
+        {changed ? (
+          <p className="mb-2 rounded bg-pass-soft px-2 py-1.5 text-sm text-pass">
+            Password changed. Every other session was signed out.
+          </p>
+        ) : null}
         <PasswordForm action={changePasswordAction} />
       </section>
       <section className="mt-8">

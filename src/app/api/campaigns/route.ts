@@ -9,6 +9,12 @@ export const GET = route(async () => {
   const user = await requireUser();
   const list = await campaignsFor(user);
   return json({
-    items: list.map((c) => ({ id: c.id, name: c.name, targetEnzyme: c.targetEnzyme, role: c.role, createdAt: c.createdAt.toISOString() })),
+    items: list.map((c) => ({
+      id: c.id,
+      name: c.name,
+      targetEnzyme: c.targetEnzyme,
+      role: c.role,
+      createdAt: c.createdAt.toISOString(),
+    })),
   });
 });

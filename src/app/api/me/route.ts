@@ -11,6 +11,8 @@ export const GET = route(async () => {
   return json({
     user: { id: user.id, email: user.email, name: user.name },
     globalRole: user.globalRole,
-    memberships: list.filter((c) => c.role !== null).map((c) => ({ campaignId: c.id, campaignName: c.name, role: c.role })),
+    memberships: list
+      .filter((c) => c.role !== null)
+      .map((c) => ({ campaignId: c.id, campaignName: c.name, role: c.role })),
   });
 });

@@ -17,9 +17,13 @@ function hasScipy(): boolean {
 export function ensureScipy(): void {
   if (hasScipy()) return;
   const isRoot = typeof process.getuid === "function" && process.getuid() === 0;
-  if (!isRoot) throw new Error("SciPy is needed for the oracle tests: install Debian's python3-scipy (apt-get install -y python3-scipy)");
+  if (!isRoot)
+    throw new Error(
+      "SciPy is needed for the oracle tests: install Debian's python3-scipy (apt-get install -y python3-scipy)",
+    );
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  const install = (): boolean => spawnSync("apt-get", ["install", "-y", "python3-scipy"], { stdio: "inherit", env }).status === 0;
+  const install = (): boolean =>
+    spawnSync("apt-get", ["install", "-y", "python3-scipy"], { stdio: "inherit", env }).status === 0;
   if (!install()) {
     execFileSync("apt-get", ["update"], { stdio: "inherit", env });
     if (!install()) throw new Error("apt-get install -y python3-scipy failed");
@@ -30,7 +34,11 @@ export function ensureScipy(): void {
 /** Runs the oracle script on `request` (see scipy_oracle.py for the request kinds). */
 export function runScipyOracle<T = Record<string, unknown>>(request: Record<string, unknown>): T {
   ensureScipy();
-  const out = spawnSync("python3", [SCRIPT], { input: JSON.stringify(request), encoding: "utf8", maxBuffer: 256 * 1024 * 1024 });
+  const out = spawnSync("python3", [SCRIPT], {
+    input: JSON.stringify(request),
+    encoding: "utf8",
+    maxBuffer: 256 * 1024 * 1024,
+  });
   if (out.status !== 0) throw new Error(`scipy_oracle.py failed (${out.status}): ${out.stderr}`);
   return JSON.parse(out.stdout) as T;
 }

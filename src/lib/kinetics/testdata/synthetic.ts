@@ -49,7 +49,11 @@ export function generateMechanismDataset(model: InhibitionModel, seed: number): 
       for (let rep = 0; rep < 2; rep++) {
         const s = sm * km;
         const i = im * ki;
-        points.push({ substrate: s, inhibitor: i, rate: mixedRateReciprocal(s, i, vmax, km, a, b) + 0.02 * vmax * z() });
+        points.push({
+          substrate: s,
+          inhibitor: i,
+          rate: mixedRateReciprocal(s, i, vmax, km, a, b) + 0.02 * vmax * z(),
+        });
       }
     }
   }

@@ -1,4 +1,16 @@
-import { pgTable, text, timestamp, uuid, index, uniqueIndex, pgEnum, doublePrecision, boolean, jsonb, integer } from "drizzle-orm/pg-core";
+import {
+  pgTable,
+  text,
+  timestamp,
+  uuid,
+  index,
+  uniqueIndex,
+  pgEnum,
+  doublePrecision,
+  boolean,
+  jsonb,
+  integer,
+} from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
 import { plateRuns } from "./plates";
@@ -54,7 +66,9 @@ export const experimentRuns = pgTable(
 export type AnalysisInputs = {
   engineVersion: string;
   kind: "single-dose" | "dose-response" | "mechanism";
-  settings: ExperimentSettings & { resolved: { hitThresholdPct: number; kmUm: number | null; enzymeNm: number | null } };
+  settings: ExperimentSettings & {
+    resolved: { hitThresholdPct: number; kmUm: number | null; enzymeNm: number | null };
+  };
   runs: { id: string; sha256: string; fileName: string; decision: string }[];
   masks: { runId: string; well: string; reason: string }[];
 };
@@ -91,8 +105,12 @@ export const analyses = pgTable(
   },
   (t) => [
     index("analyses_experiment").on(t.experimentId, t.requestedAt),
-    uniqueIndex("analyses_one_current").on(t.experimentId).where(sql`${t.isCurrent}`),
-    index("analyses_campaign_current").on(t.campaignId).where(sql`${t.isCurrent}`),
+    uniqueIndex("analyses_one_current")
+      .on(t.experimentId)
+      .where(sql`${t.isCurrent}`),
+    index("analyses_campaign_current")
+      .on(t.campaignId)
+      .where(sql`${t.isCurrent}`),
   ],
 );
 
@@ -133,7 +151,10 @@ export const compoundResults = pgTable(
     kicUm: doublePrecision("kic_um"),
     kiuUm: doublePrecision("kiu_um"),
     alpha: doublePrecision("alpha"),
-    flags: text("flags").array().notNull().default(sql`'{}'::text[]`),
+    flags: text("flags")
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     detail: jsonb("detail").notNull(),
   },
   (t) => [

@@ -1,4 +1,15 @@
-import { pgTable, text, timestamp, uuid, primaryKey, integer, index, uniqueIndex, pgEnum, doublePrecision } from "drizzle-orm/pg-core";
+import {
+  pgTable,
+  text,
+  timestamp,
+  uuid,
+  primaryKey,
+  integer,
+  index,
+  uniqueIndex,
+  pgEnum,
+  doublePrecision,
+} from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 
 export const globalRole = pgEnum("global_role", ["admin", "member"]);

@@ -40,7 +40,10 @@ export const compounds = pgTable(
     registryId: text("registry_id").notNull(),
     registryNumber: integer("registry_number").notNull(),
     name: text("name"),
-    aliases: text("aliases").array().notNull().default(sql`'{}'::text[]`),
+    aliases: text("aliases")
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     structureKey: text("structure_key").notNull(),
     flatKey: text("flat_key").notNull(),
     canonicalSmiles: text("canonical_smiles").notNull(),
@@ -141,7 +144,10 @@ export const libraryMembers = pgTable(
     addedBy: text("added_by").references(() => users.id, { onDelete: "set null" }),
     addedAt: timestamp("added_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [primaryKey({ columns: [t.libraryId, t.compoundId] }), index("compound_library_members_compound").on(t.compoundId)],
+  (t) => [
+    primaryKey({ columns: [t.libraryId, t.compoundId] }),
+    index("compound_library_members_compound").on(t.compoundId),
+  ],
 );
 
 export const importStatus = pgEnum("compound_import_status", [

@@ -33,7 +33,10 @@ export const digestSends = pgTable(
     sentAt: timestamp("sent_at", { withTimezone: true }),
     nextAttemptAt: timestamp("next_attempt_at", { withTimezone: true }),
   },
-  (t) => [uniqueIndex("digest_sends_once").on(t.campaignId, t.userId, t.week), index("digest_sends_campaign").on(t.campaignId, t.createdAt)],
+  (t) => [
+    uniqueIndex("digest_sends_once").on(t.campaignId, t.userId, t.week),
+    index("digest_sends_campaign").on(t.campaignId, t.createdAt),
+  ],
 );
 
 /** A member who stopped the weekly digest of a campaign (from the e-mail's signed link or settings). */

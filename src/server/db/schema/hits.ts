@@ -1,4 +1,18 @@
-import { pgTable, text, timestamp, uuid, integer, index, uniqueIndex, pgEnum, doublePrecision, boolean, jsonb, primaryKey, bigint } from "drizzle-orm/pg-core";
+import {
+  pgTable,
+  text,
+  timestamp,
+  uuid,
+  integer,
+  index,
+  uniqueIndex,
+  pgEnum,
+  doublePrecision,
+  boolean,
+  jsonb,
+  primaryKey,
+  bigint,
+} from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
 
@@ -36,7 +50,10 @@ export const hitRows = pgTable(
     kicUm: doublePrecision("kic_um"),
     kiuUm: doublePrecision("kiu_um"),
     alpha: doublePrecision("alpha"),
-    flags: text("flags").array().notNull().default(sql`'{}'::text[]`),
+    flags: text("flags")
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
     /** Any flag, or a mechanism call with another model within ΔAICc 2: ranked after clean rows. */
     flagged: boolean("flagged").notNull().default(false),
     pKi: doublePrecision("p_ki"),
@@ -64,7 +81,14 @@ export const hitRows = pgTable(
   (t) => [
     primaryKey({ columns: [t.campaignId, t.compoundId] }),
     // The ranked order: clean before flagged, then Ki, IC50, % inhibition (descending), ID.
-    index("hit_rows_ranked").on(t.campaignId, t.flagged, sql`${t.kiUm} asc nulls last`, sql`${t.ic50Um} asc nulls last`, sql`${t.pctInhibition} desc nulls last`, t.compoundId),
+    index("hit_rows_ranked").on(
+      t.campaignId,
+      t.flagged,
+      sql`${t.kiUm} asc nulls last`,
+      sql`${t.ic50Um} asc nulls last`,
+      sql`${t.pctInhibition} desc nulls last`,
+      t.compoundId,
+    ),
     index("hit_rows_status").on(t.campaignId, t.status, t.compoundId),
     index("hit_rows_mechanism").on(t.campaignId, t.mechanism),
     index("hit_rows_ki").on(t.campaignId, t.kiUm, t.compoundId),
@@ -90,7 +114,9 @@ export const hitRows = pgTable(
         ["hill", t.hill],
         ["last_tested", t.lastTestedAt],
       ] as const
-    ).map(([name, col]) => index(`hit_rows_${name}_desc`).on(t.campaignId, sql`${col} desc nulls last`, sql`${t.compoundId} desc`)),
+    ).map(([name, col]) =>
+      index(`hit_rows_${name}_desc`).on(t.campaignId, sql`${col} desc nulls last`, sql`${t.compoundId} desc`),
+    ),
   ],
 );
 
@@ -120,7 +146,10 @@ export const triageDecisions = pgTable(
     by: text("by").references(() => users.id, { onDelete: "set null" }),
     at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("triage_decisions_compound").on(t.campaignId, t.compoundId, t.at), index("triage_decisions_campaign_at").on(t.campaignId, t.at)],
+  (t) => [
+    index("triage_decisions_compound").on(t.campaignId, t.compoundId, t.at),
+    index("triage_decisions_campaign_at").on(t.campaignId, t.at),
+  ],
 );
 
 /** Comments on a compound in a campaign (members with campaign:comment). */

@@ -1,4 +1,18 @@
-import { pgTable, text, timestamp, uuid, integer, index, uniqueIndex, pgEnum, doublePrecision, boolean, jsonb, bigint, primaryKey } from "drizzle-orm/pg-core";
+import {
+  pgTable,
+  text,
+  timestamp,
+  uuid,
+  integer,
+  index,
+  uniqueIndex,
+  pgEnum,
+  doublePrecision,
+  boolean,
+  jsonb,
+  bigint,
+  primaryKey,
+} from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
 import type { PlateMapWell } from "@/lib/plates/plate-map";
@@ -141,7 +155,9 @@ export const plateWellMasks = pgTable(
     unmaskReason: text("unmask_reason"),
   },
   (t) => [
-    uniqueIndex("plate_well_masks_open").on(t.runId, t.well).where(sql`${t.unmaskedAt} is null`),
+    uniqueIndex("plate_well_masks_open")
+      .on(t.runId, t.well)
+      .where(sql`${t.unmaskedAt} is null`),
     index("plate_well_masks_run").on(t.runId),
   ],
 );

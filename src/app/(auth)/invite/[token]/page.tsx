@@ -16,14 +16,18 @@ export default async function InvitePage({ params }: { params: Promise<{ token: 
     return (
       <div className="flex flex-col gap-2">
         <h1 className="text-lg">This invitation cannot be used</h1>
-        <p className="text-sm text-ink-muted">It was used already, was withdrawn, or is older than 72 hours. Ask the person who invited you for a new one.</p>
+        <p className="text-sm text-ink-muted">
+          It was used already, was withdrawn, or is older than 72 hours. Ask the person who invited you for a new one.
+        </p>
         <Link href="/sign-in" className="text-sm">
           Go to sign-in
         </Link>
       </div>
     );
   }
-  const existing = await db.query.users.findFirst({ where: sql`lower(${users.email}) = ${found.inv.email.toLowerCase()}` });
+  const existing = await db.query.users.findFirst({
+    where: sql`lower(${users.email}) = ${found.inv.email.toLowerCase()}`,
+  });
   return (
     <div className="flex flex-col gap-3">
       <h1 className="text-lg">Join {found.campaignName}</h1>

@@ -25,15 +25,24 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
   await pageAdmin();
   const f = q.parse(await searchParams);
   const [{ items, total }, allCampaigns] = await Promise.all([
-    auditEntries({ campaignId: f.campaign, action: f.action || undefined, actor: f.actor || undefined, limit: PAGE, offset: (f.page - 1) * PAGE }),
+    auditEntries({
+      campaignId: f.campaign,
+      action: f.action || undefined,
+      actor: f.actor || undefined,
+      limit: PAGE,
+      offset: (f.page - 1) * PAGE,
+    }),
     db.select({ id: campaigns.id, name: campaigns.name }).from(campaigns),
   ]);
   const pages = Math.max(1, Math.ceil(total / PAGE));
-  const link = (page: number) => `?${new URLSearchParams({ ...(f.campaign ? { campaign: f.campaign } : {}), ...(f.action ? { action: f.action } : {}), ...(f.actor ? { actor: f.actor } : {}), page: String(page) })}`;
+  const link = (page: number) =>
+    `?${new URLSearchParams({ ...(f.campaign ? { campaign: f.campaign } : {}), ...(f.action ? { action: f.action } : {}), ...(f.actor ? { actor: f.actor } : {}), page: String(page) })}`;
   return (
     <main className="mx-auto w-full max-w-6xl px-6 py-6">
       <h1 className="mb-1">Audit log</h1>
-      <p className="mb-4 text-sm text-ink-muted">Append-only: every change that feeds a decision, with who, when, and the values before and after. Times in UTC.</p>
+      <p className="mb-4 text-sm text-ink-muted">
+        Append-only: every change that feeds a decision, with who, when, and the values before and after. Times in UTC.
+      </p>
       <form className="mb-3 flex flex-wrap items-end gap-2" method="get">
         <label>
           <span className="field-label">Campaign</span>
@@ -81,7 +90,9 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           ) : (
             items.map(({ log, campaignName }) => (
               <tr key={log.id}>
-                <td className="num whitespace-nowrap text-ink-muted">{log.at.toISOString().slice(0, 19).replace("T", " ")}</td>
+                <td className="num whitespace-nowrap text-ink-muted">
+                  {log.at.toISOString().slice(0, 19).replace("T", " ")}
+                </td>
                 <td>{log.actorEmail ?? "system"}</td>
                 <td className="text-ink-soft">{campaignName ?? "—"}</td>
                 <td className="font-medium">{log.action}</td>

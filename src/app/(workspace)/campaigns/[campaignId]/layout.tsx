@@ -3,7 +3,13 @@ import { roleLabels } from "@/lib/roles";
 import { CampaignNav } from "../../_components/campaign-nav";
 import { ResearchUseNote } from "@/components/ui/caution";
 
-export default async function CampaignLayout({ children, params }: { children: React.ReactNode; params: Promise<{ campaignId: string }> }) {
+export default async function CampaignLayout({
+  children,
+  params,
+}: {
+  children: React.ReactNode;
+  params: Promise<{ campaignId: string }>;
+}) {
   const { campaignId } = await params;
   const { campaign, role, user } = await pageCampaign(campaignId);
   return (
@@ -15,7 +21,9 @@ export default async function CampaignLayout({ children, params }: { children: R
         <p className="mb-1 truncate text-xs text-ink-muted" title={campaign.targetEnzyme}>
           {campaign.targetEnzyme}
         </p>
-        <p className="mb-4 text-2xs text-ink-faint">{role ? `You: ${roleLabels[role]}` : user.globalRole === "admin" ? "You: administrator" : ""}</p>
+        <p className="mb-4 text-2xs text-ink-faint">
+          {role ? `You: ${roleLabels[role]}` : user.globalRole === "admin" ? "You: administrator" : ""}
+        </p>
         <CampaignNav campaignId={campaign.id} />
       </aside>
       <main className="min-w-0 flex-1 px-6 py-5">

@@ -18,7 +18,13 @@ export function StockFields({ prefix = "stock." }: { prefix?: string }) {
   return (
     <>
       <Field label="Stock concentration (mM)" name={`${prefix}concentrationMm`}>
-        <input className="input mt-1 num" id={`${prefix}concentrationMm`} name={`${prefix}concentrationMm`} inputMode="decimal" placeholder="e.g. 10" />
+        <input
+          className="input mt-1 num"
+          id={`${prefix}concentrationMm`}
+          name={`${prefix}concentrationMm`}
+          inputMode="decimal"
+          placeholder="e.g. 10"
+        />
       </Field>
       <Field label="Solvent" name={`${prefix}solvent`}>
         <input className="input mt-1" id={`${prefix}solvent`} name={`${prefix}solvent`} placeholder="e.g. DMSO" />
@@ -27,7 +33,12 @@ export function StockFields({ prefix = "stock." }: { prefix?: string }) {
         <input className="input mt-1 num" id={`${prefix}volumeUl`} name={`${prefix}volumeUl`} inputMode="decimal" />
       </Field>
       <Field label="Location" name={`${prefix}location`}>
-        <input className="input mt-1" id={`${prefix}location`} name={`${prefix}location`} placeholder="Freezer 2 / Rack B / A07" />
+        <input
+          className="input mt-1"
+          id={`${prefix}location`}
+          name={`${prefix}location`}
+          placeholder="Freezer 2 / Rack B / A07"
+        />
       </Field>
       <Field label="Made on" name={`${prefix}date`}>
         <input className="input mt-1" type="date" id={`${prefix}date`} name={`${prefix}date`} />

@@ -3,7 +3,12 @@ import { notFound } from "next/navigation";
 import { pageUser } from "@/server/auth/page-guard";
 import { canWriteCompounds } from "@/server/auth/compound-access";
 import { AppError } from "@/server/errors";
-import { getCompound, resultsForCompound, type CompoundDetail, type CompoundResultRow } from "@/server/services/compounds";
+import {
+  getCompound,
+  resultsForCompound,
+  type CompoundDetail,
+  type CompoundResultRow,
+} from "@/server/services/compounds";
 import { structureSvg } from "@/lib/chem/svg";
 import { COMPUTED_PROPERTIES_CAUTION } from "@/lib/chem/cautions";
 import { ChemicalSafetyNote, ResearchUseNote } from "@/components/ui/caution";
@@ -44,7 +49,11 @@ function PropertyTable({ c }: { c: CompoundDetail }) {
   );
 }
 
-const KIND: Record<string, string> = { "single-dose": "single-dose screen", "dose-response": "dose-response", mechanism: "mechanism study" };
+const KIND: Record<string, string> = {
+  "single-dose": "single-dose screen",
+  "dose-response": "dose-response",
+  mechanism: "mechanism study",
+};
 
 function ResultsTable({ rows }: { rows: CompoundResultRow[] }) {
   return (
@@ -72,8 +81,14 @@ function ResultsTable({ rows }: { rows: CompoundResultRow[] }) {
             </td>
             <td>{KIND[r.kind] ?? r.kind}</td>
             <td className="num text-right">{n(r.pctInhibition, 1)}</td>
-            <td>{r.hit === null ? "—" : r.hit ? <span className="chip bg-accent-soft text-accent">hit</span> : "no"}</td>
-            <td className="num text-right">{r.ic50Um === null ? "—" : `${r.ic50Qualifier && r.ic50Qualifier !== "=" ? `${r.ic50Qualifier} ` : ""}${r.ic50Um.toPrecision(3)}`}</td>
+            <td>
+              {r.hit === null ? "—" : r.hit ? <span className="chip bg-accent-soft text-accent">hit</span> : "no"}
+            </td>
+            <td className="num text-right">
+              {r.ic50Um === null
+                ? "—"
+                : `${r.ic50Qualifier && r.ic50Qualifier !== "=" ? `${r.ic50Qualifier} ` : ""}${r.ic50Um.toPrecision(3)}`}
+            </td>
             <td className="num text-right">{n(r.hill, 2)}</td>
             <td>{r.mechanism ? `${r.mechanism}${r.mechanismLabel ? ` (${r.mechanismLabel})` : ""}` : "—"}</td>
             <td className="num text-right">{r.kiUm === null ? "—" : r.kiUm.toPrecision(3)}</td>
@@ -118,10 +133,13 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
           <p className="mt-2 break-all font-mono text-xs text-ink-soft" title="Canonical SMILES (openchemlib)">
             {c.smiles}
           </p>
-          {c.distinctReason ? <p className="mt-2 text-xs text-ink-muted">Registered as a distinct stereo form: {c.distinctReason}</p> : null}
+          {c.distinctReason ? (
+            <p className="mt-2 text-xs text-ink-muted">Registered as a distinct stereo form: {c.distinctReason}</p>
+          ) : null}
           <p className="mt-2 text-2xs text-ink-muted">
             Registered {c.registeredAt.slice(0, 10)}
-            {c.registeredBy ? ` by ${c.registeredBy}` : ""}. The parent structure is registered; salts and solvates belong to batches.
+            {c.registeredBy ? ` by ${c.registeredBy}` : ""}. The parent structure is registered; salts and solvates
+            belong to batches.
           </p>
         </section>
         <section className="card p-3" aria-label="Properties">
@@ -200,7 +218,9 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
             </tbody>
           </table>
         )}
-        {writer && c.batches.length > 0 ? <AddStockForm registryId={c.registryId} batches={c.batches.map((b) => b.batchNumber)} /> : null}
+        {writer && c.batches.length > 0 ? (
+          <AddStockForm registryId={c.registryId} batches={c.batches.map((b) => b.batchNumber)} />
+        ) : null}
         <ChemicalSafetyNote className="mt-3" />
       </section>
 
@@ -224,7 +244,10 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
       <section className="card mt-4 p-3" aria-label="Results across campaigns">
         <h2 className="mb-2 text-sm font-semibold">Results across campaigns</h2>
         {results.length === 0 ? (
-          <p className="text-sm text-ink-muted">No results for {c.registryId} yet in the campaigns you are a member of. Single-dose, IC50 and Ki results appear here once an analysis includes it.</p>
+          <p className="text-sm text-ink-muted">
+            No results for {c.registryId} yet in the campaigns you are a member of. Single-dose, IC50 and Ki results
+            appear here once an analysis includes it.
+          </p>
         ) : (
           <ResultsTable rows={results} />
         )}

@@ -2,7 +2,13 @@
 import Link from "next/link";
 import { useMemo, useState } from "react";
 import { AgGridReact } from "ag-grid-react";
-import { ClientSideRowModelModule, ModuleRegistry, TooltipModule, type ColDef, type SortChangedEvent } from "ag-grid-community";
+import {
+  ClientSideRowModelModule,
+  ModuleRegistry,
+  TooltipModule,
+  type ColDef,
+  type SortChangedEvent,
+} from "ag-grid-community";
 import { useCompoundSearch, type CompoundItem } from "@/hooks/use-compounds";
 import { gridTheme } from "@/components/grid/theme";
 
@@ -16,7 +22,13 @@ const fmt = (x: number, d: number) => (Number.isFinite(x) ? x.toFixed(d) : "—"
 function Structure({ data }: { data?: CompoundItem }) {
   if (!data?.svg) return <span className="text-2xs text-ink-faint">no drawing</span>;
   // structureSvg output is checked against an allow-list on the server (src/lib/chem/svg.ts).
-  return <div className="flex h-full items-center" aria-label={`Structure of ${data.registryId}`} dangerouslySetInnerHTML={{ __html: data.svg }} />;
+  return (
+    <div
+      className="flex h-full items-center"
+      aria-label={`Structure of ${data.registryId}`}
+      dangerouslySetInnerHTML={{ __html: data.svg }}
+    />
+  );
 }
 
 function IdCell({ data }: { data?: CompoundItem }) {
@@ -37,13 +49,25 @@ function NumCell(p: { valueFormatted?: string | null; value?: unknown }) {
 // Our tabular figures plus AG Grid's right alignment (a cellClass replaces the column type's own).
 const RIGHT = ["num", "ag-right-aligned-cell", "text-right", "justify-end"];
 
-export function CompoundGrid({ libraries, initial }: { libraries: { id: string; name: string }[]; initial: { q: string; substructure: string; library: string } }) {
+export function CompoundGrid({
+  libraries,
+  initial,
+}: {
+  libraries: { id: string; name: string }[];
+  initial: { q: string; substructure: string; library: string };
+}) {
   const [q, setQ] = useState(initial.q);
   const [sub, setSub] = useState(initial.substructure);
   const [mwMin, setMwMin] = useState("");
   const [mwMax, setMwMax] = useState("");
   const [library, setLibrary] = useState(initial.library);
-  const [applied, setApplied] = useState({ q: initial.q, substructure: initial.substructure, mwMin: "", mwMax: "", library: initial.library });
+  const [applied, setApplied] = useState({
+    q: initial.q,
+    substructure: initial.substructure,
+    mwMin: "",
+    mwMax: "",
+    library: initial.library,
+  });
   const [offset, setOffset] = useState(0);
   const [sort, setSort] = useState<{ sort?: string; dir?: "asc" | "desc" }>({});
   const { data, error, isLoading, isValidating } = useCompoundSearch({ ...applied, ...sort, limit: PAGE, offset });
@@ -51,16 +75,93 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
   const columns = useMemo<ColDef<CompoundItem>[]>(
     () => [
       { headerName: "Structure", field: "svg", cellRenderer: Structure, width: 136, sortable: false },
-      { headerName: "Registry ID", field: "registryId", colId: "registryId", cellRenderer: IdCell, width: 130, comparator: keepServerOrder },
-      { headerName: "Name", field: "name", colId: "name", flex: 1, minWidth: 140, comparator: keepServerOrder, valueFormatter: (p) => p.value ?? "—" },
-      { headerName: "Aliases", field: "aliases", flex: 1, minWidth: 120, sortable: false, valueFormatter: (p) => (p.value as string[] | undefined)?.join("; ") || "—" },
+      {
+        headerName: "Registry ID",
+        field: "registryId",
+        colId: "registryId",
+        cellRenderer: IdCell,
+        width: 130,
+        comparator: keepServerOrder,
+      },
+      {
+        headerName: "Name",
+        field: "name",
+        colId: "name",
+        flex: 1,
+        minWidth: 140,
+        comparator: keepServerOrder,
+        valueFormatter: (p) => p.value ?? "—",
+      },
+      {
+        headerName: "Aliases",
+        field: "aliases",
+        flex: 1,
+        minWidth: 120,
+        sortable: false,
+        valueFormatter: (p) => (p.value as string[] | undefined)?.join("; ") || "—",
+      },
       { headerName: "Formula", field: "formula", width: 130, sortable: false },
-      { headerName: "MW (g/mol)", field: "mw", colId: "mw", width: 112, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT, cellRenderer: NumCell },
-      { headerName: "cLogP", field: "clogp", colId: "clogp", width: 88, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 2), cellClass: RIGHT, cellRenderer: NumCell },
-      { headerName: "TPSA (Å²)", field: "tpsa", colId: "tpsa", width: 100, type: "rightAligned", comparator: keepServerOrder, valueFormatter: (p) => fmt(p.value as number, 1), cellClass: RIGHT, cellRenderer: NumCell },
-      { headerName: "Heavy atoms", field: "heavyAtoms", colId: "heavyAtoms", width: 104, type: "rightAligned", comparator: keepServerOrder, cellClass: RIGHT, cellRenderer: NumCell },
-      { headerName: "HBD / HBA", colId: "hb", flex: 0.5, minWidth: 96, sortable: false, valueGetter: (p) => (p.data ? `${p.data.hbd} / ${p.data.hba}` : ""), cellClass: "num", headerTooltip: "H-bond donors / acceptors, rule-of-five definition (acceptors = all N and O atoms)" },
-      { headerName: "Match", field: "rank", width: 150, sortable: false, hide: !applied.q, valueFormatter: (p) => p.value ?? "" },
+      {
+        headerName: "MW (g/mol)",
+        field: "mw",
+        colId: "mw",
+        width: 112,
+        type: "rightAligned",
+        comparator: keepServerOrder,
+        valueFormatter: (p) => fmt(p.value as number, 2),
+        cellClass: RIGHT,
+        cellRenderer: NumCell,
+      },
+      {
+        headerName: "cLogP",
+        field: "clogp",
+        colId: "clogp",
+        width: 88,
+        type: "rightAligned",
+        comparator: keepServerOrder,
+        valueFormatter: (p) => fmt(p.value as number, 2),
+        cellClass: RIGHT,
+        cellRenderer: NumCell,
+      },
+      {
+        headerName: "TPSA (Å²)",
+        field: "tpsa",
+        colId: "tpsa",
+        width: 100,
+        type: "rightAligned",
+        comparator: keepServerOrder,
+        valueFormatter: (p) => fmt(p.value as number, 1),
+        cellClass: RIGHT,
+        cellRenderer: NumCell,
+      },
+      {
+        headerName: "Heavy atoms",
+        field: "heavyAtoms",
+        colId: "heavyAtoms",
+        width: 104,
+        type: "rightAligned",
+        comparator: keepServerOrder,
+        cellClass: RIGHT,
+        cellRenderer: NumCell,
+      },
+      {
+        headerName: "HBD / HBA",
+        colId: "hb",
+        flex: 0.5,
+        minWidth: 96,
+        sortable: false,
+        valueGetter: (p) => (p.data ? `${p.data.hbd} / ${p.data.hba}` : ""),
+        cellClass: "num",
+        headerTooltip: "H-bond donors / acceptors, rule-of-five definition (acceptors = all N and O atoms)",
+      },
+      {
+        headerName: "Match",
+        field: "rank",
+        width: 150,
+        sortable: false,
+        hide: !applied.q,
+        valueFormatter: (p) => p.value ?? "",
+      },
     ],
     [applied.q],
   );
@@ -84,22 +185,51 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
 
   return (
     <div className="flex flex-col gap-3">
-      <form onSubmit={apply} className="card grid grid-cols-1 gap-3 p-3 md:grid-cols-[2fr_2fr_1fr_1fr_1.3fr_auto]" aria-label="Search the registry">
+      <form
+        onSubmit={apply}
+        className="card grid grid-cols-1 gap-3 p-3 md:grid-cols-[2fr_2fr_1fr_1fr_1.3fr_auto]"
+        aria-label="Search the registry"
+      >
         <label className="text-xs text-ink-muted">
           Registry ID, name or alias
-          <input className="input mt-1" name="q" value={q} onChange={(e) => setQ(e.target.value)} placeholder="INH-000042, AP-014, IVC-40117" />
+          <input
+            className="input mt-1"
+            name="q"
+            value={q}
+            onChange={(e) => setQ(e.target.value)}
+            placeholder="INH-000042, AP-014, IVC-40117"
+          />
         </label>
         <label className="text-xs text-ink-muted">
           Substructure (SMILES or SMARTS)
-          <input className="input mt-1 font-mono" name="substructure" value={sub} onChange={(e) => setSub(e.target.value)} placeholder="c1ccncc1, C(=O)N, [F,Cl]c1ccccc1" spellCheck={false} />
+          <input
+            className="input mt-1 font-mono"
+            name="substructure"
+            value={sub}
+            onChange={(e) => setSub(e.target.value)}
+            placeholder="c1ccncc1, C(=O)N, [F,Cl]c1ccccc1"
+            spellCheck={false}
+          />
         </label>
         <label className="text-xs text-ink-muted">
           MW from (g/mol)
-          <input className="input mt-1 num" name="mwMin" inputMode="decimal" value={mwMin} onChange={(e) => setMwMin(e.target.value)} />
+          <input
+            className="input mt-1 num"
+            name="mwMin"
+            inputMode="decimal"
+            value={mwMin}
+            onChange={(e) => setMwMin(e.target.value)}
+          />
         </label>
         <label className="text-xs text-ink-muted">
           MW to (g/mol)
-          <input className="input mt-1 num" name="mwMax" inputMode="decimal" value={mwMax} onChange={(e) => setMwMax(e.target.value)} />
+          <input
+            className="input mt-1 num"
+            name="mwMax"
+            inputMode="decimal"
+            value={mwMax}
+            onChange={(e) => setMwMax(e.target.value)}
+          />
         </label>
         <label className="text-xs text-ink-muted">
           Library
@@ -127,20 +257,36 @@ export function CompoundGrid({ libraries, initial }: { libraries: { id: string; 
 
       <div className="flex items-center gap-3 text-sm text-ink-muted">
         <span className="num" data-testid="result-count">
-          {isLoading ? "Searching…" : total === 0 ? "No compounds match." : `${from.toLocaleString("en")}–${to.toLocaleString("en")} of ${lower ? "more than " : ""}${total.toLocaleString("en")}`}
+          {isLoading
+            ? "Searching…"
+            : total === 0
+              ? "No compounds match."
+              : `${from.toLocaleString("en")}–${to.toLocaleString("en")} of ${lower ? "more than " : ""}${total.toLocaleString("en")}`}
         </span>
         {data?.substructure ? (
           <span className="text-xs">
-            Fragment read as <code className="font-mono text-ink-soft">{data.substructure.understoodAs}</code>; {data.substructure.candidates.toLocaleString("en")} passed the fingerprint
-            prefilter, {data.substructure.checked.toLocaleString("en")} checked atom by atom{data.substructure.timedOut ? " before the time limit (refine the fragment for an exact count)" : ""}.
+            Fragment read as <code className="font-mono text-ink-soft">{data.substructure.understoodAs}</code>;{" "}
+            {data.substructure.candidates.toLocaleString("en")} passed the fingerprint prefilter,{" "}
+            {data.substructure.checked.toLocaleString("en")} checked atom by atom
+            {data.substructure.timedOut ? " before the time limit (refine the fragment for an exact count)" : ""}.
           </span>
         ) : null}
         {isValidating && !isLoading ? <span className="text-xs">updating…</span> : null}
         <span className="ml-auto flex gap-2">
-          <button type="button" className="btn-quiet" disabled={offset === 0} onClick={() => setOffset(Math.max(0, offset - PAGE))}>
+          <button
+            type="button"
+            className="btn-quiet"
+            disabled={offset === 0}
+            onClick={() => setOffset(Math.max(0, offset - PAGE))}
+          >
             Previous
           </button>
-          <button type="button" className="btn-quiet" disabled={to >= total && !lower} onClick={() => setOffset(offset + PAGE)}>
+          <button
+            type="button"
+            className="btn-quiet"
+            disabled={to >= total && !lower}
+            onClick={() => setOffset(offset + PAGE)}
+          >
             Next
           </button>
         </span>

@@ -14,7 +14,10 @@ const COLUMNS: [string, string][] = [
   ["name", "compound name"],
   ["aliases", "supplier codes, separated by ;"],
   ["supplier, purity_pct, amount + amount_unit (or amount_mg), salt_form, batch_date", "the first batch"],
-  ["stock_concentration_mm, stock_solvent, stock_volume_ul, stock_location, stock_date", "a stock solution from that batch"],
+  [
+    "stock_concentration_mm, stock_solvent, stock_volume_ul, stock_location, stock_date",
+    "a stock solution from that batch",
+  ],
 ];
 
 export default async function ImportPage() {
@@ -42,7 +45,10 @@ export default async function ImportPage() {
               ))}
             </tbody>
           </table>
-          <p className="mt-2 text-xs text-ink-muted">Other columns are ignored and listed in the preview. Headers are matched without regard to case, spaces or units in brackets.</p>
+          <p className="mt-2 text-xs text-ink-muted">
+            Other columns are ignored and listed in the preview. Headers are matched without regard to case, spaces or
+            units in brackets.
+          </p>
         </section>
       </div>
       {recent.length > 0 ? (

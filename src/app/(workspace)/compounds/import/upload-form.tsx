@@ -17,8 +17,10 @@ export function ImportUploadForm() {
     setError(null);
     const file = new FormData(e.currentTarget).get("file");
     if (!(file instanceof File) || file.size === 0) return setError("Choose a CSV, XLSX or SDF file.");
-    if (file.size > MAX_MB * 1024 * 1024) return setError(`${file.name} is ${(file.size / 1024 / 1024).toFixed(1)} MB; the limit is ${MAX_MB} MB.`);
-    if (!/\.(csv|tsv|txt|xlsx|sdf|sd)$/i.test(file.name)) return setError(`${file.name}: use a .csv, .xlsx or .sdf file.`);
+    if (file.size > MAX_MB * 1024 * 1024)
+      return setError(`${file.name} is ${(file.size / 1024 / 1024).toFixed(1)} MB; the limit is ${MAX_MB} MB.`);
+    if (!/\.(csv|tsv|txt|xlsx|sdf|sd)$/i.test(file.name))
+      return setError(`${file.name}: use a .csv, .xlsx or .sdf file.`);
     setBusy(true);
     try {
       const body = new FormData();
@@ -48,8 +50,8 @@ export function ImportUploadForm() {
         </button>
       </div>
       <p className="text-xs text-ink-muted">
-        Nothing is registered at this step. The file is stored with its SHA-256 checksum, then every record is checked; you see the problems record by record
-        and then choose how to register.
+        Nothing is registered at this step. The file is stored with its SHA-256 checksum, then every record is checked;
+        you see the problems record by record and then choose how to register.
       </p>
     </form>
   );

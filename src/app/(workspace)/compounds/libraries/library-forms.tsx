@@ -19,7 +19,13 @@ export function CreateLibraryForm() {
       </label>
       <label className="text-xs text-ink-muted" htmlFor="lib-ids">
         Registry IDs (optional; one per line, or separated by commas or spaces)
-        <textarea className="input mt-1 h-28 font-mono" id="lib-ids" name="ids" placeholder={"INH-000001\nINH-000002"} spellCheck={false} />
+        <textarea
+          className="input mt-1 h-28 font-mono"
+          id="lib-ids"
+          name="ids"
+          placeholder={"INH-000001\nINH-000002"}
+          spellCheck={false}
+        />
       </label>
       <FormMessage state={state} />
       <div>
@@ -38,7 +44,13 @@ export function AddMembersForm({ libraryId }: { libraryId: string }) {
       <input type="hidden" name="libraryId" value={libraryId} />
       <label className="text-xs text-ink-muted" htmlFor="add-ids">
         Add by registry ID (one, or a pasted list)
-        <textarea className="input mt-1 h-20 font-mono" id="add-ids" name="ids" spellCheck={false} placeholder="INH-000042" />
+        <textarea
+          className="input mt-1 h-20 font-mono"
+          id="add-ids"
+          name="ids"
+          spellCheck={false}
+          placeholder="INH-000042"
+        />
       </label>
       <FormMessage state={state} />
       <div>
@@ -56,7 +68,11 @@ export function RemoveMemberButton({ libraryId, registryId }: { libraryId: strin
     <form action={action} className="inline">
       <input type="hidden" name="libraryId" value={libraryId} />
       <input type="hidden" name="registryId" value={registryId} />
-      <button className="text-xs text-ink-muted hover:text-fail" disabled={pending} title={`Remove ${registryId} from this library`}>
+      <button
+        className="text-xs text-ink-muted hover:text-fail"
+        disabled={pending}
+        title={`Remove ${registryId} from this library`}
+      >
         remove
       </button>
       {state && !state.ok ? <span className="ml-1 text-xs text-fail">{state.error}</span> : null}

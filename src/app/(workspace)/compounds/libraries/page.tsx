@@ -19,7 +19,9 @@ export default async function LibrariesPage() {
       <h1 className="mb-3">Libraries</h1>
       <div className={`grid grid-cols-1 gap-4 ${writer ? "lg:grid-cols-[1fr_360px]" : ""}`}>
         {libs.length === 0 ? (
-          <EmptyState title="No libraries yet.">A library is a named set of compounds, e.g. a screening set or a series follow-up.</EmptyState>
+          <EmptyState title="No libraries yet.">
+            A library is a named set of compounds, e.g. a screening set or a series follow-up.
+          </EmptyState>
         ) : (
           <section className="card p-3">
             <table className="table-dense">

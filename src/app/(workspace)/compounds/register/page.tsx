@@ -19,8 +19,8 @@ export default async function RegisterPage() {
       </p>
       <h1 className="mb-1">Register a compound</h1>
       <p className="mb-3 text-sm text-ink-muted">
-        The system gives the registry ID. A salt or solvate is recorded on the batch; the parent structure is registered. The same structure registered
-        before is not registered again: add a batch to it instead.
+        The system gives the registry ID. A salt or solvate is recorded on the batch; the parent structure is
+        registered. The same structure registered before is not registered again: add a batch to it instead.
       </p>
       <ChemicalSafetyNote className="mb-3" />
       <RegisterForm />

@@ -33,7 +33,12 @@ function useStructurePreview(smiles: string): Preview {
         text,
         preview: {
           kind: "ok",
-          svg: chem.structureSvg(parsed.molecule, { width: 360, height: 260, idPrefix: "preview-", stereoLabels: true }),
+          svg: chem.structureSvg(parsed.molecule, {
+            width: 360,
+            height: 260,
+            idPrefix: "preview-",
+            stereoLabels: true,
+          }),
           ...chem.publicProperties(p),
           removed: parsed.removedComponents,
           warnings: parsed.warnings,
@@ -71,7 +76,8 @@ export function RegisterForm() {
   const formRef = useRef<HTMLFormElement>(null);
   const duplicateOf = state && !state.ok ? state.fieldErrors?.duplicateOf : undefined;
   const needsReason = state && !state.ok && !!state.fieldErrors?.distinctReason;
-  const registered = state && state.ok ? (state.data as { registryId: string; warnings: string[] } | undefined) : undefined;
+  const registered =
+    state && state.ok ? (state.data as { registryId: string; warnings: string[] } | undefined) : undefined;
 
   function validate(e: React.FormEvent<HTMLFormElement>) {
     const parsed = registerCompoundSchema.safeParse(nest(new FormData(e.currentTarget)));
@@ -81,10 +87,19 @@ export function RegisterForm() {
     } else setClientErrors([]);
   }
 
-  const serverFieldErrors = state && !state.ok && state.fieldErrors ? Object.entries(state.fieldErrors).filter(([k]) => k !== "duplicateOf" && k !== "distinctReason") : [];
+  const serverFieldErrors =
+    state && !state.ok && state.fieldErrors
+      ? Object.entries(state.fieldErrors).filter(([k]) => k !== "duplicateOf" && k !== "distinctReason")
+      : [];
 
   return (
-    <form ref={formRef} action={action} onSubmit={validate} className="grid grid-cols-1 gap-4 lg:grid-cols-[1fr_400px]" noValidate>
+    <form
+      ref={formRef}
+      action={action}
+      onSubmit={validate}
+      className="grid grid-cols-1 gap-4 lg:grid-cols-[1fr_400px]"
+      noValidate
+    >
       <div className="flex flex-col gap-3">
         <section className="card flex flex-col gap-2 p-3">
           <label className="text-xs text-ink-muted" htmlFor="smiles">
@@ -154,7 +169,9 @@ export function RegisterForm() {
         {registered ? (
           <p className="text-sm">
             <Link href={`/compounds/${registered.registryId}`}>Open {registered.registryId}</Link>
-            {registered.warnings.length ? <span className="ml-2 text-xs text-warn">{registered.warnings.join(" ")}</span> : null}
+            {registered.warnings.length ? (
+              <span className="ml-2 text-xs text-warn">{registered.warnings.join(" ")}</span>
+            ) : null}
           </p>
         ) : null}
         <div>
@@ -166,7 +183,11 @@ export function RegisterForm() {
 
       <aside className="card flex flex-col gap-2 p-3" aria-label="Structure preview">
         <h2 className="text-sm font-semibold">Preview</h2>
-        {preview.kind === "empty" ? <p className="text-sm text-ink-muted">Type or paste a structure to see it drawn, with its computed properties.</p> : null}
+        {preview.kind === "empty" ? (
+          <p className="text-sm text-ink-muted">
+            Type or paste a structure to see it drawn, with its computed properties.
+          </p>
+        ) : null}
         {preview.kind === "loading" ? <p className="text-sm text-ink-muted">Reading the structure…</p> : null}
         {preview.kind === "error" ? (
           <p role="alert" className="rounded bg-fail-soft px-2 py-1.5 text-sm text-fail">
@@ -175,8 +196,15 @@ export function RegisterForm() {
         ) : null}
         {preview.kind === "ok" ? (
           <>
-            <div className="flex justify-center rounded bg-paper-raised" dangerouslySetInnerHTML={{ __html: preview.svg }} />
-            {preview.removed.length ? <p className="text-xs text-warn">Largest component kept; {preview.removed.join(", ")} will be the batch&rsquo;s salt form.</p> : null}
+            <div
+              className="flex justify-center rounded bg-paper-raised"
+              dangerouslySetInnerHTML={{ __html: preview.svg }}
+            />
+            {preview.removed.length ? (
+              <p className="text-xs text-warn">
+                Largest component kept; {preview.removed.join(", ")} will be the batch&rsquo;s salt form.
+              </p>
+            ) : null}
             {preview.warnings.map((w) => (
               <p key={w} className="text-xs text-warn">
                 {w}

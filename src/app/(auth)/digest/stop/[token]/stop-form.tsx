@@ -3,7 +3,13 @@ import { useActionState } from "react";
 import type { ActionState } from "@/server/action";
 import { FormMessage } from "@/components/forms/form-bits";
 
-export function StopDigestForm({ action, token }: { action: (p: ActionState, f: FormData) => Promise<ActionState>; token: string }) {
+export function StopDigestForm({
+  action,
+  token,
+}: {
+  action: (p: ActionState, f: FormData) => Promise<ActionState>;
+  token: string;
+}) {
   const [state, formAction, pending] = useActionState(action, null);
   if (state?.ok) return <FormMessage state={state} />;
   return (

@@ -12,14 +12,23 @@ import { plateMapFromWells } from "@/lib/plates";
 import { experimentKinds } from "@/lib/validation/experiments";
 import { toMicromolar } from "@/lib/units";
 
-const optPos = z.preprocess((v) => (v === "" || v === undefined ? undefined : v), z.coerce.number().finite().positive().optional());
-const optNum = z.preprocess((v) => (v === "" || v === undefined ? undefined : v), z.coerce.number().finite().optional());
+const optPos = z.preprocess(
+  (v) => (v === "" || v === undefined ? undefined : v),
+  z.coerce.number().finite().positive().optional(),
+);
+const optNum = z.preprocess(
+  (v) => (v === "" || v === undefined ? undefined : v),
+  z.coerce.number().finite().optional(),
+);
 
 const createSchema = z.object({
   campaignId: z.string().uuid(),
   name: z.string().trim().min(1, "Name the experiment.").max(120),
   kind: z.enum(experimentKinds),
-  runIds: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.string().uuid()).min(1, "Choose at least one plate run.")),
+  runIds: z.preprocess(
+    (v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
+    z.array(z.string().uuid()).min(1, "Choose at least one plate run."),
+  ),
   hitRule: z.enum(["threshold", "sd", "robust"]).default("threshold"),
   hitThresholdPct: optNum,
   hitK: optPos,
@@ -45,7 +54,9 @@ export const createExperimentAction = formAction(createSchema, async (f) => {
     runIds: f.runIds,
     settings: {
       ...(hitRule ? { hitRule } : {}),
-      ...(f.kind === "dose-response" ? { substrateUm: f.substrateUm ?? null, fixTopPct: f.fixTopPct ?? null, fixBottomPct: f.fixBottomPct ?? null } : {}),
+      ...(f.kind === "dose-response"
+        ? { substrateUm: f.substrateUm ?? null, fixTopPct: f.fixTopPct ?? null, fixBottomPct: f.fixBottomPct ?? null }
+        : {}),
       ...(f.kind === "mechanism" ? { weighting: f.weighting } : {}),
     },
   });
@@ -53,13 +64,20 @@ export const createExperimentAction = formAction(createSchema, async (f) => {
   redirect(`/campaigns/${f.campaignId}/analyses/${id}`);
 });
 
-export const startAnalysisAction = formAction(z.object({ campaignId: z.string().uuid(), experimentId: z.string().uuid() }), async ({ campaignId, experimentId }) => {
-  const { user, campaign } = await requireCampaign(campaignId, "analysis:run");
-  const a = await requestAnalysis(user, campaign, experimentId);
-  if (a.status === "queued") await enqueueAnalysis(a.id);
-  revalidatePath(`/campaigns/${campaignId}/analyses/${experimentId}`);
-  return { ok: true, data: { analysisId: a.id, status: a.status }, message: a.reused ? "Nothing changed since the current analysis: its results stand." : "Analysis started." };
-});
+export const startAnalysisAction = formAction(
+  z.object({ campaignId: z.string().uuid(), experimentId: z.string().uuid() }),
+  async ({ campaignId, experimentId }) => {
+    const { user, campaign } = await requireCampaign(campaignId, "analysis:run");
+    const a = await requestAnalysis(user, campaign, experimentId);
+    if (a.status === "queued") await enqueueAnalysis(a.id);
+    revalidatePath(`/campaigns/${campaignId}/analyses/${experimentId}`);
+    return {
+      ok: true,
+      data: { analysisId: a.id, status: a.status },
+      message: a.reused ? "Nothing changed since the current analysis: its results stand." : "Analysis started.",
+    };
+  },
+);
 
 export const overrideMechanismAction = formAction(
   z.object({
@@ -89,10 +107,25 @@ export const planMechanismPlateAction = formAction(
   }),
   async (f) => {
     const { user, campaign } = await requireCampaign(f.campaignId, "plate:write");
-    const kmUm = f.kmUm ?? (campaign.kmValue !== null ? toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM") : undefined);
-    if (!kmUm) return { ok: false, error: "Set the target's Km (in the campaign or here) to plan a mechanism study.", status: 400 };
-    const plan = planMechanismStudy({ compound: f.compoundId, ic50Um: f.ic50Um, kmUm, assaySubstrateUm: f.assaySubstrateUm, format: f.format as 96 | 384 | 1536 });
-    const { id } = await createPlateMap(user, f.campaignId, { name: f.name, map: plateMapFromWells(plan.format, plan.wells) });
+    const kmUm =
+      f.kmUm ?? (campaign.kmValue !== null ? toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM") : undefined);
+    if (!kmUm)
+      return {
+        ok: false,
+        error: "Set the target's Km (in the campaign or here) to plan a mechanism study.",
+        status: 400,
+      };
+    const plan = planMechanismStudy({
+      compound: f.compoundId,
+      ic50Um: f.ic50Um,
+      kmUm,
+      assaySubstrateUm: f.assaySubstrateUm,
+      format: f.format as 96 | 384 | 1536,
+    });
+    const { id } = await createPlateMap(user, f.campaignId, {
+      name: f.name,
+      map: plateMapFromWells(plan.format, plan.wells),
+    });
     redirect(`/campaigns/${f.campaignId}/plates/maps/${id}`);
   },
 );

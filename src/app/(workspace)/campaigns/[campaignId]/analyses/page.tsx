@@ -20,8 +20,9 @@ export default async function AnalysesPage({ params }: { params: Promise<{ campa
       <div>
         <h1>Analyses</h1>
         <p className="text-sm text-ink-muted">
-          An experiment is a set of plate runs analysed together. Only accepted runs count; masked wells are left out; replicates of a compound are pooled
-          across plates. Every analysis records the engine version, its settings, the runs&rsquo; SHA-256 checksums and the masks.
+          An experiment is a set of plate runs analysed together. Only accepted runs count; masked wells are left out;
+          replicates of a compound are pooled across plates. Every analysis records the engine version, its settings,
+          the runs&rsquo; SHA-256 checksums and the masks.
         </p>
       </div>
       {list.length === 0 ? (
@@ -48,9 +49,17 @@ export default async function AnalysesPage({ params }: { params: Promise<{ campa
                 <td className="num text-right">
                   {e.acceptedRuns} / {e.runs}
                 </td>
-                <td>{e.latest ? <AnalysisStatusChip status={e.latest.status} progress={e.latest.progress} /> : <span className="text-ink-muted">not run</span>}</td>
+                <td>
+                  {e.latest ? (
+                    <AnalysisStatusChip status={e.latest.status} progress={e.latest.progress} />
+                  ) : (
+                    <span className="text-ink-muted">not run</span>
+                  )}
+                </td>
                 <td className="num text-right">{e.current?.compounds ?? "—"}</td>
-                <td className="num text-ink-muted">{e.latest ? e.latest.requestedAt.toISOString().slice(0, 16).replace("T", " ") : "—"}</td>
+                <td className="num text-ink-muted">
+                  {e.latest ? e.latest.requestedAt.toISOString().slice(0, 16).replace("T", " ") : "—"}
+                </td>
               </tr>
             ))}
           </tbody>
@@ -74,7 +83,9 @@ export default async function AnalysesPage({ params }: { params: Promise<{ campa
           />
         </section>
       ) : (
-        <p className="text-xs text-ink-muted">Assay scientists and project leads create experiments and run analyses.</p>
+        <p className="text-xs text-ink-muted">
+          Assay scientists and project leads create experiments and run analyses.
+        </p>
       )}
     </div>
   );

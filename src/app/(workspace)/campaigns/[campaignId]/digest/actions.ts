@@ -9,7 +9,12 @@ export const sendDigestNowAction = formAction(z.object({ campaignId: z.string().
   const { user } = await requireCampaign(campaignId, "digest:send");
   const s = await sendCampaignDigest(campaignId, { trigger: "send-now", actor: user });
   revalidatePath(`/campaigns/${campaignId}/digest`);
-  const parts = [`${s.sent} sent`, s.alreadySent ? `${s.alreadySent} had this week's digest already` : "", s.optedOut ? `${s.optedOut} opted out` : "", s.failed ? `${s.failed} failed (retried by the schedule)` : ""].filter(Boolean);
+  const parts = [
+    `${s.sent} sent`,
+    s.alreadySent ? `${s.alreadySent} had this week's digest already` : "",
+    s.optedOut ? `${s.optedOut} opted out` : "",
+    s.failed ? `${s.failed} failed (retried by the schedule)` : "",
+  ].filter(Boolean);
   return { ok: true, message: `Week of ${s.week}: ${parts.join(", ")}.` };
 });
 

@@ -21,7 +21,15 @@ export function DigestControls({ campaignId, action }: { campaignId: string; act
 
 const days = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"];
 
-export function ScheduleForm({ campaignId, action, values }: { campaignId: string; action: Action; values: { digestWeekday: number; digestHour: number; timeZone: string } }) {
+export function ScheduleForm({
+  campaignId,
+  action,
+  values,
+}: {
+  campaignId: string;
+  action: Action;
+  values: { digestWeekday: number; digestHour: number; timeZone: string };
+}) {
   const [state, formAction, pending] = useActionState(action, null);
   return (
     <form action={formAction} className="card flex flex-wrap items-end gap-2 p-3" noValidate>

@@ -13,29 +13,50 @@ export default async function DigestPage({ params }: { params: Promise<{ campaig
   const { user, role, campaign } = await pageCampaign(campaignId);
   const mayManage = can(user.globalRole, role, "digest:send");
   const now = new Date();
-  const [preview, log, people] = await Promise.all([previewDigest(campaignId, { id: user.id, name: user.name }, now), mayManage ? sendLog(campaignId) : Promise.resolve([]), recipients(campaignId)]);
+  const [preview, log, people] = await Promise.all([
+    previewDigest(campaignId, { id: user.id, name: user.name }, now),
+    mayManage ? sendLog(campaignId) : Promise.resolve([]),
+    recipients(campaignId),
+  ]);
   return (
     <div className="flex flex-col gap-5">
       <div>
         <h1>Weekly digest</h1>
         <p className="text-sm text-ink-muted">
-          Sent {days[campaign.digestWeekday]} at {String(campaign.digestHour).padStart(2, "0")}:00 ({campaign.timeZone}) to every member who has not stopped it —{" "}
-          {people.length} recipient{people.length === 1 ? "" : "s"} now. One digest per member per week (this week: {digestWeek(now, campaign.timeZone)}
+          Sent {days[campaign.digestWeekday]} at {String(campaign.digestHour).padStart(2, "0")}:00 ({campaign.timeZone})
+          to every member who has not stopped it — {people.length} recipient{people.length === 1 ? "" : "s"} now. One
+          digest per member per week (this week: {digestWeek(now, campaign.timeZone)}
           {digestDue(campaign, now) ? ", due" : ", not yet due"}).
         </p>
       </div>
       {mayManage ? (
         <div className="grid gap-4 md:grid-cols-2">
           <DigestControls campaignId={campaignId} action={sendDigestNowAction} />
-          <ScheduleForm campaignId={campaignId} action={setDigestScheduleAction} values={{ digestWeekday: campaign.digestWeekday, digestHour: campaign.digestHour, timeZone: campaign.timeZone }} />
+          <ScheduleForm
+            campaignId={campaignId}
+            action={setDigestScheduleAction}
+            values={{
+              digestWeekday: campaign.digestWeekday,
+              digestHour: campaign.digestHour,
+              timeZone: campaign.timeZone,
+            }}
+          />
         </div>
       ) : (
-        <p className="text-xs text-ink-muted">The project lead or an administrator sends the digest and sets its schedule. You can stop it for yourself in your settings.</p>
+        <p className="text-xs text-ink-muted">
+          The project lead or an administrator sends the digest and sets its schedule. You can stop it for yourself in
+          your settings.
+        </p>
       )}
       <section>
         <h3 className="mb-2">Preview (as you would receive it now)</h3>
         <p className="mb-1 text-xs text-ink-muted">Subject: {preview.subject}</p>
-        <iframe title="Digest preview" srcDoc={preview.html} sandbox="" className="h-[720px] w-full max-w-3xl rounded-md border border-rule bg-paper-raised" />
+        <iframe
+          title="Digest preview"
+          srcDoc={preview.html}
+          sandbox=""
+          className="h-[720px] w-full max-w-3xl rounded-md border border-rule bg-paper-raised"
+        />
       </section>
       {mayManage ? (
         <section>
@@ -62,12 +83,20 @@ export default async function DigestPage({ params }: { params: Promise<{ campaig
                     <td className="num">{r.week}</td>
                     <td>{r.email}</td>
                     <td>
-                      <span className={`chip ${r.status === "sent" ? "bg-pass-soft text-pass" : r.status === "failed" ? "bg-fail-soft text-fail" : "bg-paper-sunk text-ink-muted"}`}>{r.status}</span>
+                      <span
+                        className={`chip ${r.status === "sent" ? "bg-pass-soft text-pass" : r.status === "failed" ? "bg-fail-soft text-fail" : "bg-paper-sunk text-ink-muted"}`}
+                      >
+                        {r.status}
+                      </span>
                     </td>
                     <td className="num text-right">{r.attempts}</td>
                     <td>{r.trigger}</td>
                     <td className="num">{r.sentAt ? r.sentAt.toISOString().slice(0, 16).replace("T", " ") : "—"}</td>
-                    <td className="num">{r.status === "failed" && r.nextAttemptAt ? r.nextAttemptAt.toISOString().slice(0, 16).replace("T", " ") : "—"}</td>
+                    <td className="num">
+                      {r.status === "failed" && r.nextAttemptAt
+                        ? r.nextAttemptAt.toISOString().slice(0, 16).replace("T", " ")
+                        : "—"}
+                    </td>
                     <td className="max-w-64 text-xs text-fail">{r.lastError ?? ""}</td>
                   </tr>
                 ))}

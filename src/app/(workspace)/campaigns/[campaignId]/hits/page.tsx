@@ -13,12 +13,20 @@ export default async function HitsPage({ params }: { params: Promise<{ campaignI
       <div>
         <h1>Hits</h1>
         <p className="max-w-4xl text-sm text-ink-muted">
-          One row per compound with a current result. Click a row for its structure, curves, mechanism plots, batches, status history and comments.{" "}
-          {canTriage ? "Select rows to set their triage status together." : "Only the project lead (or an administrator) changes triage status."} Research use only: flagged
-          fits stay visible and are ranked after clean ones; a qualified scientist reviews every call before a decision.
+          One row per compound with a current result. Click a row for its structure, curves, mechanism plots, batches,
+          status history and comments.{" "}
+          {canTriage
+            ? "Select rows to set their triage status together."
+            : "Only the project lead (or an administrator) changes triage status."}{" "}
+          Research use only: flagged fits stay visible and are ranked after clean ones; a qualified scientist reviews
+          every call before a decision.
         </p>
       </div>
-      <HitsWorkspace campaignId={campaignId} canTriage={canTriage} canComment={can(user.globalRole, role, "campaign:comment")} />
+      <HitsWorkspace
+        campaignId={campaignId}
+        canTriage={canTriage}
+        canComment={can(user.globalRole, role, "campaign:comment")}
+      />
     </div>
   );
 }

@@ -4,11 +4,22 @@ import { z } from "zod";
 import { formAction } from "@/server/action";
 import { AppError } from "@/server/errors";
 import { requireCampaign } from "@/server/auth/guard";
-import { createPlateMap, decideRun, issueDetails, maskWell, unmaskWell, updatePlateMap } from "@/server/services/plates";
+import {
+  createPlateMap,
+  decideRun,
+  issueDetails,
+  maskWell,
+  unmaskWell,
+  updatePlateMap,
+} from "@/server/services/plates";
 import { plateMapFromJson } from "@/lib/plates";
 
 const id = z.string().uuid();
-const reason = z.string().trim().min(3, "Give a reason (at least 3 characters).").max(500, "A reason has at most 500 characters.");
+const reason = z
+  .string()
+  .trim()
+  .min(3, "Give a reason (at least 3 characters).")
+  .max(500, "A reason has at most 500 characters.");
 
 const saveMapSchema = z.object({
   campaignId: id,
@@ -32,10 +43,25 @@ export const savePlateMapAction = formAction(saveMapSchema, async (input) => {
   const parsed = plateMapFromJson(raw);
   if (!parsed.ok) {
     const d = issueDetails(parsed.issues);
-    return { ok: false, error: parsed.issues.slice(0, 5).map((i) => i.text).join("; ") + (d.length > 5 ? ` (and ${d.length - 5} more)` : ""), status: 400 };
+    return {
+      ok: false,
+      error:
+        parsed.issues
+          .slice(0, 5)
+          .map((i) => i.text)
+          .join("; ") + (d.length > 5 ? ` (and ${d.length - 5} more)` : ""),
+      status: 400,
+    };
   }
-  const data = { name: input.name, map: parsed.map, isTemplate: input.template === "on" || input.template === "1", signalDirection: input.signalDirection };
-  const { id: mapId } = input.mapId ? await updatePlateMap(user, input.campaignId, input.mapId, data) : await createPlateMap(user, input.campaignId, data);
+  const data = {
+    name: input.name,
+    map: parsed.map,
+    isTemplate: input.template === "on" || input.template === "1",
+    signalDirection: input.signalDirection,
+  };
+  const { id: mapId } = input.mapId
+    ? await updatePlateMap(user, input.campaignId, input.mapId, data)
+    : await createPlateMap(user, input.campaignId, data);
   revalidatePath(`/campaigns/${input.campaignId}/plates`, "layout");
   return { ok: true, data: { id: mapId }, message: "Plate map saved." };
 });
@@ -47,7 +73,10 @@ export const maskWellAction = formAction(maskSchema, async ({ campaignId, runId,
   const { user } = await requireCampaign(campaignId, "plate:write");
   const qc = await maskWell(user, campaignId, runId, well, why);
   revalidatePath(`/campaigns/${campaignId}/plates`, "layout");
-  return { ok: true, message: `Well ${well.toUpperCase()} masked. QC recomputed: Z′ ${qc.zPrime?.toFixed(2) ?? "—"}, ${qc.verdict}.` };
+  return {
+    ok: true,
+    message: `Well ${well.toUpperCase()} masked. QC recomputed: Z′ ${qc.zPrime?.toFixed(2) ?? "—"}, ${qc.verdict}.`,
+  };
 });
 
 /** Unmask a well with a reason (audited); QC and % inhibition are recomputed. */
@@ -55,7 +84,10 @@ export const unmaskWellAction = formAction(maskSchema, async ({ campaignId, runI
   const { user } = await requireCampaign(campaignId, "plate:write");
   const qc = await unmaskWell(user, campaignId, runId, well, why);
   revalidatePath(`/campaigns/${campaignId}/plates`, "layout");
-  return { ok: true, message: `Well ${well.toUpperCase()} unmasked. QC recomputed: Z′ ${qc.zPrime?.toFixed(2) ?? "—"}, ${qc.verdict}.` };
+  return {
+    ok: true,
+    message: `Well ${well.toUpperCase()} unmasked. QC recomputed: Z′ ${qc.zPrime?.toFixed(2) ?? "—"}, ${qc.verdict}.`,
+  };
 });
 
 const decideSchema = z.object({ campaignId: id, runId: id, decision: z.enum(["accepted", "rejected"]), reason });

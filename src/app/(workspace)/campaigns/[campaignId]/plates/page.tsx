@@ -18,14 +18,22 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
   const accepted = runs.filter((r) => r.decision === "accepted").length;
   const trend = [...runs]
     .sort((a, b) => a.uploadedAt.getTime() - b.uploadedAt.getTime() || a.fileName.localeCompare(b.fileName))
-    .map((r) => ({ id: r.id, label: r.barcode ?? r.fileName, at: r.uploadedAt.toISOString(), zPrime: r.zPrime, verdict: r.qcVerdict, decision: r.decision }));
+    .map((r) => ({
+      id: r.id,
+      label: r.barcode ?? r.fileName,
+      at: r.uploadedAt.toISOString(),
+      zPrime: r.zPrime,
+      verdict: r.qcVerdict,
+      decision: r.decision,
+    }));
   return (
     <div className="flex flex-col gap-5">
       <div className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1>Plates</h1>
           <p className="text-sm text-ink-muted">
-            {runs.length} plate runs · {passed} pass QC · {accepted} accepted · {maps.length} plate maps · QC: Z′ ≥ <span className="num">{campaign.qcMinZPrime}</span>, control CV ≤{" "}
+            {runs.length} plate runs · {passed} pass QC · {accepted} accepted · {maps.length} plate maps · QC: Z′ ≥{" "}
+            <span className="num">{campaign.qcMinZPrime}</span>, control CV ≤{" "}
             <span className="num">{campaign.qcMaxCvPct}</span> %
           </p>
         </div>
@@ -43,7 +51,8 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
 
       {runs.length === 0 ? (
         <EmptyState title="No plate runs yet.">
-          Reader exports uploaded against a plate map are stored, checksummed, parsed and checked (Z′, S/B, control CV) before their numbers count.
+          Reader exports uploaded against a plate map are stored, checksummed, parsed and checked (Z′, S/B, control CV)
+          before their numbers count.
         </EmptyState>
       ) : (
         <>
@@ -83,7 +92,14 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
                       <td className="num text-right">{r.reads}</td>
                       <td className="num text-right">{fmtNum(r.zPrime, 3)}</td>
                       <td className="num text-right">{fmtNum(r.qc.cvNeutralPct, 1)}</td>
-                      <td className={`num text-right ${r.qc.full?.cvApplies === false ? "text-ink-faint" : ""}`} title={r.qc.full?.cvApplies === false ? "Mean within 3 SD of zero (e.g. a no-enzyme rate): the CV limit is not applied." : undefined}>
+                      <td
+                        className={`num text-right ${r.qc.full?.cvApplies === false ? "text-ink-faint" : ""}`}
+                        title={
+                          r.qc.full?.cvApplies === false
+                            ? "Mean within 3 SD of zero (e.g. a no-enzyme rate): the CV limit is not applied."
+                            : undefined
+                        }
+                      >
                         {fmtNum(r.qc.cvFullPct, 1)}
                         {r.qc.full?.cvApplies === false ? "*" : ""}
                       </td>
@@ -100,7 +116,9 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
                 </tbody>
               </table>
             </div>
-            <p className="mt-1 text-2xs text-ink-muted">* Mean within 3 SD of zero (e.g. the no-enzyme rate of a kinetic run): the CV limit is not applied.</p>
+            <p className="mt-1 text-2xs text-ink-muted">
+              * Mean within 3 SD of zero (e.g. the no-enzyme rate of a kinetic run): the CV limit is not applied.
+            </p>
           </section>
         </>
       )}
@@ -108,7 +126,9 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
       <section>
         <h3 className="mb-2">Plate maps ({maps.length})</h3>
         {maps.length === 0 ? (
-          <p className="text-sm text-ink-muted">No plate maps yet.{writer ? " Start one with “New plate map”, or import a CSV there." : ""}</p>
+          <p className="text-sm text-ink-muted">
+            No plate maps yet.{writer ? " Start one with “New plate map”, or import a CSV there." : ""}
+          </p>
         ) : (
           <div className="card overflow-x-auto">
             <table className="table-dense">

@@ -51,7 +51,11 @@ export const updateThresholdsAction = formAction(thresholdsSchema, async ({ camp
       action: "campaign.thresholds",
       entityType: "campaign",
       entityId: campaignId,
-      before: { qcMinZPrime: campaign.qcMinZPrime, qcMaxCvPct: campaign.qcMaxCvPct, hitThresholdPct: campaign.hitThresholdPct },
+      before: {
+        qcMinZPrime: campaign.qcMinZPrime,
+        qcMaxCvPct: campaign.qcMaxCvPct,
+        hitThresholdPct: campaign.hitThresholdPct,
+      },
       after: t,
     });
   });

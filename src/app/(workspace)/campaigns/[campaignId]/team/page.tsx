@@ -35,7 +35,13 @@ export default async function TeamPage({ params }: { params: Promise<{ campaignI
                 <td className="num text-ink-muted">{m.addedAt.toISOString().slice(0, 10)}</td>
                 {isAdmin ? (
                   <td>
-                    <MemberRow campaignId={campaignId} userId={m.userId} role={m.role} changeRole={changeRoleAction} remove={removeMemberAction} />
+                    <MemberRow
+                      campaignId={campaignId}
+                      userId={m.userId}
+                      role={m.role}
+                      changeRole={changeRoleAction}
+                      remove={removeMemberAction}
+                    />
                   </td>
                 ) : null}
               </tr>
@@ -76,7 +82,11 @@ export default async function TeamPage({ params }: { params: Promise<{ campaignI
         <ThresholdsForm
           campaignId={campaignId}
           editable={can(user.globalRole, role, "campaign:settings")}
-          values={{ qcMinZPrime: campaign.qcMinZPrime, qcMaxCvPct: campaign.qcMaxCvPct, hitThresholdPct: campaign.hitThresholdPct }}
+          values={{
+            qcMinZPrime: campaign.qcMinZPrime,
+            qcMaxCvPct: campaign.qcMaxCvPct,
+            hitThresholdPct: campaign.hitThresholdPct,
+          }}
           action={updateThresholdsAction}
         />
       </section>

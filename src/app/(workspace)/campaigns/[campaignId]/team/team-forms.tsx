@@ -36,7 +36,19 @@ export function TeamForms({ campaignId, invite }: { campaignId: string; invite: 
   );
 }
 
-export function MemberRow({ campaignId, userId, role, changeRole, remove }: { campaignId: string; userId: string; role: CampaignRole; changeRole: Action; remove: Action }) {
+export function MemberRow({
+  campaignId,
+  userId,
+  role,
+  changeRole,
+  remove,
+}: {
+  campaignId: string;
+  userId: string;
+  role: CampaignRole;
+  changeRole: Action;
+  remove: Action;
+}) {
   const [s1, a1, p1] = useActionState(changeRole, null);
   const [s2, a2, p2] = useActionState(remove, null);
   return (
@@ -96,7 +108,12 @@ export function ThresholdsForm({
       </label>
       <label>
         <span className="field-label">Hit threshold (% inhibition)</span>
-        <input className="input num w-32" name="hitThresholdPct" defaultValue={values.hitThresholdPct} disabled={!editable} />
+        <input
+          className="input num w-32"
+          name="hitThresholdPct"
+          defaultValue={values.hitThresholdPct}
+          disabled={!editable}
+        />
         <FieldError state={state} name="hitThresholdPct" />
       </label>
       {editable ? (

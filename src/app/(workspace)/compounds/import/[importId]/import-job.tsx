@@ -17,7 +17,14 @@ function ProgressBar({ done, total }: { done: number; total: number }) {
   const pct = total > 0 ? Math.round((100 * done) / total) : 0;
   return (
     <div className="flex items-center gap-3">
-      <div className="h-2 flex-1 overflow-hidden rounded bg-paper-sunk" role="progressbar" aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct} aria-label="Records checked">
+      <div
+        className="h-2 flex-1 overflow-hidden rounded bg-paper-sunk"
+        role="progressbar"
+        aria-valuemin={0}
+        aria-valuemax={100}
+        aria-valuenow={pct}
+        aria-label="Records checked"
+      >
         <div className="h-full bg-accent transition-all" style={{ width: `${pct}%` }} />
       </div>
       <span className="num w-48 text-right text-xs text-ink-muted">
@@ -42,7 +49,11 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
     setCommitting(true);
     setCommitError(null);
     try {
-      const next = await fetchJson<ImportJobView>(`${importJobUrl(id)}/commit`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ mode }) });
+      const next = await fetchJson<ImportJobView>(`${importJobUrl(id)}/commit`, {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ mode }),
+      });
       await mutate(next, { revalidate: false });
     } catch (e) {
       setCommitError(e instanceof ApiError ? e.message : "Registering failed; nothing was registered. Try again.");
@@ -57,12 +68,19 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
         <div className="flex flex-wrap items-baseline gap-3 text-sm">
           <span className="font-semibold">{job.fileName}</span>
           <span className="text-xs text-ink-muted">
-            {job.format.toUpperCase()} · {(job.sizeBytes / 1024).toFixed(1)} KB · SHA-256 <code className="font-mono">{job.sha256.slice(0, 16)}…</code>
+            {job.format.toUpperCase()} · {(job.sizeBytes / 1024).toFixed(1)} KB · SHA-256{" "}
+            <code className="font-mono">{job.sha256.slice(0, 16)}…</code>
           </span>
-          <span className={`chip ${job.status === "failed" ? "bg-fail-soft text-fail" : job.status === "committed" ? "bg-pass-soft text-pass" : "bg-info-soft text-info"}`}>{job.status}</span>
+          <span
+            className={`chip ${job.status === "failed" ? "bg-fail-soft text-fail" : job.status === "committed" ? "bg-pass-soft text-pass" : "bg-info-soft text-info"}`}
+          >
+            {job.status}
+          </span>
         </div>
         <p className="text-sm text-ink-soft">{STATUS_TEXT[job.status]}</p>
-        {job.status === "preparing" || job.status === "stored" || job.status === "ready" ? <ProgressBar done={job.progress.done} total={job.progress.total} /> : null}
+        {job.status === "preparing" || job.status === "stored" || job.status === "ready" ? (
+          <ProgressBar done={job.progress.done} total={job.progress.total} />
+        ) : null}
         {job.error ? (
           <p role="alert" className="rounded bg-fail-soft px-2 py-1.5 text-sm text-fail">
             {job.error}
@@ -93,11 +111,15 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
               <dd className="num text-lg">{(p.prepareMs / 1000).toFixed(1)} s</dd>
             </div>
           </dl>
-          {p.ignoredFields.length ? <p className="mb-2 text-xs text-ink-muted">Ignored columns: {p.ignoredFields.join(", ")}</p> : null}
+          {p.ignoredFields.length ? (
+            <p className="mb-2 text-xs text-ink-muted">Ignored columns: {p.ignoredFields.join(", ")}</p>
+          ) : null}
 
           {p.issues.length > 0 ? (
             <>
-              <h3 className="mb-1 text-xs font-semibold uppercase tracking-wide text-fail">Problems, record by record</h3>
+              <h3 className="mb-1 text-xs font-semibold uppercase tracking-wide text-fail">
+                Problems, record by record
+              </h3>
               <div className="max-h-80 overflow-auto">
                 <table className="table-dense" aria-label="Problems">
                   <thead>
@@ -120,7 +142,11 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
                   </tbody>
                 </table>
               </div>
-              {p.issuesTotal > p.issuesShown ? <p className="mt-1 text-xs text-ink-muted">First {p.issuesShown} of {p.issuesTotal} problems shown; the report lists them all.</p> : null}
+              {p.issuesTotal > p.issuesShown ? (
+                <p className="mt-1 text-xs text-ink-muted">
+                  First {p.issuesShown} of {p.issuesTotal} problems shown; the report lists them all.
+                </p>
+              ) : null}
             </>
           ) : (
             <p className="text-sm text-pass">No problems found.</p>
@@ -128,7 +154,9 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
 
           {p.warnings.length > 0 ? (
             <details className="mt-3">
-              <summary className="cursor-pointer text-xs text-warn">{p.warningsTotal} note(s) that do not block registration</summary>
+              <summary className="cursor-pointer text-xs text-warn">
+                {p.warningsTotal} note(s) that do not block registration
+              </summary>
               <ul className="mt-1 text-xs text-ink-soft">
                 {p.warnings.map((wn, k) => (
                   <li key={k}>
@@ -141,7 +169,9 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
 
           {p.sample.length > 0 ? (
             <details className="mt-3" open={p.issues.length === 0}>
-              <summary className="cursor-pointer text-xs text-ink-soft">First {p.sample.length} records that can be registered</summary>
+              <summary className="cursor-pointer text-xs text-ink-soft">
+                First {p.sample.length} records that can be registered
+              </summary>
               <table className="table-dense mt-1">
                 <thead>
                   <tr>
@@ -177,16 +207,35 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
           <fieldset className="flex flex-col gap-2 text-sm">
             <legend className="sr-only">Mode</legend>
             <label className="flex items-start gap-2">
-              <input type="radio" name="mode" value="all_or_nothing" checked={mode === "all_or_nothing"} onChange={() => setMode("all_or_nothing")} className="mt-1" />
+              <input
+                type="radio"
+                name="mode"
+                value="all_or_nothing"
+                checked={mode === "all_or_nothing"}
+                onChange={() => setMode("all_or_nothing")}
+                className="mt-1"
+              />
               <span>
                 <b>All or nothing</b>: register every record, or none if any record has a problem.
-                {p.invalid > 0 ? <span className="block text-xs text-fail">With {p.invalid} record(s) with problems, this registers nothing.</span> : null}
+                {p.invalid > 0 ? (
+                  <span className="block text-xs text-fail">
+                    With {p.invalid} record(s) with problems, this registers nothing.
+                  </span>
+                ) : null}
               </span>
             </label>
             <label className="flex items-start gap-2">
-              <input type="radio" name="mode" value="valid_only" checked={mode === "valid_only"} onChange={() => setMode("valid_only")} className="mt-1" />
+              <input
+                type="radio"
+                name="mode"
+                value="valid_only"
+                checked={mode === "valid_only"}
+                onChange={() => setMode("valid_only")}
+                className="mt-1"
+              />
               <span>
-                <b>Valid records only</b>: register the {p.valid.toLocaleString("en")} record(s) without problems; the report lists the {p.invalid} that were not.
+                <b>Valid records only</b>: register the {p.valid.toLocaleString("en")} record(s) without problems; the
+                report lists the {p.invalid} that were not.
               </span>
             </label>
           </fieldset>
@@ -215,10 +264,17 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
               <>
                 {" "}
                 (<Link href={`/compounds/${job.result.firstRegistryId}`}>{job.result.firstRegistryId}</Link>
-                {job.result.lastRegistryId && job.result.lastRegistryId !== job.result.firstRegistryId ? <> … <Link href={`/compounds/${job.result.lastRegistryId}`}>{job.result.lastRegistryId}</Link></> : null})
+                {job.result.lastRegistryId && job.result.lastRegistryId !== job.result.firstRegistryId ? (
+                  <>
+                    {" "}
+                    … <Link href={`/compounds/${job.result.lastRegistryId}`}>{job.result.lastRegistryId}</Link>
+                  </>
+                ) : null}
+                )
               </>
             ) : null}
-            ; <b className="num">{job.result.notRegistered.toLocaleString("en")}</b> problem(s) not registered. Mode: {job.result.mode === "valid_only" ? "valid records only" : "all or nothing"}.
+            ; <b className="num">{job.result.notRegistered.toLocaleString("en")}</b> problem(s) not registered. Mode:{" "}
+            {job.result.mode === "valid_only" ? "valid records only" : "all or nothing"}.
           </p>
           <div>
             <a className="btn-primary no-underline" href={`${importJobUrl(id)}/report`}>

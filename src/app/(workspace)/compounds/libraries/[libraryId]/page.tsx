@@ -28,7 +28,8 @@ export default async function LibraryPage({ params }: { params: Promise<{ librar
       <h1 className="mb-1">{lib.name}</h1>
       {lib.description ? <p className="mb-3 text-sm text-ink-muted">{lib.description}</p> : null}
       <p className="mb-3 text-sm">
-        {lib.members.length.toLocaleString("en")} compound(s). <Link href={`/compounds?library=${lib.id}`}>Search within this library</Link>
+        {lib.members.length.toLocaleString("en")} compound(s).{" "}
+        <Link href={`/compounds?library=${lib.id}`}>Search within this library</Link>
       </p>
       <div className={`grid grid-cols-1 gap-4 ${writer ? "lg:grid-cols-[1fr_320px]" : ""}`}>
         <section className="card p-3">

@@ -25,7 +25,14 @@ export const GET = route<{ campaignId: string }>(async (_req, { campaignId }) =>
       runs: e.runs,
       acceptedRuns: e.acceptedRuns,
       settings: e.experiment.settings,
-      latestAnalysis: e.latest ? { id: e.latest.id, status: e.latest.status, progress: e.latest.progress, requestedAt: e.latest.requestedAt.toISOString() } : null,
+      latestAnalysis: e.latest
+        ? {
+            id: e.latest.id,
+            status: e.latest.status,
+            progress: e.latest.progress,
+            requestedAt: e.latest.requestedAt.toISOString(),
+          }
+        : null,
       currentAnalysisId: e.current?.id ?? null,
     })),
   });

@@ -21,12 +21,18 @@ export const GET = route<{ campaignId: string }>(async (_req, { campaignId }) =>
 export const POST = route<{ campaignId: string }>(async (req, { campaignId }) => {
   const { user } = await requireCampaign(campaignId, "plate:write");
   const form = await readMultipart(req, createPlateMapForm, MAP_CSV_LIMIT);
-  if (form.file.size > MAP_CSV_LIMIT) throw new AppError("too_large", `${form.file.name}: a plate map CSV has at most 2 MB.`);
+  if (form.file.size > MAP_CSV_LIMIT)
+    throw new AppError("too_large", `${form.file.name}: a plate map CSV has at most 2 MB.`);
   const parsed = parsePlateMapCsv(new Uint8Array(await form.file.arrayBuffer()), form.format, form.file.name);
   if (!parsed.ok) {
     const more = parsed.issues.length > 1 ? ` (and ${parsed.issues.length - 1} more)` : "";
     throw new AppError("bad_request", `${parsed.issues[0]!.text}${more}`, { details: issueDetails(parsed.issues) });
   }
-  const { id } = await createPlateMap(user, campaignId, { name: form.name, map: parsed.map, isTemplate: form.template, signalDirection: form.signalDirection });
+  const { id } = await createPlateMap(user, campaignId, {
+    name: form.name,
+    map: parsed.map,
+    isTemplate: form.template,
+    signalDirection: form.signalDirection,
+  });
   return json({ id }, 201);
 });

@@ -36,6 +36,12 @@ export const POST = route<{ campaignId: string }>(async (req, { campaignId }) =>
   const { user, campaign } = await requireCampaign(campaignId, "plate:write");
   const form = await readMultipart(req, uploadRunForm, UPLOAD_LIMIT_BYTES);
   const bytes = new Uint8Array(await form.file.arrayBuffer());
-  const run = await uploadRun(user, campaign, { plateMapId: form.plateMapId, fileName: form.file.name, contentType: form.file.type, bytes, barcode: form.barcode ?? null });
+  const run = await uploadRun(user, campaign, {
+    plateMapId: form.plateMapId,
+    fileName: form.file.name,
+    contentType: form.file.type,
+    bytes,
+    barcode: form.barcode ?? null,
+  });
   return json(run, 201);
 });

@@ -10,8 +10,16 @@ export const GET = route<{ importId: string }>(async (_req, params) => {
   await requireUser();
   const { importId } = importIdParam.parse(params);
   const job = await getImport(importId);
-  const base = job.fileName.replace(/\.[^.]+$/, "").replace(/[^A-Za-z0-9._-]+/g, "_").slice(0, 80) || "import";
+  const base =
+    job.fileName
+      .replace(/\.[^.]+$/, "")
+      .replace(/[^A-Za-z0-9._-]+/g, "_")
+      .slice(0, 80) || "import";
   return new Response(importReportCsv(job), {
-    headers: { "content-type": "text/csv; charset=utf-8", "content-disposition": `attachment; filename="${base}-report.csv"`, "cache-control": "no-store" },
+    headers: {
+      "content-type": "text/csv; charset=utf-8",
+      "content-disposition": `attachment; filename="${base}-report.csv"`,
+      "cache-control": "no-store",
+    },
   });
 });

@@ -17,7 +17,11 @@ export const metadata = { title: "Experiment" };
 
 const pct = (x: number | null) => (x === null ? "—" : `${x.toFixed(1)} %`);
 
-export default async function ExperimentPage({ params }: { params: Promise<{ campaignId: string; experimentId: string }> }) {
+export default async function ExperimentPage({
+  params,
+}: {
+  params: Promise<{ campaignId: string; experimentId: string }>;
+}) {
   const { campaignId, experimentId } = await params;
   const { user, role, campaign } = await pageCampaign(campaignId);
   const experiment = await getExperiment(campaignId, experimentId).catch((e) => {
@@ -27,7 +31,12 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
   const [rows, runs, history, pending] = await Promise.all([
     experimentResults(experimentId),
     experimentRunList(experimentId),
-    db.select().from(analyses).where(eq(analyses.experimentId, experimentId)).orderBy(desc(analyses.requestedAt)).limit(10),
+    db
+      .select()
+      .from(analyses)
+      .where(eq(analyses.experimentId, experimentId))
+      .orderBy(desc(analyses.requestedAt))
+      .limit(10),
     currentInputs(campaign, experiment),
   ]);
   const current = history.find((a) => a.isCurrent) ?? null;
@@ -47,11 +56,18 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
         campaignId={campaignId}
         experimentId={experimentId}
         mayRun={can(user.globalRole, role, "analysis:run")}
-        latest={latest ? { id: latest.id, status: latest.status, progress: latest.progress, error: latest.error } : null}
+        latest={
+          latest ? { id: latest.id, status: latest.status, progress: latest.progress, error: latest.error } : null
+        }
         upToDate={upToDate}
       />
       <section>
-        <h3 className="mb-2">Results {current ? `· ${rows.length} compounds · analysis of ${current.finishedAt?.toISOString().slice(0, 16).replace("T", " ")} UTC` : ""}</h3>
+        <h3 className="mb-2">
+          Results{" "}
+          {current
+            ? `· ${rows.length} compounds · analysis of ${current.finishedAt?.toISOString().slice(0, 16).replace("T", " ")} UTC`
+            : ""}
+        </h3>
         {rows.length === 0 ? (
           <p className="text-sm text-ink-muted">No results yet: run the analysis.</p>
         ) : experiment.kind === "single-dose" ? (
@@ -73,7 +89,13 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                   <td className="num text-right">{pct(r.pctInhibition)}</td>
                   <td className="num text-right">{r.pctInhibitionSd === null ? "—" : r.pctInhibitionSd.toFixed(1)}</td>
                   <td className="num text-right">{r.nPoints}</td>
-                  <td>{r.hit ? <span className="chip bg-accent-soft text-accent-strong">hit</span> : <span className="text-ink-faint">no</span>}</td>
+                  <td>
+                    {r.hit ? (
+                      <span className="chip bg-accent-soft text-accent-strong">hit</span>
+                    ) : (
+                      <span className="text-ink-faint">no</span>
+                    )}
+                  </td>
                   <td>
                     <Flags flags={r.flags} />
                   </td>
@@ -148,7 +170,10 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                       </span>
                     ) : (
                       <>
-                        {r.mechanism ?? "—"} {r.mechanismLabel === "ambiguous" ? <span className="chip bg-warn-soft text-warn">ambiguous</span> : null}
+                        {r.mechanism ?? "—"}{" "}
+                        {r.mechanismLabel === "ambiguous" ? (
+                          <span className="chip bg-warn-soft text-warn">ambiguous</span>
+                        ) : null}
                       </>
                     )}
                   </td>
@@ -185,7 +210,9 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                   <td>
                     <Link href={`/campaigns/${campaignId}/plates/runs/${r.id}`}>{r.fileName}</Link>
                   </td>
-                  <td className={r.decision === "accepted" ? "" : "text-ink-muted"}>{r.decision === "accepted" ? "accepted" : `${r.decision} (not used)`}</td>
+                  <td className={r.decision === "accepted" ? "" : "text-ink-muted"}>
+                    {r.decision === "accepted" ? "accepted" : `${r.decision} (not used)`}
+                  </td>
                   <td className="num text-right">{r.zPrime === null ? "—" : r.zPrime.toFixed(2)}</td>
                   <td className="font-mono text-2xs text-ink-muted" title={r.sha256}>
                     {r.sha256.slice(0, 12)}…
@@ -213,7 +240,8 @@ export default async function ExperimentPage({ params }: { params: Promise<{ cam
                 <tr key={a.id}>
                   <td className="num">{a.requestedAt.toISOString().slice(0, 16).replace("T", " ")}</td>
                   <td>
-                    <AnalysisStatusChip status={a.status} progress={a.progress} /> {a.isCurrent ? <span className="chip bg-accent-soft text-accent-strong">current</span> : null}
+                    <AnalysisStatusChip status={a.status} progress={a.progress} />{" "}
+                    {a.isCurrent ? <span className="chip bg-accent-soft text-accent-strong">current</span> : null}
                   </td>
                   <td className="text-2xs">{a.engineVersion}</td>
                   <td className="num text-right">{a.inputs.runs.length}</td>

@@ -1,6 +1,16 @@
-export const kindLabel = { "single-dose": "Single-dose screen", "dose-response": "Dose-response", mechanism: "Mechanism study" } as const;
+export const kindLabel = {
+  "single-dose": "Single-dose screen",
+  "dose-response": "Dose-response",
+  mechanism: "Mechanism study",
+} as const;
 
-export function AnalysisStatusChip({ status, progress }: { status: "queued" | "running" | "done" | "failed"; progress: number }) {
+export function AnalysisStatusChip({
+  status,
+  progress,
+}: {
+  status: "queued" | "running" | "done" | "failed";
+  progress: number;
+}) {
   if (status === "done") return <span className="chip bg-pass-soft text-pass">done</span>;
   if (status === "failed") return <span className="chip bg-fail-soft text-fail">failed</span>;
   if (status === "queued") return <span className="chip bg-paper-sunk text-ink-muted">queued</span>;

@@ -6,12 +6,24 @@ import { FieldError, FormMessage } from "@/components/forms/form-bits";
 type Run = { id: string; label: string; map: string; readout: string; decision: string; zPrime: number | null };
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 
-export function NewExperimentForm({ action, campaignId, runs, defaultThresholdPct }: { action: Action; campaignId: string; runs: Run[]; defaultThresholdPct: number }) {
+export function NewExperimentForm({
+  action,
+  campaignId,
+  runs,
+  defaultThresholdPct,
+}: {
+  action: Action;
+  campaignId: string;
+  runs: Run[];
+  defaultThresholdPct: number;
+}) {
   const [state, formAction, pending] = useActionState(action, null);
   const [kind, setKind] = useState<"single-dose" | "dose-response" | "mechanism">("single-dose");
   const [rule, setRule] = useState("threshold");
   const [filter, setFilter] = useState("");
-  const shown = runs.filter((r) => (filter ? `${r.label} ${r.map}`.toLowerCase().includes(filter.toLowerCase()) : true));
+  const shown = runs.filter((r) =>
+    filter ? `${r.label} ${r.map}`.toLowerCase().includes(filter.toLowerCase()) : true,
+  );
   return (
     <form action={formAction} className="card flex flex-col gap-3 p-4" noValidate>
       <FormMessage state={state} />
@@ -82,7 +94,12 @@ export function NewExperimentForm({ action, campaignId, runs, defaultThresholdPc
       <div>
         <div className="mb-1 flex items-end justify-between">
           <span className="field-label">Plate runs ({runs.length})</span>
-          <input className="input w-56 py-1 text-xs" placeholder="Filter runs" value={filter} onChange={(e) => setFilter(e.target.value)} />
+          <input
+            className="input w-56 py-1 text-xs"
+            placeholder="Filter runs"
+            value={filter}
+            onChange={(e) => setFilter(e.target.value)}
+          />
         </div>
         <FieldError state={state} name="runIds" />
         <div className="max-h-64 overflow-auto rounded border border-rule">
@@ -101,13 +118,25 @@ export function NewExperimentForm({ action, campaignId, runs, defaultThresholdPc
               {shown.map((r) => (
                 <tr key={r.id} className={r.decision === "accepted" ? "" : "text-ink-muted"}>
                   <td>
-                    <input type="checkbox" name="runIds" value={r.id} defaultChecked={false} aria-label={`Include ${r.label}`} />
+                    <input
+                      type="checkbox"
+                      name="runIds"
+                      value={r.id}
+                      defaultChecked={false}
+                      aria-label={`Include ${r.label}`}
+                    />
                   </td>
                   <td>{r.label}</td>
                   <td>{r.map}</td>
                   <td>{r.readout}</td>
                   <td className="num text-right">{r.zPrime === null ? "—" : r.zPrime.toFixed(2)}</td>
-                  <td>{r.decision === "accepted" ? "accepted" : r.decision === "rejected" ? "rejected (not used)" : "awaiting review (not used until accepted)"}</td>
+                  <td>
+                    {r.decision === "accepted"
+                      ? "accepted"
+                      : r.decision === "rejected"
+                        ? "rejected (not used)"
+                        : "awaiting review (not used until accepted)"}
+                  </td>
                 </tr>
               ))}
             </tbody>

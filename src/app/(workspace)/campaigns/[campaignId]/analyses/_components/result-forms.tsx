@@ -5,7 +5,19 @@ import { FieldError, FormMessage } from "@/components/forms/form-bits";
 
 type Action = (prev: ActionState, form: FormData) => Promise<ActionState>;
 
-export function OverrideForm({ action, campaignId, experimentId, compoundId, current }: { action: Action; campaignId: string; experimentId: string; compoundId: string; current: string }) {
+export function OverrideForm({
+  action,
+  campaignId,
+  experimentId,
+  compoundId,
+  current,
+}: {
+  action: Action;
+  campaignId: string;
+  experimentId: string;
+  compoundId: string;
+  current: string;
+}) {
   const [state, formAction, pending] = useActionState(action, null);
   return (
     <form action={formAction} className="card flex flex-wrap items-end gap-3 p-3" noValidate>
@@ -84,8 +96,9 @@ export function PlannerForm({
         Create the plate map
       </button>
       <p className="w-full text-xs text-ink-muted">
-        Substrate at 8 concentrations over 0.2–10 × Km; inhibitor 0 and 0.3–10 × the expected Ki (IC50/(1 + [S]/Km)); duplicates; neutral and full-inhibition controls
-        in columns 1–2. The map opens in the editor for changes. Handle compounds and solvents according to their safety data sheets.
+        Substrate at 8 concentrations over 0.2–10 × Km; inhibitor 0 and 0.3–10 × the expected Ki (IC50/(1 + [S]/Km));
+        duplicates; neutral and full-inhibition controls in columns 1–2. The map opens in the editor for changes. Handle
+        compounds and solvents according to their safety data sheets.
       </p>
       <div className="w-full">
         <FormMessage state={state} />

@@ -11,10 +11,18 @@ import { Flags, kindLabel } from "../../analyses/_components/labels";
 import { MechanismCell, StatusChip } from "./status";
 import { formatAlpha } from "@/lib/analysis/alpha";
 
-type Props = { campaignId: string; registryId: string; canTriage: boolean; canComment: boolean; onClose: () => void; onChanged: () => void };
+type Props = {
+  campaignId: string;
+  registryId: string;
+  canTriage: boolean;
+  canComment: boolean;
+  onClose: () => void;
+  onChanged: () => void;
+};
 
 const when = (iso: string) => new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
-const fixed = (v: number | null | undefined, d: number) => (v === null || v === undefined || !Number.isFinite(v) ? "—" : v.toFixed(d));
+const fixed = (v: number | null | undefined, d: number) =>
+  v === null || v === undefined || !Number.isFinite(v) ? "—" : v.toFixed(d);
 
 /** The compound panel: opens beside the grid (the grid stays where it was). */
 export function HitPanel({ campaignId, registryId, canTriage, canComment, onClose, onChanged }: Props) {
@@ -38,25 +46,58 @@ export function HitPanel({ campaignId, registryId, canTriage, canComment, onClos
           <p className="truncate text-xs text-ink-muted">{data?.compound?.name ?? ""}</p>
         </div>
         {data ? <StatusChip status={data.row.status} /> : null}
-        <button type="button" className="btn-quiet px-2 py-0.5 text-xs" onClick={onClose} aria-label="Close the compound panel">
+        <button
+          type="button"
+          className="btn-quiet px-2 py-0.5 text-xs"
+          onClick={onClose}
+          aria-label="Close the compound panel"
+        >
           Close
         </button>
       </header>
       <div className="flex-1 overflow-y-auto px-4 py-3">
         {error ? <p className="rounded bg-fail-soft px-2 py-1.5 text-sm text-fail">{error.message}</p> : null}
-        {!data ? <p className="text-sm text-ink-muted">Loading…</p> : <PanelBody campaignId={campaignId} d={data} canTriage={canTriage} canComment={canComment} onChanged={() => (void mutate(), onChanged())} />}
+        {!data ? (
+          <p className="text-sm text-ink-muted">Loading…</p>
+        ) : (
+          <PanelBody
+            campaignId={campaignId}
+            d={data}
+            canTriage={canTriage}
+            canComment={canComment}
+            onChanged={() => (void mutate(), onChanged())}
+          />
+        )}
       </div>
     </aside>
   );
 }
 
-function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campaignId: string; d: HitDetail; canTriage: boolean; canComment: boolean; onChanged: () => void }) {
+function PanelBody({
+  campaignId,
+  d,
+  canTriage,
+  canComment,
+  onChanged,
+}: {
+  campaignId: string;
+  d: HitDetail;
+  canTriage: boolean;
+  canComment: boolean;
+  onChanged: () => void;
+}) {
   const r = d.row;
   return (
     <div className="flex flex-col gap-5 text-sm">
       <section className="grid grid-cols-[200px_1fr] gap-3">
         {/* eslint-disable-next-line @next/next/no-img-element -- server-drawn SVG */}
-        <img src={hitStructureUrl(campaignId, r.registryId, "large")} alt={`Structure of ${r.registryId}`} width={200} height={150} className="rounded border border-rule bg-white" />
+        <img
+          src={hitStructureUrl(campaignId, r.registryId, "large")}
+          alt={`Structure of ${r.registryId}`}
+          width={200}
+          height={150}
+          className="rounded border border-rule bg-white"
+        />
         <table className="table-dense">
           <tbody>
             <Row label="Mechanism">
@@ -64,16 +105,25 @@ function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campai
             </Row>
             <Row label="Ki (95 % CI)">
               {formatConcentration(r.ki)}
-              {r.ki !== null ? <span className="text-ink-muted"> ({formatConcentrationRange(r.kiCi95[0], r.kiCi95[1])})</span> : null}
+              {r.ki !== null ? (
+                <span className="text-ink-muted"> ({formatConcentrationRange(r.kiCi95[0], r.kiCi95[1])})</span>
+              ) : null}
             </Row>
             <Row label="α = Kiu/Kic">{formatAlpha(r.alpha, r.mechanism)}</Row>
             <Row label="IC50 (95 % CI)">
               {r.ic50Qualifier ?? ""}
               {formatConcentration(r.ic50)}
-              {r.ic50 !== null && r.ic50Ci95[0] !== null ? <span className="text-ink-muted"> ({formatConcentration(r.ic50Ci95[0])} – {formatConcentration(r.ic50Ci95[1])})</span> : null}
+              {r.ic50 !== null && r.ic50Ci95[0] !== null ? (
+                <span className="text-ink-muted">
+                  {" "}
+                  ({formatConcentration(r.ic50Ci95[0])} – {formatConcentration(r.ic50Ci95[1])})
+                </span>
+              ) : null}
             </Row>
             <Row label="Hill slope">{fixed(r.hill, 2)}</Row>
-            <Row label="Single-dose inhibition">{r.pctInhibition === null ? "—" : `${r.pctInhibition.toFixed(1)} %${r.hit ? " (hit)" : ""}`}</Row>
+            <Row label="Single-dose inhibition">
+              {r.pctInhibition === null ? "—" : `${r.pctInhibition.toFixed(1)} %${r.hit ? " (hit)" : ""}`}
+            </Row>
             <Row label="pKi · LE · LipE">
               {r.pKi === null ? (
                 <span className="text-ink-muted">— (need a Ki from a mechanism study)</span>
@@ -96,10 +146,16 @@ function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campai
       ) : null}
       <section>
         <h3 className="mb-1">Flags</h3>
-        {r.flags.length || r.mechanismLabel === "ambiguous" ? <Flags flags={r.flags.length ? r.flags : ["ambiguous-mechanism"]} /> : <p className="text-xs text-pass">No flags on the current results.</p>}
+        {r.flags.length || r.mechanismLabel === "ambiguous" ? (
+          <Flags flags={r.flags.length ? r.flags : ["ambiguous-mechanism"]} />
+        ) : (
+          <p className="text-xs text-pass">No flags on the current results.</p>
+        )}
       </section>
 
-      {canTriage ? <TriageForm campaignId={campaignId} registryId={r.registryId} current={r.status} onDone={onChanged} /> : null}
+      {canTriage ? (
+        <TriageForm campaignId={campaignId} registryId={r.registryId} current={r.status} onDone={onChanged} />
+      ) : null}
 
       {d.results.map((res) => (
         <ResultSection key={res.experimentId} campaignId={campaignId} registryId={r.registryId} res={res} />
@@ -114,7 +170,10 @@ function PanelBody({ campaignId, d, canTriage, canComment, onChanged }: { campai
             {d.history.map((h) => (
               <li key={h.id} className="rounded border border-rule px-2 py-1">
                 <p className="text-xs">
-                  <StatusChip status={h.from} /> → <StatusChip status={h.to} /> <span className="text-ink-muted">by {h.by ?? "a removed user"} · {when(h.at)}</span>
+                  <StatusChip status={h.from} /> → <StatusChip status={h.to} />{" "}
+                  <span className="text-ink-muted">
+                    by {h.by ?? "a removed user"} · {when(h.at)}
+                  </span>
                 </p>
                 {h.comment ? <p className="mt-0.5 text-xs text-ink-soft">{h.comment}</p> : null}
               </li>
@@ -189,7 +248,15 @@ function Row({ label, children }: { label: string; children: React.ReactNode }) 
 
 type ModelSummary = MechanismModelView & { alpha: number | null };
 
-function ResultSection({ campaignId, registryId, res }: { campaignId: string; registryId: string; res: HitDetail["results"][number] }) {
+function ResultSection({
+  campaignId,
+  registryId,
+  res,
+}: {
+  campaignId: string;
+  registryId: string;
+  res: HitDetail["results"][number];
+}) {
   const href = `/campaigns/${campaignId}/analyses/${res.experimentId}/${registryId}`;
   const head = (
     <p className="mb-1 flex items-baseline gap-2">
@@ -207,13 +274,22 @@ function ResultSection({ campaignId, registryId, res }: { campaignId: string; re
       <section>
         {head}
         <div className="rounded border border-rule">
-          <DoseResponsePlot points={det.points.map((p) => [p[0], p[1]])} masked={[]} fit={det.fit ?? null} height={320} />
+          <DoseResponsePlot
+            points={det.points.map((p) => [p[0], p[1]])}
+            masked={[]}
+            fit={det.fit ?? null}
+            height={320}
+          />
         </div>
       </section>
     );
   }
   if (res.kind === "mechanism") {
-    const det = res.detail as { models?: Record<InhibitionModel, ModelSummary>; points?: [number, number, number][]; best?: InhibitionModel };
+    const det = res.detail as {
+      models?: Record<InhibitionModel, ModelSummary>;
+      points?: [number, number, number][];
+      best?: InhibitionModel;
+    };
     const chosen = ((res.override?.model as InhibitionModel | undefined) ?? det.best) as InhibitionModel | undefined;
     const fit = chosen ? det.models?.[chosen] : undefined;
     if (!det.points?.length || !chosen || !fit) return <section>{head}</section>;
@@ -235,7 +311,17 @@ function ResultSection({ campaignId, registryId, res }: { campaignId: string; re
   return <section>{head}</section>;
 }
 
-function TriageForm({ campaignId, registryId, current, onDone }: { campaignId: string; registryId: string; current: string; onDone: () => void }) {
+function TriageForm({
+  campaignId,
+  registryId,
+  current,
+  onDone,
+}: {
+  campaignId: string;
+  registryId: string;
+  current: string;
+  onDone: () => void;
+}) {
   const [status, setStatus] = useState(current === "unreviewed" ? "confirmed" : current);
   const [comment, setComment] = useState("");
   const [busy, setBusy] = useState(false);
@@ -258,14 +344,27 @@ function TriageForm({ campaignId, registryId, current, onDone }: { campaignId: s
     <form onSubmit={submit} className="card flex flex-col gap-2 p-3" aria-label="Triage decision">
       <h3>Triage decision</h3>
       <div className="flex gap-2">
-        <select className="input w-40" value={status} onChange={(e) => setStatus(e.target.value)} aria-label="New status" name="status">
+        <select
+          className="input w-40"
+          value={status}
+          onChange={(e) => setStatus(e.target.value)}
+          aria-label="New status"
+          name="status"
+        >
           {triageStatuses.map((s) => (
             <option key={s} value={s}>
               {triageLabels[s]}
             </option>
           ))}
         </select>
-        <input className="input flex-1" value={comment} onChange={(e) => setComment(e.target.value)} placeholder="why (kept in the history)" maxLength={2000} name="comment" />
+        <input
+          className="input flex-1"
+          value={comment}
+          onChange={(e) => setComment(e.target.value)}
+          placeholder="why (kept in the history)"
+          maxLength={2000}
+          name="comment"
+        />
         <button type="submit" className="btn-primary" disabled={busy || status === current}>
           Record
         </button>
@@ -275,12 +374,22 @@ function TriageForm({ campaignId, registryId, current, onDone }: { campaignId: s
           {msg.text}
         </p>
       ) : null}
-      <p className="text-2xs text-ink-muted">A decision is for research triage: review the fits and flags above first.</p>
+      <p className="text-2xs text-ink-muted">
+        A decision is for research triage: review the fits and flags above first.
+      </p>
     </form>
   );
 }
 
-function CommentForm({ campaignId, registryId, onDone }: { campaignId: string; registryId: string; onDone: () => void }) {
+function CommentForm({
+  campaignId,
+  registryId,
+  onDone,
+}: {
+  campaignId: string;
+  registryId: string;
+  onDone: () => void;
+}) {
   const [body, setBody] = useState("");
   const [err, setErr] = useState<string | null>(null);
   async function submit(e: React.FormEvent) {
@@ -296,7 +405,14 @@ function CommentForm({ campaignId, registryId, onDone }: { campaignId: string; r
   }
   return (
     <form onSubmit={submit} className="flex flex-col gap-1">
-      <textarea className="input h-16" value={body} onChange={(e) => setBody(e.target.value)} placeholder="Add a comment for the team" maxLength={4000} aria-label="Comment" />
+      <textarea
+        className="input h-16"
+        value={body}
+        onChange={(e) => setBody(e.target.value)}
+        placeholder="Add a comment for the team"
+        maxLength={4000}
+        aria-label="Comment"
+      />
       <div className="flex items-center gap-2">
         <button type="submit" className="btn-quiet py-0.5 text-xs" disabled={!body.trim()}>
           Add comment

@@ -20,8 +20,16 @@ export function MechanismCell({ mechanism, label }: { mechanism: string | null; 
   return (
     <span className="flex flex-wrap items-center gap-1">
       <span>{mechanism}</span>
-      {label === "ambiguous" ? <span className="chip bg-warn-soft text-warn" title="Another model lies within ΔAICc 2">ambiguous</span> : null}
-      {label === "override" ? <span className="chip bg-info-soft text-info" title="Model chosen by a person, with a reason (audited)">override</span> : null}
+      {label === "ambiguous" ? (
+        <span className="chip bg-warn-soft text-warn" title="Another model lies within ΔAICc 2">
+          ambiguous
+        </span>
+      ) : null}
+      {label === "override" ? (
+        <span className="chip bg-info-soft text-info" title="Model chosen by a person, with a reason (audited)">
+          override
+        </span>
+      ) : null}
     </span>
   );
 }

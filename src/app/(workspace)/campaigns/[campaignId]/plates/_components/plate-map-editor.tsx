@@ -2,7 +2,18 @@
 import { memo, useActionState, useEffect, useMemo, useRef, useState } from "react";
 import { useRouter } from "next/navigation";
 // Direct module imports keep the reader-export and simulator code (and exceljs) out of the browser bundle.
-import { countRoles, emptyPlateMap, parsePlateMapCsv, plateMapFromWells, plateMapToCsv, validatePlateMap, WELL_ROLES, type PlateMap, type PlateMapWell, type WellRole } from "@/lib/plates/plate-map";
+import {
+  countRoles,
+  emptyPlateMap,
+  parsePlateMapCsv,
+  plateMapFromWells,
+  plateMapToCsv,
+  validatePlateMap,
+  WELL_ROLES,
+  type PlateMap,
+  type PlateMapWell,
+  type WellRole,
+} from "@/lib/plates/plate-map";
 import { assignWells, fillDilutionSeries, type WellPatch } from "@/lib/plates/editor";
 import { plateDimensions, rowLabel, wellName, type PlateFormat } from "@/lib/plates/geometry";
 import { FormMessage } from "@/components/forms/form-bits";
@@ -10,7 +21,13 @@ import { savePlateMapAction } from "../actions";
 
 export type TemplateOption = { id: string; name: string; format: number; wells: PlateMapWell[] };
 
-const roleLabel: Record<WellRole, string> = { sample: "sample", neutral: "neutral control (0 %)", full: "full-inhibition control (100 %)", blank: "blank", empty: "empty" };
+const roleLabel: Record<WellRole, string> = {
+  sample: "sample",
+  neutral: "neutral control (0 %)",
+  full: "full-inhibition control (100 %)",
+  blank: "blank",
+  empty: "empty",
+};
 const roleClass: Record<WellRole, string> = {
   sample: "",
   neutral: "bg-info",
@@ -29,7 +46,13 @@ function sampleStyle(conc: number | undefined, logMin: number, logMax: number): 
 type Props = {
   campaignId: string;
   mapId?: string;
-  initial: { name: string; format: PlateFormat; wells: PlateMapWell[]; isTemplate: boolean; signalDirection: "falls" | "rises" };
+  initial: {
+    name: string;
+    format: PlateFormat;
+    wells: PlateMapWell[];
+    isTemplate: boolean;
+    signalDirection: "falls" | "rises";
+  };
   templates: TemplateOption[];
   canWrite: boolean;
   locked: boolean;
@@ -53,7 +76,8 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
   const readOnly = !canWrite;
 
   useEffect(() => {
-    if (state?.ok && state.data && typeof state.data === "object" && "id" in state.data && !mapId) router.push(`/campaigns/${campaignId}/plates/maps/${String(state.data.id)}`);
+    if (state?.ok && state.data && typeof state.data === "object" && "id" in state.data && !mapId)
+      router.push(`/campaigns/${campaignId}/plates/maps/${String(state.data.id)}`);
   }, [state, mapId, router, campaignId]);
 
   const change = (next: PlateMap) => {
@@ -97,8 +121,20 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
   const selectIdx = (idx: number[], add: boolean) => setSel((s) => (add ? new Set([...s, ...idx]) : new Set(idx)));
 
   // ---- editing steps (pure functions of the plate library)
-  const [patch, setPatch] = useState({ role: "sample" as WellRole, compound: "", concentrationUm: "", substrateUm: "", group: "" });
-  const [series, setSeries] = useState({ compound: "", top: "100", factor: "3", along: "row" as "row" | "column", from: "from" as "from" | "to" });
+  const [patch, setPatch] = useState({
+    role: "sample" as WellRole,
+    compound: "",
+    concentrationUm: "",
+    substrateUm: "",
+    group: "",
+  });
+  const [series, setSeries] = useState({
+    compound: "",
+    top: "100",
+    factor: "3",
+    along: "row" as "row" | "column",
+    from: "from" as "from" | "to",
+  });
   const [message, setMessage] = useState<string | null>(null);
   const num = (s: string) => (s.trim() === "" ? undefined : Number(s));
 
@@ -172,7 +208,9 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
     }
   }
 
-  const concs = listed.filter((w) => w.role === "sample" && w.concentrationUm && w.concentrationUm > 0).map((w) => Math.log10(w.concentrationUm!));
+  const concs = listed
+    .filter((w) => w.role === "sample" && w.concentrationUm && w.concentrationUm > 0)
+    .map((w) => Math.log10(w.concentrationUm!));
   const logMin = concs.length ? Math.min(...concs) : 0;
   const logMax = concs.length ? Math.max(...concs) : 0;
   const cellText = dims.columns <= 12;
@@ -206,14 +244,28 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
             </span>
           )}
           <span className="text-ink-muted">{sel.size} selected</span>
-          <button type="button" className="btn-quiet py-0.5" onClick={() => selectIdx(map.wells.map((_, i) => i), false)}>
+          <button
+            type="button"
+            className="btn-quiet py-0.5"
+            onClick={() =>
+              selectIdx(
+                map.wells.map((_, i) => i),
+                false,
+              )
+            }
+          >
             Select all
           </button>
           <button type="button" className="btn-quiet py-0.5" onClick={() => setSel(new Set())}>
             Clear selection
           </button>
           {!readOnly ? (
-            <button type="button" className="btn-quiet py-0.5" disabled={history.length === 0} onClick={() => (setMap(history[history.length - 1]!), setHistory((h) => h.slice(0, -1)))}>
+            <button
+              type="button"
+              className="btn-quiet py-0.5"
+              disabled={history.length === 0}
+              onClick={() => (setMap(history[history.length - 1]!), setHistory((h) => h.slice(0, -1)))}
+            >
               Undo
             </button>
           ) : null}
@@ -221,7 +273,12 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
         <div
           ref={gridRef}
           className="relative select-none rounded border border-rule bg-paper-sunk p-1"
-          style={{ maxWidth: dims.columns === 12 ? "34rem" : dims.columns === 24 ? "52rem" : undefined, display: "grid", gridTemplateColumns: `1.6rem repeat(${dims.columns}, minmax(0, 1fr))`, gap: dims.columns > 24 ? 1 : 2 }}
+          style={{
+            maxWidth: dims.columns === 12 ? "34rem" : dims.columns === 24 ? "52rem" : undefined,
+            display: "grid",
+            gridTemplateColumns: `1.6rem repeat(${dims.columns}, minmax(0, 1fr))`,
+            gap: dims.columns > 24 ? 1 : 2,
+          }}
           onPointerDown={(e) => {
             const i = cellAt(e.target);
             if (i === null) return;
@@ -245,7 +302,17 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
           }}
           data-testid="plate-map-grid"
         >
-          <button type="button" className="text-[9px] text-ink-faint hover:text-accent" onClick={() => selectIdx(map.wells.map((_, i) => i), false)} title="Select all wells">
+          <button
+            type="button"
+            className="text-[9px] text-ink-faint hover:text-accent"
+            onClick={() =>
+              selectIdx(
+                map.wells.map((_, i) => i),
+                false,
+              )
+            }
+            title="Select all wells"
+          >
             all
           </button>
           {Array.from({ length: dims.columns }, (_, c) => (
@@ -253,30 +320,67 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
               type="button"
               key={`c${c}`}
               className="num text-center text-[9px] leading-4 text-ink-muted hover:text-accent"
-              onClick={(e) => selectIdx(Array.from({ length: dims.rows }, (_, r) => r * dims.columns + c), e.shiftKey)}
+              onClick={(e) =>
+                selectIdx(
+                  Array.from({ length: dims.rows }, (_, r) => r * dims.columns + c),
+                  e.shiftKey,
+                )
+              }
             >
               {c + 1}
             </button>
           ))}
-          <Cells map={map} sel={sel} columns={dims.columns} rows={dims.rows} logMin={logMin} logMax={logMax} cellText={cellText} onRow={(r, add) => selectIdx(Array.from({ length: dims.columns }, (_, c) => r * dims.columns + c), add)} />
-          {overlay ? <div className="pointer-events-none absolute rounded-sm border-2 border-accent bg-accent/10" style={overlay} /> : null}
+          <Cells
+            map={map}
+            sel={sel}
+            columns={dims.columns}
+            rows={dims.rows}
+            logMin={logMin}
+            logMax={logMax}
+            cellText={cellText}
+            onRow={(r, add) =>
+              selectIdx(
+                Array.from({ length: dims.columns }, (_, c) => r * dims.columns + c),
+                add,
+              )
+            }
+          />
+          {overlay ? (
+            <div
+              className="pointer-events-none absolute rounded-sm border-2 border-accent bg-accent/10"
+              style={overlay}
+            />
+          ) : null}
         </div>
         <div className="flex flex-wrap gap-3 text-2xs text-ink-soft">
           {WELL_ROLES.map((r) => (
             <span key={r} className="inline-flex items-center gap-1">
-              <span className={`inline-block h-3 w-3 rounded-sm border border-rule-strong ${roleClass[r]}`} style={r === "sample" ? { background: "hsl(174 55% 45%)" } : undefined} />
+              <span
+                className={`inline-block h-3 w-3 rounded-sm border border-rule-strong ${roleClass[r]}`}
+                style={r === "sample" ? { background: "hsl(174 55% 45%)" } : undefined}
+              />
               {roleLabel[r]}: <span className="num">{counts[r]}</span>
             </span>
           ))}
-          <span className="text-ink-faint">Sample shade: darker = higher inhibitor concentration (log scale){cellText ? "; numbers in wells: inhibitor concentration in µM" : ""}.</span>
+          <span className="text-ink-faint">
+            Sample shade: darker = higher inhibitor concentration (log scale)
+            {cellText ? "; numbers in wells: inhibitor concentration in µM" : ""}.
+          </span>
         </div>
         {issues.length > 0 ? (
           <div className="rounded border border-warn/40 bg-warn-soft px-2 py-1 text-xs text-ink-soft">
-            <b className="text-warn">Not ready to save:</b> {issues.slice(0, 6).map((i) => i.text).join("; ")}
+            <b className="text-warn">Not ready to save:</b>{" "}
+            {issues
+              .slice(0, 6)
+              .map((i) => i.text)
+              .join("; ")}
             {issues.length > 6 ? ` … and ${issues.length - 6} more` : ""}
           </div>
         ) : (
-          <p className="text-xs text-pass">The plate map is complete: every sample has a compound and a concentration, and there are at least 4 wells of each control.</p>
+          <p className="text-xs text-pass">
+            The plate map is complete: every sample has a compound and a concentration, and there are at least 4 wells
+            of each control.
+          </p>
         )}
       </div>
 
@@ -288,7 +392,12 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
               <div className="grid grid-cols-2 gap-2">
                 <label className="col-span-2 text-xs">
                   <span className="field-label">Role</span>
-                  <select className="input" value={patch.role} onChange={(e) => setPatch({ ...patch, role: e.target.value as WellRole })} aria-label="Role">
+                  <select
+                    className="input"
+                    value={patch.role}
+                    onChange={(e) => setPatch({ ...patch, role: e.target.value as WellRole })}
+                    aria-label="Role"
+                  >
                     {WELL_ROLES.map((r) => (
                       <option key={r} value={r}>
                         {roleLabel[r]}
@@ -298,19 +407,38 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
                 </label>
                 <label className="col-span-2 text-xs">
                   <span className="field-label">Compound (registry ID)</span>
-                  <input className="input font-mono" placeholder="INH-000123" value={patch.compound} onChange={(e) => setPatch({ ...patch, compound: e.target.value })} />
+                  <input
+                    className="input font-mono"
+                    placeholder="INH-000123"
+                    value={patch.compound}
+                    onChange={(e) => setPatch({ ...patch, compound: e.target.value })}
+                  />
                 </label>
                 <label className="text-xs">
                   <span className="field-label">Inhibitor (µM)</span>
-                  <input className="input num" inputMode="decimal" value={patch.concentrationUm} onChange={(e) => setPatch({ ...patch, concentrationUm: e.target.value })} />
+                  <input
+                    className="input num"
+                    inputMode="decimal"
+                    value={patch.concentrationUm}
+                    onChange={(e) => setPatch({ ...patch, concentrationUm: e.target.value })}
+                  />
                 </label>
                 <label className="text-xs">
                   <span className="field-label">Substrate (µM)</span>
-                  <input className="input num" inputMode="decimal" value={patch.substrateUm} onChange={(e) => setPatch({ ...patch, substrateUm: e.target.value })} />
+                  <input
+                    className="input num"
+                    inputMode="decimal"
+                    value={patch.substrateUm}
+                    onChange={(e) => setPatch({ ...patch, substrateUm: e.target.value })}
+                  />
                 </label>
                 <label className="col-span-2 text-xs">
                   <span className="field-label">Replicate group (optional)</span>
-                  <input className="input" value={patch.group} onChange={(e) => setPatch({ ...patch, group: e.target.value })} />
+                  <input
+                    className="input"
+                    value={patch.group}
+                    onChange={(e) => setPatch({ ...patch, group: e.target.value })}
+                  />
                 </label>
               </div>
               <button type="button" className="btn-primary mt-2" onClick={applyAssign}>
@@ -322,15 +450,29 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
               <div className="grid grid-cols-2 gap-2 text-xs">
                 <label className="col-span-2">
                   <span className="field-label">Compound (registry ID)</span>
-                  <input className="input font-mono" placeholder="INH-000123" value={series.compound} onChange={(e) => setSeries({ ...series, compound: e.target.value })} />
+                  <input
+                    className="input font-mono"
+                    placeholder="INH-000123"
+                    value={series.compound}
+                    onChange={(e) => setSeries({ ...series, compound: e.target.value })}
+                  />
                 </label>
                 <label>
                   <span className="field-label">Top concentration (µM)</span>
-                  <input className="input num" inputMode="decimal" value={series.top} onChange={(e) => setSeries({ ...series, top: e.target.value })} />
+                  <input
+                    className="input num"
+                    inputMode="decimal"
+                    value={series.top}
+                    onChange={(e) => setSeries({ ...series, top: e.target.value })}
+                  />
                 </label>
                 <label>
                   <span className="field-label">Dilution</span>
-                  <select className="input" value={series.factor} onChange={(e) => setSeries({ ...series, factor: e.target.value })}>
+                  <select
+                    className="input"
+                    value={series.factor}
+                    onChange={(e) => setSeries({ ...series, factor: e.target.value })}
+                  >
                     <option value="2">1:2</option>
                     <option value="3">1:3</option>
                     <option value="10">1:10</option>
@@ -338,14 +480,22 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
                 </label>
                 <label>
                   <span className="field-label">Along each</span>
-                  <select className="input" value={series.along} onChange={(e) => setSeries({ ...series, along: e.target.value as "row" | "column" })}>
+                  <select
+                    className="input"
+                    value={series.along}
+                    onChange={(e) => setSeries({ ...series, along: e.target.value as "row" | "column" })}
+                  >
                     <option value="row">row (left → right)</option>
                     <option value="column">column (top → bottom)</option>
                   </select>
                 </label>
                 <label>
                   <span className="field-label">Highest at</span>
-                  <select className="input" value={series.from} onChange={(e) => setSeries({ ...series, from: e.target.value as "from" | "to" })}>
+                  <select
+                    className="input"
+                    value={series.from}
+                    onChange={(e) => setSeries({ ...series, from: e.target.value as "from" | "to" })}
+                  >
                     <option value="from">first well</option>
                     <option value="to">last well</option>
                   </select>
@@ -365,7 +515,13 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
             {!readOnly ? (
               <label>
                 <span className="field-label">Import CSV (well,role,compound,concentration_uM,substrate_uM,group)</span>
-                <input type="file" accept=".csv,.tsv,.txt,text/csv" className="block w-full text-xs" aria-label="Import plate map CSV" onChange={(e) => e.target.files?.[0] && importCsv(e.target.files[0])} />
+                <input
+                  type="file"
+                  accept=".csv,.tsv,.txt,text/csv"
+                  className="block w-full text-xs"
+                  aria-label="Import plate map CSV"
+                  onChange={(e) => e.target.files?.[0] && importCsv(e.target.files[0])}
+                />
               </label>
             ) : null}
             {importIssues.length > 0 ? (
@@ -413,7 +569,13 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
             <input type="hidden" name="mapJson" value={JSON.stringify({ format, wells: listed })} />
             <label className="text-xs">
               <span className="field-label">Name</span>
-              <input name="name" className="input" required maxLength={120} defaultValue={locked ? `${initial.name} (copy)` : initial.name} />
+              <input
+                name="name"
+                className="input"
+                required
+                maxLength={120}
+                defaultValue={locked ? `${initial.name} (copy)` : initial.name}
+              />
             </label>
             <label className="text-xs">
               <span className="field-label">Signal with inhibition</span>
@@ -425,7 +587,11 @@ export function PlateMapEditor({ campaignId, mapId, initial, templates, canWrite
             <label className="flex items-center gap-2 text-xs">
               <input type="checkbox" name="template" defaultChecked={initial.isTemplate} /> Keep as a template
             </label>
-            {locked ? <p className="text-2xs text-ink-muted">Plate runs were uploaded against this plate map, so it is kept as it was; saving makes a new plate map.</p> : null}
+            {locked ? (
+              <p className="text-2xs text-ink-muted">
+                Plate runs were uploaded against this plate map, so it is kept as it was; saving makes a new plate map.
+              </p>
+            ) : null}
             <button className="btn-primary" disabled={pending || issues.length > 0}>
               {locked || !mapId ? "Save as a new plate map" : "Save changes"}
             </button>
@@ -461,7 +627,12 @@ const Cells = memo(function Cells({
   const out: React.ReactNode[] = [];
   for (let r = 0; r < rows; r++) {
     out.push(
-      <button type="button" key={`r${r}`} className="text-right font-mono text-[9px] leading-none text-ink-muted hover:text-accent" onClick={(e) => onRow(r, e.shiftKey)}>
+      <button
+        type="button"
+        key={`r${r}`}
+        className="text-right font-mono text-[9px] leading-none text-ink-muted hover:text-accent"
+        onClick={(e) => onRow(r, e.shiftKey)}
+      >
         {rowLabel(r)}
       </button>,
     );
@@ -478,7 +649,9 @@ const Cells = memo(function Cells({
           className={`aspect-square rounded-[2px] ${roleClass[w.role]} ${selected ? "outline outline-2 -outline-offset-1 outline-ink" : "border border-rule"} flex items-center justify-center overflow-hidden text-[9px] leading-none`}
           style={w.role === "sample" ? sampleStyle(w.concentrationUm, logMin, logMax) : undefined}
         >
-          {cellText && w.role === "sample" && w.concentrationUm !== undefined ? Number(w.concentrationUm.toPrecision(2)) : null}
+          {cellText && w.role === "sample" && w.concentrationUm !== undefined
+            ? Number(w.concentrationUm.toPrecision(2))
+            : null}
         </div>,
       );
     }

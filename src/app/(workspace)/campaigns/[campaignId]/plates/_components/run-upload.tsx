@@ -7,9 +7,27 @@ import { fmtNum, fmtSig } from "./status";
 type MapOption = { id: string; name: string; format: number; isTemplate: boolean };
 type Detail = { line?: number; well?: string; field?: string; message: string };
 type Preview = {
-  preview: { summary: string; shape: string; format: number; reads: number; wells: number; minValue: number; maxValue: number; sample: { well: string; value: number; points?: number }[] };
+  preview: {
+    summary: string;
+    shape: string;
+    format: number;
+    reads: number;
+    wells: number;
+    minValue: number;
+    maxValue: number;
+    sample: { well: string; value: number; points?: number }[];
+  };
   readout: "endpoint" | "kinetic";
-  qc: { zPrime: number | null; signalToBackground: number | null; cvNeutralPct: number | null; cvFullPct: number | null; verdict: "pass" | "fail"; reasons: string[]; warnings: string[]; signalUnit: string };
+  qc: {
+    zPrime: number | null;
+    signalToBackground: number | null;
+    cvNeutralPct: number | null;
+    cvFullPct: number | null;
+    verdict: "pass" | "fail";
+    reasons: string[];
+    warnings: string[];
+    signalUnit: string;
+  };
 };
 type Item = {
   file: File;
@@ -21,7 +39,11 @@ type Item = {
   qc?: { zPrime: number | null; verdict: "pass" | "fail" };
 };
 
-async function post(url: string, fields: Record<string, string>, file: File): Promise<{ status: number; body: Record<string, unknown> }> {
+async function post(
+  url: string,
+  fields: Record<string, string>,
+  file: File,
+): Promise<{ status: number; body: Record<string, unknown> }> {
   const form = new FormData();
   for (const [k, v] of Object.entries(fields)) if (v) form.append(k, v);
   form.append("file", file);
@@ -36,7 +58,15 @@ async function post(url: string, fields: Record<string, string>, file: File): Pr
 }
 
 /** Choose a plate map and files, check each file (nothing stored), then store and parse them. */
-export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: string; maps: MapOption[]; initialMapId?: string }) {
+export function RunUpload({
+  campaignId,
+  maps,
+  initialMapId,
+}: {
+  campaignId: string;
+  maps: MapOption[];
+  initialMapId?: string;
+}) {
   const router = useRouter();
   const [mapId, setMapId] = useState(initialMapId ?? maps[0]!.id);
   const [barcode, setBarcode] = useState("");
@@ -45,7 +75,8 @@ export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: stri
   const api = `/api/campaigns/${campaignId}/plate-runs`;
   const runHref = (id: string) => `/campaigns/${campaignId}/plates/runs/${id}`;
 
-  const update = (i: number, patch: Partial<Item>) => setItems((xs) => xs.map((x, k) => (k === i ? { ...x, ...patch } : x)));
+  const update = (i: number, patch: Partial<Item>) =>
+    setItems((xs) => xs.map((x, k) => (k === i ? { ...x, ...patch } : x)));
 
   async function check(files: File[]) {
     const next: Item[] = files.map((file) => ({ file, status: "checking" }));
@@ -54,7 +85,12 @@ export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: stri
     for (let i = 0; i < files.length; i++) {
       const r = await post(`${api}/preview`, { plateMapId: mapId }, files[i]!);
       if (r.status === 200) update(i, { status: "checked", preview: r.body as unknown as Preview });
-      else update(i, { status: "invalid", error: String(r.body.error ?? "The file was refused."), details: (r.body.details as Detail[] | undefined) ?? [] });
+      else
+        update(i, {
+          status: "invalid",
+          error: String(r.body.error ?? "The file was refused."),
+          details: (r.body.details as Detail[] | undefined) ?? [],
+        });
     }
     setBusy(false);
   }
@@ -71,8 +107,14 @@ export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: stri
         stored += 1;
         lastId = String(r.body.id);
         update(i, { status: "stored", runId: lastId, qc: r.body.qc as Item["qc"] });
-      } else if (r.status === 409 && typeof r.body.runId === "string") update(i, { status: "duplicate", error: String(r.body.error), runId: r.body.runId });
-      else update(i, { status: "failed", error: String(r.body.error ?? "The upload failed."), details: (r.body.details as Detail[] | undefined) ?? [] });
+      } else if (r.status === 409 && typeof r.body.runId === "string")
+        update(i, { status: "duplicate", error: String(r.body.error), runId: r.body.runId });
+      else
+        update(i, {
+          status: "failed",
+          error: String(r.body.error ?? "The upload failed."),
+          details: (r.body.details as Detail[] | undefined) ?? [],
+        });
     }
     setBusy(false);
     if (stored === 1 && ready.length === 1 && lastId) router.push(runHref(lastId));
@@ -107,7 +149,13 @@ export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: stri
           <label className="field-label" htmlFor="barcode">
             Plate barcode (optional, one file only)
           </label>
-          <input id="barcode" className="input" value={barcode} maxLength={64} onChange={(e) => setBarcode(e.target.value)} />
+          <input
+            id="barcode"
+            className="input"
+            value={barcode}
+            maxLength={64}
+            onChange={(e) => setBarcode(e.target.value)}
+          />
         </div>
         <div>
           <label className="field-label" htmlFor="export-files">
@@ -136,14 +184,20 @@ export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: stri
                 <span className="font-medium">{x.file.name}</span>
                 <span className="num text-2xs text-ink-muted">{(x.file.size / 1024).toFixed(1)} KB</span>
               </div>
-              {x.status === "checking" || x.status === "uploading" ? <p className="text-ink-muted">{x.status === "checking" ? "Checking…" : "Storing and parsing…"}</p> : null}
+              {x.status === "checking" || x.status === "uploading" ? (
+                <p className="text-ink-muted">{x.status === "checking" ? "Checking…" : "Storing and parsing…"}</p>
+              ) : null}
               {x.preview && (x.status === "checked" || x.status === "uploading") ? (
                 <div className="mt-1">
                   <p>{x.preview.preview.summary}</p>
                   <p className="text-ink-soft">
-                    Provisional QC: Z′ <span className="num">{fmtNum(x.preview.qc.zPrime, 3)}</span> · S/B <span className="num">{fmtNum(x.preview.qc.signalToBackground, 2)}</span> · CV
-                    neutral <span className="num">{fmtNum(x.preview.qc.cvNeutralPct, 1)}</span> % · CV full <span className="num">{fmtNum(x.preview.qc.cvFullPct, 1)}</span> % ·{" "}
-                    <span className={x.preview.qc.verdict === "pass" ? "text-pass" : "text-fail"}>{x.preview.qc.verdict === "pass" ? "would pass" : "would fail"}</span>
+                    Provisional QC: Z′ <span className="num">{fmtNum(x.preview.qc.zPrime, 3)}</span> · S/B{" "}
+                    <span className="num">{fmtNum(x.preview.qc.signalToBackground, 2)}</span> · CV neutral{" "}
+                    <span className="num">{fmtNum(x.preview.qc.cvNeutralPct, 1)}</span> % · CV full{" "}
+                    <span className="num">{fmtNum(x.preview.qc.cvFullPct, 1)}</span> % ·{" "}
+                    <span className={x.preview.qc.verdict === "pass" ? "text-pass" : "text-fail"}>
+                      {x.preview.qc.verdict === "pass" ? "would pass" : "would fail"}
+                    </span>
                   </p>
                   {[...x.preview.qc.reasons, ...x.preview.qc.warnings].map((r) => (
                     <p key={r} className="text-xs text-warn">
@@ -152,13 +206,17 @@ export function RunUpload({ campaignId, maps, initialMapId }: { campaignId: stri
                   ))}
                   <p className="text-2xs text-ink-muted">
                     First wells:{" "}
-                    {x.preview.preview.sample.map((s) => `${s.well} ${fmtSig(s.value)}${s.points ? ` (${s.points} reads)` : ""}`).join(" · ")} ({x.preview.qc.signalUnit === "signal units/s" ? "first read, signal units" : "signal units"})
+                    {x.preview.preview.sample
+                      .map((s) => `${s.well} ${fmtSig(s.value)}${s.points ? ` (${s.points} reads)` : ""}`)
+                      .join(" · ")}{" "}
+                    ({x.preview.qc.signalUnit === "signal units/s" ? "first read, signal units" : "signal units"})
                   </p>
                 </div>
               ) : null}
               {x.status === "stored" && x.runId ? (
                 <p className="text-pass">
-                  Stored and parsed: Z′ <span className="num">{fmtNum(x.qc?.zPrime ?? null, 3)}</span>, QC {x.qc?.verdict}. <Link href={runHref(x.runId)}>Open the run</Link>
+                  Stored and parsed: Z′ <span className="num">{fmtNum(x.qc?.zPrime ?? null, 3)}</span>, QC{" "}
+                  {x.qc?.verdict}. <Link href={runHref(x.runId)}>Open the run</Link>
                 </p>
               ) : null}
               {x.status === "duplicate" && x.runId ? (

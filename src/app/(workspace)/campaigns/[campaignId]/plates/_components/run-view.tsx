@@ -25,7 +25,13 @@ export type RunWell = {
   masked: boolean;
 };
 
-const roleWords: Record<HeatmapWell["role"], string> = { sample: "sample", neutral: "neutral control", full: "full-inhibition control", blank: "blank", empty: "empty (not in the plate map)" };
+const roleWords: Record<HeatmapWell["role"], string> = {
+  sample: "sample",
+  neutral: "neutral control",
+  full: "full-inhibition control",
+  blank: "blank",
+  empty: "empty (not in the plate map)",
+};
 
 // A diverging scale for % inhibition: 0 % pale, 100 % deep teal, negative values warm.
 const inhibitionScale: [number, string][] = [
@@ -59,41 +65,88 @@ export function RunView({
   const [selected, setSelected] = useState<string | null>(null);
   const [goError, setGoError] = useState<string | null>(null);
   const byName = useMemo(() => new Map(wells.map((w) => [w.well, w])), [wells]);
-  const label = (w: RunWell) => (w.compound ? `${w.compound}${w.concentrationUm !== null ? ` @ ${w.concentrationUm} µM` : ""}` : "");
+  const label = (w: RunWell) =>
+    w.compound ? `${w.compound}${w.concentrationUm !== null ? ` @ ${w.concentrationUm} µM` : ""}` : "";
   const signalUnit = readout === "kinetic" ? "signal/s" : "signal";
-  const raw = useMemo<HeatmapWell[]>(() => wells.map((w) => ({ index: w.index, well: w.well, role: w.role, value: w.signal, masked: w.masked, label: label(w) })), [wells]);
+  const raw = useMemo<HeatmapWell[]>(
+    () =>
+      wells.map((w) => ({
+        index: w.index,
+        well: w.well,
+        role: w.role,
+        value: w.signal,
+        masked: w.masked,
+        label: label(w),
+      })),
+    [wells],
+  );
   const inh = useMemo<HeatmapWell[]>(
-    () => wells.map((w) => ({ index: w.index, well: w.well, role: w.role, value: w.inhibitionPct === null ? null : Math.max(-50, Math.min(150, w.inhibitionPct)), masked: w.masked, label: label(w) })),
+    () =>
+      wells.map((w) => ({
+        index: w.index,
+        well: w.well,
+        role: w.role,
+        value: w.inhibitionPct === null ? null : Math.max(-50, Math.min(150, w.inhibitionPct)),
+        masked: w.masked,
+        label: label(w),
+      })),
     [wells],
   );
   const sel = selected ? byName.get(selected) : undefined;
   const controlS = new Set(wells.filter((w) => w.role === "neutral" || w.role === "full").map((w) => w.substrateUm));
-  const mixedSubstrate = wells.some((w) => w.role === "sample" && w.substrateUm !== null && !controlS.has(w.substrateUm));
+  const mixedSubstrate = wells.some(
+    (w) => w.role === "sample" && w.substrateUm !== null && !controlS.has(w.substrateUm),
+  );
   const height = rows > 16 ? 420 : rows > 8 ? 330 : 260;
   return (
     <div className="flex min-w-0 flex-col gap-3">
       <p className="text-xs text-ink-muted">
-        Click a well to inspect it{canWrite ? " or mask it" : ""}. Dark rings mark neutral controls, white squares full-inhibition controls, red crosses masked wells.
+        Click a well to inspect it{canWrite ? " or mask it" : ""}. Dark rings mark neutral controls, white squares
+        full-inhibition controls, red crosses masked wells.
       </p>
       {mixedSubstrate ? (
         <p className="rounded border border-info/30 bg-info-soft px-2 py-1 text-xs text-ink-soft">
-          Samples on this plate run at substrate concentrations other than the controls&rsquo; (a mechanism study), so their % inhibition against the controls is not a
-          measure of potency; the mechanism analysis uses the initial rates against [S] and [I].
+          Samples on this plate run at substrate concentrations other than the controls&rsquo; (a mechanism study), so
+          their % inhibition against the controls is not a measure of potency; the mechanism analysis uses the initial
+          rates against [S] and [I].
         </p>
       ) : null}
       <div className="grid gap-3 2xl:grid-cols-2">
         <div className="card px-2 pt-1" data-testid="heatmap-raw">
-          <PlateHeatmap rows={rows} columns={columns} wells={raw} title={readout === "kinetic" ? "Initial rate (signal units/s)" : "Raw signal (signal units)"} unit={signalUnit} selected={selected} onSelect={setSelected} height={height} />
+          <PlateHeatmap
+            rows={rows}
+            columns={columns}
+            wells={raw}
+            title={readout === "kinetic" ? "Initial rate (signal units/s)" : "Raw signal (signal units)"}
+            unit={signalUnit}
+            selected={selected}
+            onSelect={setSelected}
+            height={height}
+          />
         </div>
         <div className="card px-2 pt-1" data-testid="heatmap-inhibition">
-          <PlateHeatmap rows={rows} columns={columns} wells={inh} title="Inhibition (%), against this run's controls" unit="%" colorscale={inhibitionScale} zmin={-50} zmax={150} selected={selected} onSelect={setSelected} height={height} />
+          <PlateHeatmap
+            rows={rows}
+            columns={columns}
+            wells={inh}
+            title="Inhibition (%), against this run's controls"
+            unit="%"
+            colorscale={inhibitionScale}
+            zmin={-50}
+            zmax={150}
+            selected={selected}
+            onSelect={setSelected}
+            height={height}
+          />
         </div>
       </div>
       <form
         className="flex items-center gap-2 text-xs"
         onSubmit={(e) => {
           e.preventDefault();
-          const typed = String(new FormData(e.currentTarget).get("go") ?? "").trim().toUpperCase();
+          const typed = String(new FormData(e.currentTarget).get("go") ?? "")
+            .trim()
+            .toUpperCase();
           const v = canonicalWell(typed) ?? typed;
           setSelected(byName.has(v) ? v : null);
           setGoError(byName.has(v) ? null : `${v.slice(0, 6) || "That"} is not a well read on this plate.`);
@@ -107,13 +160,39 @@ export function RunView({
         {goError ? <span className="text-fail">{goError}</span> : null}
       </form>
       <section className="card px-3 py-2" aria-label="Well inspector">
-        {sel ? <WellInspector key={sel.well} w={sel} readout={readout} campaignId={campaignId} runId={runId} maskReason={openMasks[sel.well]} canWrite={canWrite} /> : <p className="text-sm text-ink-muted">No well selected.</p>}
+        {sel ? (
+          <WellInspector
+            key={sel.well}
+            w={sel}
+            readout={readout}
+            campaignId={campaignId}
+            runId={runId}
+            maskReason={openMasks[sel.well]}
+            canWrite={canWrite}
+          />
+        ) : (
+          <p className="text-sm text-ink-muted">No well selected.</p>
+        )}
       </section>
     </div>
   );
 }
 
-function WellInspector({ w, readout, campaignId, runId, maskReason, canWrite }: { w: RunWell; readout: "endpoint" | "kinetic"; campaignId: string; runId: string; maskReason?: string; canWrite: boolean }) {
+function WellInspector({
+  w,
+  readout,
+  campaignId,
+  runId,
+  maskReason,
+  canWrite,
+}: {
+  w: RunWell;
+  readout: "endpoint" | "kinetic";
+  campaignId: string;
+  runId: string;
+  maskReason?: string;
+  canWrite: boolean;
+}) {
   const [state, action, pending] = useActionState(w.masked ? unmaskWellAction : maskWellAction, null);
   return (
     <div className="grid gap-3 md:grid-cols-2">
@@ -187,7 +266,15 @@ function WellInspector({ w, readout, campaignId, runId, maskReason, canWrite }: 
             <label className="field-label" htmlFor="mask-reason">
               {w.masked ? "Reason to unmask" : "Reason to mask"}
             </label>
-            <input id="mask-reason" name="reason" className="input" required minLength={3} maxLength={500} placeholder={w.masked ? "e.g. re-checked: reading is valid" : "e.g. bubble seen at dispensing"} />
+            <input
+              id="mask-reason"
+              name="reason"
+              className="input"
+              required
+              minLength={3}
+              maxLength={500}
+              placeholder={w.masked ? "e.g. re-checked: reading is valid" : "e.g. bubble seen at dispensing"}
+            />
             <div>
               <button className={w.masked ? "btn-quiet" : "btn-danger"} disabled={pending}>
                 {w.masked ? `Unmask ${w.well}` : `Mask ${w.well}`}
@@ -209,7 +296,14 @@ function ProgressCurve({ w }: { w: RunWell }) {
   return (
     <Plot
       data={[
-        { type: "scatter", mode: "markers", name: "reads", x: s.timesS, y: s.values, marker: { size: 5, color: inWin.map((b) => (b ? "#0f766e" : "#98a2ab")) } },
+        {
+          type: "scatter",
+          mode: "markers",
+          name: "reads",
+          x: s.timesS,
+          y: s.values,
+          marker: { size: 5, color: inWin.map((b) => (b ? "#0f766e" : "#98a2ab")) },
+        },
         ...(win && w.rate !== null
           ? [
               {
@@ -227,7 +321,14 @@ function ProgressCurve({ w }: { w: RunWell }) {
             ]
           : []),
       ]}
-      layout={{ ...baseLayout, height: 220, showlegend: false, title: { text: `Progress curve of ${w.well}`, font: { size: 12 }, x: 0 }, xaxis: { title: { text: "time (s)" } }, yaxis: { title: { text: "signal (signal units)" } } }}
+      layout={{
+        ...baseLayout,
+        height: 220,
+        showlegend: false,
+        title: { text: `Progress curve of ${w.well}`, font: { size: 12 }, x: 0 },
+        xaxis: { title: { text: "time (s)" } },
+        yaxis: { title: { text: "signal (signal units)" } },
+      }}
       config={baseConfig}
       useResizeHandler
       style={{ width: "100%", height: 220 }}

@@ -1,14 +1,24 @@
 /** Small labels for QC verdicts and decisions, in words as well as colour. */
 export function VerdictChip({ verdict }: { verdict: "pass" | "fail" }) {
-  return <span className={`chip ${verdict === "pass" ? "bg-pass-soft text-pass" : "bg-fail-soft text-fail"}`}>{verdict === "pass" ? "QC pass" : "QC fail"}</span>;
+  return (
+    <span className={`chip ${verdict === "pass" ? "bg-pass-soft text-pass" : "bg-fail-soft text-fail"}`}>
+      {verdict === "pass" ? "QC pass" : "QC fail"}
+    </span>
+  );
 }
 
 export function DecisionChip({ decision }: { decision: "pending" | "accepted" | "rejected" }) {
-  const cls = decision === "accepted" ? "bg-pass-soft text-pass" : decision === "rejected" ? "bg-fail-soft text-fail" : "bg-paper-sunk text-ink-muted";
+  const cls =
+    decision === "accepted"
+      ? "bg-pass-soft text-pass"
+      : decision === "rejected"
+        ? "bg-fail-soft text-fail"
+        : "bg-paper-sunk text-ink-muted";
   return <span className={`chip ${cls}`}>{decision === "pending" ? "awaiting review" : decision}</span>;
 }
 
-export const fmtNum = (x: number | null | undefined, digits = 2) => (x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(digits));
+export const fmtNum = (x: number | null | undefined, digits = 2) =>
+  x === null || x === undefined || !Number.isFinite(x) ? "—" : x.toFixed(digits);
 
 export function fmtSig(x: number | null | undefined, sig = 4): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "—";

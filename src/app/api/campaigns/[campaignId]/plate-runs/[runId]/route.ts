@@ -28,8 +28,17 @@ export const GET = route<{ campaignId: string; runId: string }>(async (_req, par
     uploadedBy: d.uploadedByName,
     qc: r.qc,
     verdict: r.qcVerdict,
-    decision: { state: r.decision, reason: r.decisionReason, by: d.decidedByName, at: r.decidedAt?.toISOString() ?? null },
-    masks: d.masks.map((m) => ({ ...m, maskedAt: m.maskedAt.toISOString(), unmaskedAt: m.unmaskedAt?.toISOString() ?? null })),
+    decision: {
+      state: r.decision,
+      reason: r.decisionReason,
+      by: d.decidedByName,
+      at: r.decidedAt?.toISOString() ?? null,
+    },
+    masks: d.masks.map((m) => ({
+      ...m,
+      maskedAt: m.maskedAt.toISOString(),
+      unmaskedAt: m.unmaskedAt?.toISOString() ?? null,
+    })),
     readings: d.readings.map((w) => ({
       well: w.well,
       role: w.role,

@@ -10,7 +10,12 @@ import { can } from "@/lib/roles";
 import { formatConcentration, formatConcentrationRange, toMicromolar } from "@/lib/units";
 import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { DoseResponsePlot, type DoseResponseFitView } from "@/components/plots/dose-response-plot";
-import { RateVsSubstratePlot, DoubleReciprocalPlot, ResidualPlot, type MechanismModelView } from "@/components/plots/mechanism-plots";
+import {
+  RateVsSubstratePlot,
+  DoubleReciprocalPlot,
+  ResidualPlot,
+  type MechanismModelView,
+} from "@/components/plots/mechanism-plots";
 import { Flags, kindLabel } from "../../_components/labels";
 import { OverrideForm, PlannerForm } from "../../_components/result-forms";
 import { overrideMechanismAction, planMechanismPlateAction } from "../../actions";
@@ -18,11 +23,23 @@ import { formatAlpha } from "@/lib/analysis/alpha";
 
 export const metadata = { title: "Compound result" };
 
-type ModelSummary = MechanismModelView & { rss: number; aicc: number; deltaAicc: number; akaikeWeight: number; fTestVsMixedP: number | null; alpha: number | null; ci95: Record<string, [number | null, number | null]> };
+type ModelSummary = MechanismModelView & {
+  rss: number;
+  aicc: number;
+  deltaAicc: number;
+  akaikeWeight: number;
+  fTestVsMixedP: number | null;
+  alpha: number | null;
+  ci95: Record<string, [number | null, number | null]>;
+};
 
 const models: InhibitionModel[] = ["competitive", "uncompetitive", "noncompetitive", "mixed"];
 
-export default async function CompoundResultPage({ params }: { params: Promise<{ campaignId: string; experimentId: string; compoundId: string }> }) {
+export default async function CompoundResultPage({
+  params,
+}: {
+  params: Promise<{ campaignId: string; experimentId: string; compoundId: string }>;
+}) {
   const { campaignId, experimentId, compoundId } = await params;
   const { user, role, campaign } = await pageCampaign(campaignId);
   const notFoundOnApp = (e: unknown) => {
@@ -35,12 +52,25 @@ export default async function CompoundResultPage({ params }: { params: Promise<{
   const maskKeys = current?.inputs.masks ?? [];
   const maskedRows = maskKeys.length
     ? await db
-        .select({ runId: wellReadings.runId, well: wellReadings.well, concentrationUm: wellReadings.concentrationUm, inhibitionPct: wellReadings.inhibitionPct, compoundId: wellReadings.compoundId })
+        .select({
+          runId: wellReadings.runId,
+          well: wellReadings.well,
+          concentrationUm: wellReadings.concentrationUm,
+          inhibitionPct: wellReadings.inhibitionPct,
+          compoundId: wellReadings.compoundId,
+        })
         .from(wellReadings)
-        .where(and(inArray(wellReadings.runId, [...new Set(maskKeys.map((m) => m.runId))]), eq(wellReadings.compoundId, r.compoundId)))
+        .where(
+          and(
+            inArray(wellReadings.runId, [...new Set(maskKeys.map((m) => m.runId))]),
+            eq(wellReadings.compoundId, r.compoundId),
+          ),
+        )
     : [];
   const maskedSet = new Set(maskKeys.map((m) => `${m.runId}|${m.well}`));
-  const masked = maskedRows.filter((m) => maskedSet.has(`${m.runId}|${m.well}`) && m.concentrationUm !== null && m.inhibitionPct !== null).map((m) => [m.concentrationUm!, m.inhibitionPct!] as [number, number]);
+  const masked = maskedRows
+    .filter((m) => maskedSet.has(`${m.runId}|${m.well}`) && m.concentrationUm !== null && m.inhibitionPct !== null)
+    .map((m) => [m.concentrationUm!, m.inhibitionPct!] as [number, number]);
   const base = `/campaigns/${campaignId}/analyses/${experimentId}`;
   const kmUm = campaign.kmValue !== null ? toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM") : null;
 
@@ -48,7 +78,8 @@ export default async function CompoundResultPage({ params }: { params: Promise<{
     <div className="flex flex-col gap-5">
       <div>
         <p className="text-xs text-ink-muted">
-          <Link href={`/campaigns/${campaignId}/analyses`}>Analyses</Link> / <Link href={base}>{experiment.name}</Link> / {kindLabel[experiment.kind]}
+          <Link href={`/campaigns/${campaignId}/analyses`}>Analyses</Link> / <Link href={base}>{experiment.name}</Link>{" "}
+          / {kindLabel[experiment.kind]}
         </p>
         <h1>{r.compoundId}</h1>
         <div className="mt-1">
@@ -60,7 +91,13 @@ export default async function CompoundResultPage({ params }: { params: Promise<{
       {r.kind === "mechanism" && can(user.globalRole, role, "analysis:override") ? (
         <section>
           <h3 className="mb-2">Override the model choice</h3>
-          <OverrideForm action={overrideMechanismAction} campaignId={campaignId} experimentId={experimentId} compoundId={r.compoundId} current={r.override?.model ?? r.mechanism ?? "competitive"} />
+          <OverrideForm
+            action={overrideMechanismAction}
+            campaignId={campaignId}
+            experimentId={experimentId}
+            compoundId={r.compoundId}
+            current={r.override?.model ?? r.mechanism ?? "competitive"}
+          />
         </section>
       ) : null}
       {r.kind === "dose-response" && r.ic50Um && !r.ic50Qualifier && can(user.globalRole, role, "plate:write") ? (
@@ -77,8 +114,9 @@ export default async function CompoundResultPage({ params }: { params: Promise<{
         </section>
       ) : null}
       <p className="text-2xs text-ink-muted">
-        Analysis {r.analysisId.slice(0, 8)} · engine {current?.engineVersion} · input hash {current?.inputHash.slice(0, 16)}… · {current?.inputs.runs.length} accepted runs ·{" "}
-        {maskKeys.length} masked wells
+        Analysis {r.analysisId.slice(0, 8)} · engine {current?.engineVersion} · input hash{" "}
+        {current?.inputHash.slice(0, 16)}… · {current?.inputs.runs.length} accepted runs · {maskKeys.length} masked
+        wells
       </p>
     </div>
   );
@@ -88,10 +126,21 @@ type Row = Awaited<ReturnType<typeof compoundResultDetail>>;
 
 function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][] }) {
   const d = r.detail as {
-    fit?: DoseResponseFitView & { rSquared: number | null; ic50Um: number | null; hillSe: number | null; log10Ic50Se: number | null };
+    fit?: DoseResponseFitView & {
+      rSquared: number | null;
+      ic50Um: number | null;
+      hillSe: number | null;
+      log10Ic50Se: number | null;
+    };
     points: [number, number, string, string][];
     testedRangeUm: [number, number];
-    morrison: { kAppUm?: number; kAppCi95Um?: [number | null, number | null]; ic50Um?: number; enzymeUm?: number; error?: string } | null;
+    morrison: {
+      kAppUm?: number;
+      kAppCi95Um?: [number | null, number | null];
+      ic50Um?: number;
+      enzymeUm?: number;
+      error?: string;
+    } | null;
   };
   return (
     <section className="grid gap-4 lg:grid-cols-[2fr_1fr]">
@@ -145,8 +194,10 @@ function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][]
               <p className="text-fail">{d.morrison.error}</p>
             ) : (
               <p className="num text-ink-soft">
-                K′ (apparent Ki) {formatConcentration(d.morrison.kAppUm)} (95 % CI {formatConcentration(d.morrison.kAppCi95Um?.[0])} – {formatConcentration(d.morrison.kAppCi95Um?.[1])}) at [E] ={" "}
-                {formatConcentration(d.morrison.enzymeUm)}; IC50 = K′ + [E]/2 = {formatConcentration(d.morrison.ic50Um)}.
+                K′ (apparent Ki) {formatConcentration(d.morrison.kAppUm)} (95 % CI{" "}
+                {formatConcentration(d.morrison.kAppCi95Um?.[0])} – {formatConcentration(d.morrison.kAppCi95Um?.[1])})
+                at [E] = {formatConcentration(d.morrison.enzymeUm)}; IC50 = K′ + [E]/2 ={" "}
+                {formatConcentration(d.morrison.ic50Um)}.
               </p>
             )}
           </div>
@@ -157,12 +208,27 @@ function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][]
 }
 
 function MechanismSection({ r }: { r: Row }) {
-  const d = r.detail as { models: Record<InhibitionModel, ModelSummary>; points: [number, number, number, string, string][]; best: InhibitionModel; label: string; chengPrusoff?: Record<string, unknown> };
+  const d = r.detail as {
+    models: Record<InhibitionModel, ModelSummary>;
+    points: [number, number, number, string, string][];
+    best: InhibitionModel;
+    label: string;
+    chengPrusoff?: Record<string, unknown>;
+  };
   const chosen = (r.override?.model as InhibitionModel | undefined) ?? (r.mechanism as InhibitionModel);
   const fit = d.models[chosen];
   const pts = d.points.map((p) => [p[0], p[1], p[2]] as [number, number, number]);
   const unit = "signal/s";
-  const cp = d.chengPrusoff as { predictedIc50Um?: number; measuredIc50Um?: number; ratio?: number; substrateUm?: number; kmUm?: number; note?: string } | undefined;
+  const cp = d.chengPrusoff as
+    | {
+        predictedIc50Um?: number;
+        measuredIc50Um?: number;
+        ratio?: number;
+        substrateUm?: number;
+        kmUm?: number;
+        note?: string;
+      }
+    | undefined;
   return (
     <>
       <section className="card flex flex-wrap gap-6 px-4 py-3 text-sm">
@@ -170,7 +236,9 @@ function MechanismSection({ r }: { r: Row }) {
           <p className="text-xs font-medium text-ink-muted">Mechanism</p>
           <p className="text-lg font-semibold">
             {chosen} {r.override ? <span className="chip bg-info-soft text-info">override</span> : null}{" "}
-            {!r.override && r.mechanismLabel === "ambiguous" ? <span className="chip bg-warn-soft text-warn">ambiguous</span> : null}
+            {!r.override && r.mechanismLabel === "ambiguous" ? (
+              <span className="chip bg-warn-soft text-warn">ambiguous</span>
+            ) : null}
           </p>
           {r.override ? (
             <p className="text-xs text-ink-muted">
@@ -180,9 +248,12 @@ function MechanismSection({ r }: { r: Row }) {
         </div>
         <div>
           <p className="text-xs font-medium text-ink-muted">Ki</p>
-          <p className="num text-lg font-semibold">{formatConcentration(chosen === "uncompetitive" ? fit.kiuUm : fit.kicUm)}</p>
+          <p className="num text-lg font-semibold">
+            {formatConcentration(chosen === "uncompetitive" ? fit.kiuUm : fit.kicUm)}
+          </p>
           <p className="num text-xs text-ink-muted">
-            95 % CI {formatConcentrationRange(...(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"] ?? [null, null]))}
+            95 % CI{" "}
+            {formatConcentrationRange(...(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"] ?? [null, null]))}
           </p>
         </div>
         <div>
@@ -202,8 +273,8 @@ function MechanismSection({ r }: { r: Row }) {
               <p className="text-xs text-ink-muted">{cp.note}</p>
             ) : (
               <p className="num text-xs">
-                predicted IC50 {formatConcentration(cp.predictedIc50Um)} at [S] {formatConcentration(cp.substrateUm)} vs measured {formatConcentration(cp.measuredIc50Um)} (ratio{" "}
-                {cp.ratio?.toPrecision(3)})
+                predicted IC50 {formatConcentration(cp.predictedIc50Um)} at [S] {formatConcentration(cp.substrateUm)} vs
+                measured {formatConcentration(cp.measuredIc50Um)} (ratio {cp.ratio?.toPrecision(3)})
               </p>
             )}
           </div>
@@ -261,8 +332,8 @@ function MechanismSection({ r }: { r: Row }) {
           </tbody>
         </table>
         <p className="mt-1 text-2xs text-ink-muted">
-          Choice: lowest AICc; mixed only when the extra-sum-of-squares F-test against the best nested model gives p &lt; 0.05. &ldquo;Ambiguous&rdquo; when another
-          model lies within ΔAICc 2.
+          Choice: lowest AICc; mixed only when the extra-sum-of-squares F-test against the best nested model gives p
+          &lt; 0.05. &ldquo;Ambiguous&rdquo; when another model lies within ΔAICc 2.
         </p>
       </section>
     </>

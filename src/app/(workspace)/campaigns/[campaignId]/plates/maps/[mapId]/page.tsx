@@ -21,7 +21,9 @@ export default async function PlateMapPage({ params }: { params: Promise<{ campa
   const all = await listPlateMaps(campaignId);
   const runs = all.find((x) => x.id === mapId)?.runs ?? 0;
   const writer = can(user.globalRole, role, "plate:write");
-  const templates = writer ? await Promise.all(all.filter((x) => x.isTemplate && x.id !== mapId).map((x) => getPlateMap(campaignId, x.id))) : [];
+  const templates = writer
+    ? await Promise.all(all.filter((x) => x.isTemplate && x.id !== mapId).map((x) => getPlateMap(campaignId, x.id)))
+    : [];
   const base = `/campaigns/${campaignId}/plates`;
   return (
     <div className="flex flex-col gap-4">
@@ -32,7 +34,8 @@ export default async function PlateMapPage({ params }: { params: Promise<{ campa
           </p>
           <h1>{m.name}</h1>
           <p className="text-sm text-ink-muted">
-            {m.format}-well · {m.sampleWells} samples, {m.neutralWells} neutral and {m.fullWells} full-inhibition controls · signal {m.signalDirection} with inhibition · {runs} runs
+            {m.format}-well · {m.sampleWells} samples, {m.neutralWells} neutral and {m.fullWells} full-inhibition
+            controls · signal {m.signalDirection} with inhibition · {runs} runs
             {m.isTemplate ? " · template" : ""}
           </p>
         </div>
@@ -47,7 +50,13 @@ export default async function PlateMapPage({ params }: { params: Promise<{ campa
         key={m.updatedAt.toISOString()}
         campaignId={campaignId}
         mapId={m.id}
-        initial={{ name: m.name, format: m.format as PlateFormat, wells: m.wells, isTemplate: m.isTemplate, signalDirection: m.signalDirection }}
+        initial={{
+          name: m.name,
+          format: m.format as PlateFormat,
+          wells: m.wells,
+          isTemplate: m.isTemplate,
+          signalDirection: m.signalDirection,
+        }}
         templates={templates.map((t) => ({ id: t.id, name: t.name, format: t.format, wells: t.wells }))}
         canWrite={writer}
         locked={runs > 0}

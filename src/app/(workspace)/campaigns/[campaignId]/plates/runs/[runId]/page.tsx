@@ -54,8 +54,10 @@ export default async function RunPage({ params }: { params: Promise<{ campaignId
           <DecisionChip decision={r.decision} />
         </div>
         <p className="text-sm text-ink-muted">
-          Plate map <Link href={`${base}/maps/${r.plateMapId}`}>{d.plateMapName}</Link> · {r.format}-well · {r.readout === "kinetic" ? `kinetic, ${r.reads} reads (initial rates)` : "endpoint, 1 read"} ·{" "}
-          {r.wellCount} wells read{r.barcode ? ` · barcode ${r.barcode}` : ""} · uploaded {fmtDate(r.uploadedAt)} UTC by {d.uploadedByName ?? "—"}
+          Plate map <Link href={`${base}/maps/${r.plateMapId}`}>{d.plateMapName}</Link> · {r.format}-well ·{" "}
+          {r.readout === "kinetic" ? `kinetic, ${r.reads} reads (initial rates)` : "endpoint, 1 read"} · {r.wellCount}{" "}
+          wells read{r.barcode ? ` · barcode ${r.barcode}` : ""} · uploaded {fmtDate(r.uploadedAt)} UTC by{" "}
+          {d.uploadedByName ?? "—"}
         </p>
       </div>
 
@@ -68,13 +70,25 @@ export default async function RunPage({ params }: { params: Promise<{ campaignId
           <span className="num text-ink-muted">({(r.sizeBytes / 1024).toFixed(1)} KB)</span>
         </span>
         <span className="min-w-0">
-          <span className="text-ink-muted">SHA-256</span> <code className="break-all font-mono text-2xs text-ink-soft">{r.sha256}</code>
+          <span className="text-ink-muted">SHA-256</span>{" "}
+          <code className="break-all font-mono text-2xs text-ink-soft">{r.sha256}</code>
         </span>
-        <span className="text-ink-muted">Detected: {r.shape.replace("-", " table, ").replace("grid table", "plate grid")}</span>
+        <span className="text-ink-muted">
+          Detected: {r.shape.replace("-", " table, ").replace("grid table", "plate grid")}
+        </span>
       </section>
 
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_20rem]">
-        <RunView campaignId={campaignId} runId={r.id} rows={dims.rows} columns={dims.columns} readout={r.readout === "kinetic" ? "kinetic" : "endpoint"} wells={wells} openMasks={openMasks} canWrite={writer} />
+        <RunView
+          campaignId={campaignId}
+          runId={r.id}
+          rows={dims.rows}
+          columns={dims.columns}
+          readout={r.readout === "kinetic" ? "kinetic" : "endpoint"}
+          wells={wells}
+          openMasks={openMasks}
+          canWrite={writer}
+        />
         <div className="flex flex-col gap-4">
           <QcPanel qc={r.qc} />
           <section className="card px-3 py-2">
@@ -83,10 +97,18 @@ export default async function RunPage({ params }: { params: Promise<{ campaignId
               <p className="text-sm text-ink-muted">Awaiting review by an assay scientist.</p>
             ) : (
               <p className="text-sm">
-                <DecisionChip decision={r.decision} /> by {d.decidedByName ?? "—"} on {r.decidedAt ? fmtDate(r.decidedAt) : "—"} UTC: “{r.decisionReason}”
+                <DecisionChip decision={r.decision} /> by {d.decidedByName ?? "—"} on{" "}
+                {r.decidedAt ? fmtDate(r.decidedAt) : "—"} UTC: “{r.decisionReason}”
               </p>
             )}
-            {writer ? <DecisionForm campaignId={campaignId} runId={r.id} canAccept={r.qcVerdict === "pass"} current={r.decision} /> : null}
+            {writer ? (
+              <DecisionForm
+                campaignId={campaignId}
+                runId={r.id}
+                canAccept={r.qcVerdict === "pass"}
+                current={r.decision}
+              />
+            ) : null}
           </section>
         </div>
       </div>

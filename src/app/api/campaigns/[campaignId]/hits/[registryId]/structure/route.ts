@@ -19,9 +19,17 @@ export const GET = route<{ campaignId: string; registryId: string }>(async (req,
   const ck = `${large ? "L" : "T"}|${key}`;
   let svg = cache.get(ck);
   if (!svg) {
-    svg = large ? structureSvg(key, { width: 320, height: 240, idPrefix: "l-" }) : structureSvg(key, { width: 120, height: 72, idPrefix: "t-" });
+    svg = large
+      ? structureSvg(key, { width: 320, height: 240, idPrefix: "l-" })
+      : structureSvg(key, { width: 120, height: 72, idPrefix: "t-" });
     if (cache.size >= CACHE_MAX) cache.delete(cache.keys().next().value!);
     cache.set(ck, svg);
   }
-  return new Response(svg, { headers: { "content-type": "image/svg+xml; charset=utf-8", "cache-control": "private, max-age=3600", "x-content-type-options": "nosniff" } });
+  return new Response(svg, {
+    headers: {
+      "content-type": "image/svg+xml; charset=utf-8",
+      "cache-control": "private, max-age=3600",
+      "x-content-type-options": "nosniff",
+    },
+  });
 });

@@ -6,23 +6,25 @@ import { AppError } from "@/server/errors";
 export const dynamic = "force-dynamic";
 
 /** Status and progress (0–1) of one analysis, with its provenance. */
-export const GET = route<{ campaignId: string; experimentId: string; analysisId: string }>(async (_req, { campaignId, experimentId, analysisId }) => {
-  await requireCampaign(campaignId);
-  await getExperiment(campaignId, experimentId);
-  const a = await getAnalysis(campaignId, analysisId);
-  if (a.experimentId !== experimentId) throw new AppError("not_found", "No such analysis.");
-  return json({
-    id: a.id,
-    status: a.status,
-    progress: a.progress,
-    current: a.isCurrent,
-    compounds: a.compounds,
-    error: a.status === "failed" ? a.error : null,
-    engineVersion: a.engineVersion,
-    inputHash: a.inputHash,
-    inputs: { runs: a.inputs.runs, masks: a.inputs.masks, settings: a.inputs.settings },
-    requestedAt: a.requestedAt.toISOString(),
-    startedAt: a.startedAt?.toISOString() ?? null,
-    finishedAt: a.finishedAt?.toISOString() ?? null,
-  });
-});
+export const GET = route<{ campaignId: string; experimentId: string; analysisId: string }>(
+  async (_req, { campaignId, experimentId, analysisId }) => {
+    await requireCampaign(campaignId);
+    await getExperiment(campaignId, experimentId);
+    const a = await getAnalysis(campaignId, analysisId);
+    if (a.experimentId !== experimentId) throw new AppError("not_found", "No such analysis.");
+    return json({
+      id: a.id,
+      status: a.status,
+      progress: a.progress,
+      current: a.isCurrent,
+      compounds: a.compounds,
+      error: a.status === "failed" ? a.error : null,
+      engineVersion: a.engineVersion,
+      inputHash: a.inputHash,
+      inputs: { runs: a.inputs.runs, masks: a.inputs.masks, settings: a.inputs.settings },
+      requestedAt: a.requestedAt.toISOString(),
+      startedAt: a.startedAt?.toISOString() ?? null,
+      finishedAt: a.finishedAt?.toISOString() ?? null,
+    });
+  },
+);
