@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { REGISTRY_PREFIX_RE } from "@/lib/registry-id";
 
 /**
  * The environment, parsed once. A bad value fails `next build` and the first server import with
@@ -24,7 +25,7 @@ const schema = z.object({
   LINK_SIGNING_SECRET: z.string().min(16).optional(),
   REGISTRY_PREFIX: z
     .string()
-    .regex(/^[A-Z][A-Z0-9]{0,7}-$/, "REGISTRY_PREFIX must look like INH-")
+    .regex(REGISTRY_PREFIX_RE, "REGISTRY_PREFIX must look like INH-")
     .default("INH-"),
 });
 

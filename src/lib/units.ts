@@ -30,3 +30,11 @@ export function formatConcentrationRange(loUm: number | null | undefined, hiUm: 
   if (loUm == null && hiUm == null) return "—";
   return `${formatConcentration(loUm)} – ${hiUm == null ? "∞" : formatConcentration(hiUm)}`;
 }
+
+/**
+ * The campaign's Km in µM, from the value and unit it was entered with (null when not set). The
+ * one place that reads a campaign's Km: analyses, the planner and the result pages call it.
+ */
+export function campaignKmUm(campaign: { kmValue: number | null; kmUnit: string | null }): number | null {
+  return campaign.kmValue === null ? null : toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM");
+}

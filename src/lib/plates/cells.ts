@@ -1,4 +1,5 @@
 /** Cell-level rules shared by the plate map and the reader export parsers. */
+import { isFormulaLike } from "@/lib/csv/write";
 import { quoteCell } from "./issues";
 
 const NUMBER_RE = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
@@ -19,18 +20,14 @@ export function parseNumber(raw: string, decimalComma = false): number | undefin
 }
 
 /**
- * Text that a spreadsheet would run as a formula when the file is opened or exported again:
- * a cell starting with = + - @ (or a tab or carriage return) that is not a plain number
- * (OWASP, "CSV Injection"). Returns the message, or undefined when the cell is safe.
+ * Text that a spreadsheet would run as a formula when the file is opened or exported again (the
+ * rule is `isFormulaLike` in src/lib/csv/write.ts; OWASP, "CSV Injection"). Returns the message
+ * for an upload that is refused, or undefined when the cell is safe.
  */
 export function formulaInjectionMessage(raw: string): string | undefined {
-  if (raw.length === 0) return undefined;
+  if (!isFormulaLike(raw)) return undefined;
   const first = raw[0]!;
-  const trimmed = raw.trimStart();
-  const lead = trimmed[0];
-  const risky = first === "\t" || first === "\r" || (lead !== undefined && "=+-@".includes(lead));
-  if (!risky) return undefined;
-  if (NUMBER_RE.test(trimmed.trim())) return undefined;
+  const lead = raw.trimStart()[0];
   const shown = lead !== undefined && "=+-@".includes(lead) ? lead : first === "\t" ? "a tab" : "a carriage return";
   const what = shown.length === 1 ? `"${shown}"` : shown;
   return `${quoteCell(raw)} starts with ${what}, which a spreadsheet may run as a formula; text like this is refused`;
