@@ -1,8 +1,8 @@
 #!/usr/bin/env node
-// `npm test`: its own services on other ports and a fresh database, then typecheck, lint,
+// `npm test`: its own services on other ports and a fresh database, then typecheck, format check, lint,
 // unit + integration tests (vitest, real Postgres), a production build and the end-to-end
 // journeys in Debian's chromium. Stops everything it started and ends with one plain line
-// `N passed, N failed` that counts every test (typecheck, lint and build count as one each).
+// `N passed, N failed` that counts every test (typecheck, format, lint and build count as one each).
 import { spawn, spawnSync, execFileSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
@@ -161,6 +161,13 @@ try {
       "typecheck (tsc --noEmit)",
       process.execPath,
       ["node_modules/typescript/bin/tsc", "--noEmit", "-p", "tsconfig.json"],
+      env,
+    );
+  if (want("format"))
+    runStep(
+      "format (prettier --check)",
+      process.execPath,
+      ["node_modules/prettier/bin/prettier.cjs", "--check", "--log-level=warn", "."],
       env,
     );
   if (want("lint"))
