@@ -11,7 +11,7 @@
  *    shapes, random offsets 0–1,900) from `GET /api/campaigns/{id}/hits` for 20 s: p50/p95/p99.
  * 4. The grid page in Debian's chromium (playwright-core): time from navigation until the first
  *    rows are in the grid (the page answers clicks), median of 5 loads.
- * Goals (issue 8): p95 < 150 ms; interactive < 2 s.
+ * Goals: p95 < 150 ms; interactive < 2 s.
  */
 import fs from "node:fs";
 import os from "node:os";

@@ -1,6 +1,6 @@
 #!/usr/bin/env node
 /**
- * Kinetics engine benchmark (issue 3 "Speed"): engine vs SciPy, measured side by side in one run.
+ * Kinetics engine benchmark: engine vs SciPy, measured side by side in one run.
  *
  * 1. 10,000 ten-point dose-response curves (seeded, invented) written to one CSV; the whole
  *    `analyze dose-response` process (bundled with esbuild into .local/) vs a SciPy curve_fit loop

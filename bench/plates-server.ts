@@ -3,7 +3,7 @@
  * DATABASE_URL and the S3 fake. Each case calls the upload service as the route handler does:
  * size cap, SHA-256, duplicate check, PutObject to the object store, parse with the plate map's
  * format, check against the map, initial rates (kinetic), QC and % inhibition, and one
- * transaction writing the run and its readings. Goals (issue 6): a 1536-well endpoint export
+ * transaction writing the run and its readings. Goals: a 1536-well endpoint export
  * < 300 ms; a 384-well kinetic export with 60 reads < 500 ms. Every file differs by one note line
  * so no upload is a duplicate. The plates are INVENTED (random values around two control levels).
  */

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { REGISTRY_PREFIX_RE } from "@/lib/registry-id";
+import { DEFAULT_REGISTRY_PREFIX, REGISTRY_PREFIX_RE } from "@/lib/registry-id";
 
 /**
  * The environment, parsed once. A bad value fails `next build` and the first server import with
@@ -26,7 +26,7 @@ const schema = z.object({
   REGISTRY_PREFIX: z
     .string()
     .regex(REGISTRY_PREFIX_RE, "REGISTRY_PREFIX must look like INH-")
-    .default("INH-"),
+    .default(DEFAULT_REGISTRY_PREFIX),
 });
 
 const parsed = schema.safeParse(process.env);

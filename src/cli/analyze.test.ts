@@ -1,5 +1,5 @@
 /**
- * The analyze command as a child process: output shapes of issue 3 §7 on published data sets
+ * The analyze command as a child process: its output shapes on published data sets
  * (isdals `inhibitor`, R DNase run 1 — sources in src/lib/kinetics/testdata/reference-data.ts),
  * and each kind of bad input → one stderr line naming line and column, exit 2, empty stdout.
  */
@@ -47,7 +47,7 @@ const doseCsv =
     .join("\n") +
   "\n";
 
-describe("analyze mechanism (isdals inhibitor data; expected values science.md [calc, SciPy])", () => {
+describe("analyze mechanism (isdals inhibitor data, Ekstrøm & Sørensen; expected values computed with SciPy)", () => {
   it("prints {best, label, models} with all four models and their constants", () => {
     const r = run(["mechanism", csv("isdals.csv", mechanismCsv)]);
     expect(r.stderr).toBe("");
@@ -85,7 +85,7 @@ describe("analyze mechanism (isdals inhibitor data; expected values science.md [
   });
 });
 
-describe("analyze dose-response (R DNase run 1; expected values science.md [calc, SciPy])", () => {
+describe("analyze dose-response (R datasets::DNase run 1; expected values computed with SciPy, same as R SSfpl)", () => {
   it("prints one object per compound in input order with the specified keys", () => {
     const r = run(["dose-response", csv("dose.csv", doseCsv)]);
     expect(r.stderr).toBe("");

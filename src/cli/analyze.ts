@@ -1,5 +1,5 @@
 /**
- * Batch analysis from the command line (issue 3 §7).
+ * Batch analysis from the command line.
  *
  *   npm run -s analyze -- mechanism FILE.csv [--weighting=none|relative]
  *   npm run -s analyze -- dose-response FILE.csv [--fix-top=N] [--fix-bottom=N]

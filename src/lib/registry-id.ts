@@ -7,6 +7,9 @@
  * `registryIdSql` from the same constants.
  */
 
+/** The prefix when REGISTRY_PREFIX is not set (env.ts); the invented demo data and tests use it. */
+export const DEFAULT_REGISTRY_PREFIX = "INH-";
+
 /** Digits the number is padded to. */
 export const REGISTRY_NUMBER_DIGITS = 6;
 

@@ -64,7 +64,7 @@ export const registry: RegistryEntry[] = [
     what: "set QC and hit thresholds",
     allow: ["lead", "admin"],
   },
-  // Plates (issue 6): members read; assay scientists and admins write
+  // Plates: members read; assay scientists and admins write
   { id: "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#GET", what: "list plate maps", allow: members },
   {
     id: "src/app/api/campaigns/[campaignId]/plate-maps/route.ts#POST",
@@ -112,7 +112,7 @@ export const registry: RegistryEntry[] = [
     what: "accept or reject a run's QC",
     allow: ["assay", "admin"],
   },
-  // Compounds (issue 5): not campaign-scoped; everyone signed in reads, chemists (in any campaign) and admins write
+  // Compounds: not campaign-scoped; everyone signed in reads, chemists (in any campaign) and admins write
   {
     id: "src/app/api/compounds/route.ts#GET",
     what: "search compounds (ID, name, alias, substructure)",
@@ -179,7 +179,7 @@ export const registry: RegistryEntry[] = [
     what: "remove a compound from a library",
     allow: ["chemist", "admin"],
   },
-  // Analyses (issue 7): members read; assay scientists, leads and admins run analyses
+  // Analyses: members read; assay scientists, leads and admins run analyses
   {
     id: "src/app/api/campaigns/[campaignId]/experiments/route.ts#GET",
     what: "list experiments with their latest analysis",
@@ -225,7 +225,7 @@ export const registry: RegistryEntry[] = [
     what: "turn a mechanism-study plan into a plate map",
     allow: ["assay", "admin"],
   },
-  // Hit triage (issue 8): members read, export and keep their own views; leads and admins set the triage status; everyone but viewers comments
+  // Hit triage: members read, export and keep their own views; leads and admins set the triage status; everyone but viewers comments
   {
     id: "src/app/api/campaigns/[campaignId]/hits/route.ts#GET",
     what: "ranked hits, sorted, filtered and paged in Postgres",
@@ -276,7 +276,7 @@ export const registry: RegistryEntry[] = [
     what: "delete one's own saved view",
     allow: members,
   },
-  // Weekly digest (issue 9): leads and admins send and schedule; members stop it for themselves
+  // Weekly digest: leads and admins send and schedule; members stop it for themselves
   {
     id: "src/app/api/campaigns/[campaignId]/digest/route.ts#POST",
     what: "preview or send the weekly digest now",

@@ -1,15 +1,18 @@
 // Test set-up for plate tests: a small INVENTED 96-well plate map and endpoint exports built from
-// the science.md worked-example controls, stored through the real services.
+// a small worked example of controls (vehicle mean 1000, SD 31.6; full inhibition mean 100, SD 7.07: Z′ 0.871 by
+// the definition of Zhang, Chung & Oldenburg, J Biomol Screen 1999), stored through the real services.
 import { createPlateMap, uploadRun } from "@/server/services/plates";
 import { db } from "@/server/db/client";
 import { campaigns } from "@/server/db/schema";
 import { eq } from "drizzle-orm";
 import { plateMapFromWells, type PlateMapWell } from "@/lib/plates";
 import type { World } from "./harness";
+import { DEFAULT_REGISTRY_PREFIX, formatRegistryId } from "@/lib/registry-id";
 import { ensureCompoundsRegistered } from "./compounds";
 
 /** Registry IDs INH-000001 … INH-<n> (invented demo structures registered by the compounds helper). */
-export const registryIds = (n: number) => Array.from({ length: n }, (_, i) => `INH-${String(i + 1).padStart(6, "0")}`);
+export const registryIds = (n: number) =>
+  Array.from({ length: n }, (_, i) => formatRegistryId(DEFAULT_REGISTRY_PREFIX, i + 1));
 
 export const NEUTRAL = [950, 1010, 1040, 980, 1020, 1000];
 export const FULL = [90, 110, 95, 105, 100, 100];
@@ -20,7 +23,12 @@ export function smallMap(swap = false) {
   NEUTRAL.forEach((_, i) => wells.push({ well: `A${i + 1}`, role: swap ? "full" : "neutral" }));
   FULL.forEach((_, i) => wells.push({ well: `B${i + 1}`, role: swap ? "neutral" : "full" }));
   for (let c = 1; c <= 12; c++)
-    wells.push({ well: `C${c}`, role: "sample", compound: `INH-${String(c).padStart(6, "0")}`, concentrationUm: 10 });
+    wells.push({
+      well: `C${c}`,
+      role: "sample",
+      compound: formatRegistryId(DEFAULT_REGISTRY_PREFIX, c),
+      concentrationUm: 10,
+    });
   return plateMapFromWells(96, wells);
 }
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { formatAlpha } from "./alpha";
 
 // The limits of α = Kiu/Kic per model: Copeland, Evaluation of Enzyme Inhibitors in Drug
-// Discovery (2005), from memory; see science.md's table of the four models.
+// Discovery (2005), from memory (the four models as limits of α = Kiu/Kic).
 describe("formatAlpha", () => {
   it("shows a fitted α to three significant figures", () => {
     expect(formatAlpha(3.14159, "mixed")).toBe("3.14");

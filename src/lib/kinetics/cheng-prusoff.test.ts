@@ -5,8 +5,8 @@ import { logistic4 } from "./logistic4";
 import { fitLogistic4 } from "./logistic4";
 import { inhibitedRate } from "./inhibition-models";
 
-// Cheng & Prusoff, Biochem Pharmacol 1973;22:3099; worked values science.md [calc], S = 10, Km = 5.
-describe("Cheng–Prusoff worked values (Cheng & Prusoff 1973; science.md)", () => {
+// Cheng & Prusoff, Biochem Pharmacol 1973;22:3099; worked values computed from its equations, S = 10, Km = 5.
+describe("Cheng–Prusoff worked values (Cheng & Prusoff 1973)", () => {
   it("competitive Ki 1 → IC50 3.0; uncompetitive Kiu 1 → 1.5; noncompetitive Ki 1 → 1.0", () => {
     expect(ic50FromKi("competitive", { s: 10, km: 5, kic: 1 })).toBeCloseTo(3, 12);
     expect(ic50FromKi("uncompetitive", { s: 10, km: 5, kiu: 1 })).toBeCloseTo(1.5, 12);
@@ -39,8 +39,8 @@ describe("Cheng–Prusoff worked values (Cheng & Prusoff 1973; science.md)", () 
 });
 
 // Morrison, Biochim Biophys Acta 1969;185:269 [from memory]; IC50 = K′ + E/2, Copeland et al.,
-// Bioorg Med Chem Lett 1995;5:1947. Check values science.md [calc]: E = 10 nM, K′ = 1 nM.
-describe("Morrison tight-binding equation (Morrison 1969; Copeland et al. 1995; science.md)", () => {
+// Bioorg Med Chem Lett 1995;5:1947. Check values computed with SciPy: E = 10 nM, K′ = 1 nM.
+describe("Morrison tight-binding equation (Morrison 1969; Copeland et al. 1995)", () => {
   it("v/v0 = 0.574166 at I = 5, 0.5 at 6, 0.270156 at 10, 0.084429 at 20; IC50 = 6", () => {
     expect(morrisonFractionalActivity(5, 10, 1)).toBeCloseTo(0.574166, 6);
     expect(morrisonFractionalActivity(6, 10, 1)).toBeCloseTo(0.5, 12);

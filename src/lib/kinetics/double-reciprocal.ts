@@ -2,7 +2,7 @@
  * Double-reciprocal (Lineweaver–Burk) transform, for display only: parameters are always fitted
  * by nonlinear least squares on the untransformed rates, because the transform distorts the error
  * structure (an unweighted double-reciprocal fit of Puromycin gives Vm 195.8, K 0.0484 instead of
- * 212.7, 0.0641 — science.md, SciPy).
+ * 212.7, 0.0641 — computed with SciPy).
  *
  *   1/v = (Km/Vmax)(1 + I/Kic)·(1/S) + (1/Vmax)(1 + I/Kiu)
  *

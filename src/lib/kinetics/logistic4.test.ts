@@ -3,7 +3,7 @@ import { fitLogistic4, logistic4 } from "./logistic4";
 import { extraSumOfSquaresFTest } from "./model-selection";
 import { DNASE_RUN1 } from "./testdata/reference-data";
 
-describe("4PL: R datasets::DNase run 1 (data src; fit values science.md [calc, SciPy 1.17], same as R SSfpl)", () => {
+describe("4PL: R datasets::DNase run 1 (data: R datasets; fit values computed with SciPy 1.17, same as R SSfpl)", () => {
   const fit = fitLogistic4(DNASE_RUN1.conc, DNASE_RUN1.density);
 
   it("bottom −0.0078971, top 2.37724, EC50 4.5150, Hill 0.94111, RSS 0.0047073", () => {

@@ -4,7 +4,7 @@ import { apparentKm, apparentVmax, inhibitedRate, INHIBITION_MODELS, type Inhibi
 import { doubleReciprocalLines, doubleReciprocalPoints } from "./double-reciprocal";
 import { ISDALS_INHIBITOR } from "./testdata/reference-data";
 
-describe("mechanism: isdals `inhibitor` matrix (Ekstrøm & Sørensen, R package isdals; values science.md [calc, SciPy 1.17])", () => {
+describe("mechanism: isdals `inhibitor` matrix (Ekstrøm & Sørensen, R package isdals; values computed with SciPy 1.17)", () => {
   const r = fitMechanism(ISDALS_INHIBITOR);
 
   it("chooses competitive, labelled ambiguous (mixed within ΔAICc 0.46)", () => {

@@ -3,7 +3,7 @@ import { fitMichaelisMenten } from "./michaelis-menten";
 import { PUROMYCIN_TREATED, PUROMYCIN_UNTREATED } from "./testdata/reference-data";
 
 // Puromycin: Treloar 1974 via Bates & Watts 1988 and R datasets::Puromycin (data src); fitted
-// values science.md [calc with SciPy 1.17, agree with R's nls as published in Bates & Watts].
+// values computed with SciPy 1.17; they agree with R's nls as published in Bates & Watts 1988.
 describe("Michaelis–Menten: Puromycin (Treloar 1974; Bates & Watts 1988; R datasets)", () => {
   it("treated: Vm 212.684 (SE 6.947), K 0.064121 (SE 0.008281), residual SE 10.934 on 10 df", () => {
     const f = fitMichaelisMenten(PUROMYCIN_TREATED.conc, PUROMYCIN_TREATED.rate);

@@ -43,7 +43,7 @@ export interface FTestResult {
  * Extra-sum-of-squares F-test of a simpler model (rssSimple, dfSimple = n − p_s) against the
  * more complex model it is nested in (rssComplex, dfComplex = n − p_c). When the complex model
  * fits no better (RSS_c ≥ RSS_s) F = 0 and p = 1.
- * Example: DNase run 1, 3- vs 4-parameter logistic → F 0.2098, p 0.6551 (science.md, SciPy).
+ * Example: DNase run 1, 3- vs 4-parameter logistic → F 0.2098, p 0.6551 (computed with SciPy).
  */
 export function extraSumOfSquaresFTest(
   rssSimple: number,

@@ -3,12 +3,12 @@ import { plateQuality, summarizeControls, zFactor } from "./plate-statistics";
 import { percentInhibition, percentActivity } from "./normalization";
 import { callHits } from "./hit-calling";
 
-// Worked example of science.md "Plate quality and normalisation" [calc with SciPy]; the Z′
+// Worked example of plate quality and normalisation (values computed with SciPy); the Z′
 // definition is Zhang, Chung & Oldenburg, J Biomol Screen 1999;4:67–73.
 const neutral = [950, 1010, 1040, 980, 1020, 1000];
 const full = [90, 110, 95, 105, 100, 100];
 
-describe("plate statistics (Zhang, Chung & Oldenburg 1999 definitions; science.md worked example)", () => {
+describe("plate statistics (Zhang, Chung & Oldenburg 1999 definitions; worked example computed with SciPy)", () => {
   const q = plateQuality(neutral, full);
 
   it("means, SDs (n − 1) and CVs of each control group", () => {
@@ -26,7 +26,7 @@ describe("plate statistics (Zhang, Chung & Oldenburg 1999 definitions; science.m
     expect(q.signalToBackground).toBeCloseTo(10, 10);
   });
 
-  it("a well reading 550 is 50 % inhibition (science.md)", () => {
+  it("a well reading 550 is 50 % inhibition (definition of % inhibition, common practice)", () => {
     expect(percentInhibition(550, 1000, 100)).toBeCloseTo(50, 12);
     expect(percentActivity(550, 1000, 100)).toBeCloseTo(50, 12);
     // rising-signal assays: neutral low, full inhibition high

@@ -10,7 +10,7 @@
  *   [from memory]), where "max" is the control group with the higher mean.
  * - Robust variants replace mean by median and SD by 1.4826·MAD (the consistency factor for
  *   normal data; Rousseeuw & Croux, JASA 1993;88:1273 [from memory]).
- * Example (science.md worked check): neutral 950, 1010, 1040, 980, 1020, 1000; full inhibition
+ * Example (worked check, values computed with SciPy): neutral 950, 1010, 1040, 980, 1020, 1000; full inhibition
  * 90, 110, 95, 105, 100, 100 → Z′ 0.87102, SW 24.79, S/B 10, CV 3.16 % and 7.07 %.
  */
 import { mean, median, medianAbsoluteDeviation, sampleStandardDeviation } from "simple-statistics";

@@ -13,6 +13,7 @@
  * (registered in order as INH-000001 … INH-000300); the screen spreads them evenly over the plates,
  * so most sample positions stay empty. Pass `compoundCount` to use a larger library.
  */
+import { DEFAULT_REGISTRY_PREFIX, formatRegistryId } from "@/lib/registry-id";
 import { writeGridText, writeLongEndpoint } from "./export-writers";
 import type { PlateFormat } from "./geometry";
 import {
@@ -45,7 +46,7 @@ export const DEMO_ENZYME: EnzymeParameters = { vmaxUmPerS: 0.002, kmUm: 20 };
 export const DEMO_SUBSTRATE_UM = 20;
 
 export function compoundId(n: number): string {
-  return `INH-${String(n).padStart(6, "0")}`;
+  return formatRegistryId(DEFAULT_REGISTRY_PREFIX, n);
 }
 
 export const SPECIAL_COMPOUNDS: readonly CompoundTruth[] = [

@@ -1,8 +1,8 @@
 // Checks of the simulator's forward models against outside references:
-// - Cheng & Prusoff, Biochem Pharmacol 1973;22:3099 — IC50 worked values from science.md [calc].
-// - Morrison, Biochim Biophys Acta 1969;185:269 [mem] — values from science.md [calc], and the
+// - Cheng & Prusoff, Biochem Pharmacol 1973;22:3099 — IC50 worked values computed from its equations (S = 10, Km = 5).
+// - Morrison, Biochim Biophys Acta 1969;185:269 [mem] — values computed with SciPy (E = 10 nM, K′ = 1 nM), and the
 //   binding equilibrium solved independently with SciPy's brentq.
-// - Four-parameter logistic: R `datasets::DNase` run 1 with the fitted parameters in science.md
+// - Four-parameter logistic: R `datasets::DNase` run 1 with the parameters fitted by SciPy (same model as R SSfpl)
 //   [src data, calc fit]; the residual sum of squares must come back as 0.0047073.
 // - Progress curves with substrate depletion: SciPy's solve_ivp (an outside ODE solver).
 // - Gaussian noise: SciPy's Kolmogorov–Smirnov test against the standard normal.
@@ -30,7 +30,7 @@ function python(code: string, input: unknown): unknown {
   return JSON.parse(execFileSync("python3", ["-c", code], { input: JSON.stringify(input) }).toString());
 }
 
-describe("steady-state models and Cheng–Prusoff (science.md worked checks, S = 10, Km = 5)", () => {
+describe("steady-state models and Cheng–Prusoff (Cheng & Prusoff 1973 worked checks, S = 10, Km = 5)", () => {
   const enzyme = { vmaxUmPerS: 1, kmUm: 5 };
   const cases: [string, CompoundTruth, number, number][] = [
     ["competitive Ki 1", { id: "X", kind: "mechanism", model: "competitive", kicUm: 1 }, 10, 3.0],
@@ -53,7 +53,7 @@ describe("steady-state models and Cheng–Prusoff (science.md worked checks, S =
 });
 
 describe("Morrison tight binding (E = 10 nM, K′ = 1 nM)", () => {
-  it("matches science.md's values and an independent root of the binding equilibrium (SciPy brentq)", () => {
+  it("matches the worked values and an independent root of the binding equilibrium (SciPy brentq)", () => {
     const expected: [number, number][] = [
       [5, 0.574166],
       [6, 0.5],

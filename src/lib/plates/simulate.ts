@@ -62,7 +62,7 @@ export interface EnzymeParameters {
 /**
  * Steady-state rate for the mixed model v = Vmax·S / (Km(1+I/Kic) + S(1+I/Kiu)); competitive has
  * 1/Kiu = 0, uncompetitive 1/Kic = 0, noncompetitive Kic = Kiu (Segel 1975; Cornish-Bowden
- * [mem]; see science.md). Pass Infinity (or omit) for an absent constant.
+ * [mem]). Pass Infinity (or omit) for an absent constant.
  */
 export function steadyStateRate(
   enzyme: EnzymeParameters,
@@ -91,7 +91,7 @@ export function morrisonActivity(enzymeUm: number, iUm: number, kiAppUm: number)
 
 /**
  * Four-parameter logistic y = Bottom + (Top − Bottom)/(1 + 10^(h·(log10 x − log10 IC50))) — the
- * form in science.md, the same model as R's SSfpl.
+ * form, the same model as R's SSfpl on ln x.
  */
 export function fourParameterLogistic(
   x: number,
