@@ -1,23 +1,34 @@
 // The background worker: runs queued analyses and the weekly digest schedule (pg-boss jobs in
-// Postgres) so a campaign-sized
-// analysis never blocks a request, and survives page reloads and restarts. Started by
-// `npm start`; several workers may run at once (a job is taken by one of them).
+// Postgres) so a campaign-sized analysis never blocks a request, and survives page reloads and
+// restarts. Started by `npm start`; several workers may run at once (a job is taken by one of
+// them). It reads the parsed environment (src/env.ts) and exits non-zero when set-up fails.
 import PgBoss from "pg-boss";
 import { runAnalysis } from "@/server/services/analyses";
 import { QUEUES, DIGEST_TICK_CRON } from "@/server/jobs/boss";
 import { sendDueDigests } from "@/server/services/digest";
 import { sqlClient } from "@/server/db/client";
+import { env } from "@/env";
 
-const url = process.env.DATABASE_URL;
-if (!url) {
+if (!env.DATABASE_URL) {
   console.error("[worker] DATABASE_URL is not set.");
   process.exit(2);
 }
 
-const boss = new PgBoss({ connectionString: url, schema: "pgboss", max: 4 });
+/** Set-up that must succeed: without its queues the worker would run and silently do nothing. */
+async function required<T>(what: string, p: Promise<T>): Promise<T> {
+  try {
+    return await p;
+  } catch (e) {
+    console.error(`[worker] cannot ${what}: ${e instanceof Error ? e.message : String(e)}`);
+    process.exit(1);
+  }
+}
+
+const boss = new PgBoss({ connectionString: env.DATABASE_URL, schema: "pgboss", max: 4 });
 boss.on("error", (e) => console.error("[worker]", e.message));
-await boss.start();
-await boss.createQueue(QUEUES.analysis).catch(() => {});
+await required("start the job queue (pg-boss)", boss.start());
+// createQueue is idempotent in pg-boss 10 (insert … on conflict do nothing), so an error here is real.
+await required(`create the queue "${QUEUES.analysis}"`, boss.createQueue(QUEUES.analysis));
 await boss.work<{ analysisId: string }>(QUEUES.analysis, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
   if (!job) return;
   const t0 = Date.now();
@@ -26,8 +37,11 @@ await boss.work<{ analysisId: string }>(QUEUES.analysis, { batchSize: 1, polling
 });
 // The weekly digest: a schedule kept in Postgres by pg-boss (it survives restarts); each tick
 // sends what is due and retries failed sends whose backoff has passed. Sending is idempotent.
-await boss.createQueue(QUEUES.digestTick).catch(() => {});
-await boss.schedule(QUEUES.digestTick, DIGEST_TICK_CRON, {}, { tz: "UTC", retryLimit: 3, retryBackoff: true });
+await required(`create the queue "${QUEUES.digestTick}"`, boss.createQueue(QUEUES.digestTick));
+await required(
+  "schedule the weekly digest",
+  boss.schedule(QUEUES.digestTick, DIGEST_TICK_CRON, {}, { tz: "UTC", retryLimit: 3, retryBackoff: true }),
+);
 await boss.work(QUEUES.digestTick, { batchSize: 1, pollingIntervalSeconds: 5 }, async () => {
   const r = await sendDueDigests();
   if (r.sent > 0) console.log(`[worker] weekly digest: ${r.sent} sent for ${r.campaigns} campaign(s)`);

@@ -26,7 +26,8 @@ export function boss(): Promise<PgBoss> {
     });
     b.on("error", (e) => console.error("[jobs]", e));
     await b.start();
-    await b.createQueue(QUEUES.analysis).catch(() => {});
+    // Idempotent in pg-boss 10: an error here is real, and a send without the queue would be lost.
+    await b.createQueue(QUEUES.analysis);
     return b;
   })();
   return starting;
