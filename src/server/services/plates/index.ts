@@ -1,0 +1,15 @@
+import "server-only";
+/** Plate use cases: plate maps, uploads of reader exports, QC review (masks, decisions), and reading runs back. */
+export { issueDetails } from "./errors";
+export { createPlateMap, getPlateMap, listPlateMaps, updatePlateMap, type PlateMapInput } from "./plate-maps";
+export {
+  previewRun,
+  s3KeyFor,
+  uploadRun,
+  UPLOAD_LIMIT_BYTES,
+  type RunPreview,
+  type RunSummary,
+  type UploadInput,
+} from "./upload";
+export { decideRun, maskWell, unmaskWell } from "./review";
+export { getRawFile, getRunDetail, listRuns, zPrimeTrend } from "./readings";
