@@ -10,7 +10,7 @@ import os from "node:os";
 import { sql } from "drizzle-orm";
 import { db, sqlClient } from "@/server/db/client";
 import { users } from "@/server/db/schema";
-import { commitImport, getImport, startImport, type ImportPreview } from "@/server/services/compound-imports";
+import { commitImport, getImport, startImport, type ImportPreview } from "@/server/services/compounds";
 import { inventedSmiles } from "./_compound-data";
 
 const N = Number(process.argv[2] ?? 10_000);

@@ -15,7 +15,7 @@ import { sql } from "drizzle-orm";
 import { db, sqlClient } from "@/server/db/client";
 import { env } from "@/env";
 import { parseCsvImport } from "@/lib/chem/import-table";
-import { prepareAll } from "@/server/services/compound-prepare-pool";
+import { prepareAll } from "@/server/services/compounds/prepare-pool";
 import { insertCompounds, searchCompounds } from "@/server/services/compounds";
 import { SEARCH_FRAGMENTS, inventedSmiles, median } from "./_compound-data";
 

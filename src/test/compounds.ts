@@ -7,15 +7,15 @@ import { db } from "@/server/db/client";
 import { compounds } from "@/server/db/schema";
 import { env } from "@/env";
 import { demoCompounds } from "@/lib/chem/demo-compounds";
+import { formatRegistryId } from "@/server/registry-id";
 import {
   registerCompound,
   createLibrary,
-  formatRegistryId,
   insertCompounds,
   prepareStructure,
+  startImport,
   type PreparedCompound,
 } from "@/server/services/compounds";
-import { startImport } from "@/server/services/compound-imports";
 import type { World } from "./harness";
 
 /**

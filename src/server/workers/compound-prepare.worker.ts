@@ -1,6 +1,6 @@
 // A worker thread that runs the chemistry library's import preparation (structure parse,
 // properties, fingerprint) on chunks of records, so a 10,000-record import uses both cores and
-// the server's event loop stays free. Started by src/server/services/compound-prepare-pool.ts
+// the server's event loop stays free. Started by src/server/services/compounds/prepare-pool.ts
 // through boot.mjs, which registers tsx (the same TypeScript source as the rest of the server).
 // It does not import "server-only": a worker thread is outside React's server condition, and it
 // only imports the pure chemistry library. No I/O here.

@@ -1,7 +1,7 @@
 import { requireCapabilityAnywhere } from "@/server/auth/guard";
 import { json, route } from "@/server/http";
 import { readMultipart } from "@/server/multipart";
-import { importView, startImport } from "@/server/services/compound-imports";
+import { importView, startImport } from "@/server/services/compounds";
 import { MAX_IMPORT_BYTES } from "@/lib/chem/import-types";
 import { importUploadForm } from "./schema";
 

@@ -2,7 +2,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { pageUser } from "@/server/auth/page-guard";
 import { canWriteCompounds } from "@/server/auth/compound-access";
-import { listImports } from "@/server/services/compound-imports";
+import { listImports } from "@/server/services/compounds";
 import { ChemicalSafetyNote } from "@/components/ui/caution";
 import { ImportUploadForm } from "./upload-form";
 

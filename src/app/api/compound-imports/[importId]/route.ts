@@ -1,6 +1,6 @@
 import { requireUser } from "@/server/auth/guard";
 import { json, route } from "@/server/http";
-import { getImport, importView } from "@/server/services/compound-imports";
+import { getImport, importView } from "@/server/services/compounds";
 import { importIdParam } from "./schema";
 
 export const dynamic = "force-dynamic";

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { pageUser } from "@/server/auth/page-guard";
 import { canWriteCompounds } from "@/server/auth/compound-access";
 import { AppError } from "@/server/errors";
-import { getImport } from "@/server/services/compound-imports";
+import { getImport } from "@/server/services/compounds";
 import { ChemicalSafetyNote } from "@/components/ui/caution";
 import { ImportJob } from "./import-job";
 

@@ -1,6 +1,6 @@
 import { requireCapabilityAnywhere } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
-import { commitImport, getImport, importView } from "@/server/services/compound-imports";
+import { commitImport, getImport, importView } from "@/server/services/compounds";
 import { importIdParam } from "../schema";
 import { commitBody } from "./schema";
 

@@ -1,6 +1,6 @@
 import { requireUser } from "@/server/auth/guard";
 import { route } from "@/server/http";
-import { getImport, importReportCsv } from "@/server/services/compound-imports";
+import { getImport, importReportCsv } from "@/server/services/compounds";
 import { importIdParam } from "./schema";
 
 export const dynamic = "force-dynamic";
