@@ -1,6 +1,6 @@
 // Common practice: registry IDs are a prefix and a zero-padded serial number; the product's own
-// format (six digits, longer numbers written in full) is checked here against the SQL that issues
-// IDs in bulk in src/server/services (compounds.int.test.ts runs it in Postgres).
+// format (six digits, longer numbers written in full) is checked here; the SQL that issues IDs in
+// bulk is checked against it in Postgres by src/server/services/compounds/registry-id.int.test.ts.
 import { describe, expect, it } from "vitest";
 import { formatRegistryId, looksLikeRegistryId, registryIdPattern, registryNumber } from "./registry-id";
 

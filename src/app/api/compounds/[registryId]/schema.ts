@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { REGISTRY_ID_SHAPE } from "@/lib/registry-id";
 
 /** Path of GET /api/compounds/{registryId}. */
 export const registryIdParam = z.object({
@@ -7,5 +8,5 @@ export const registryIdParam = z.object({
     .trim()
     .min(1)
     .max(40, "registryId is too long")
-    .regex(/^[A-Za-z][A-Za-z0-9]{0,7}-\d{1,9}$/, "registryId must look like INH-000123"),
+    .regex(new RegExp(`^${REGISTRY_ID_SHAPE.source}$`), "registryId must look like INH-000123"),
 });
