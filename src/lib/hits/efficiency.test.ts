@@ -2,7 +2,14 @@
 // pKi = −log10(Ki / M); LE = 1.37·pKi/HA (Hopkins, Groom & Alex, Drug Discov Today 2004);
 // LipE = pKi − cLogP (Leeson & Springthorpe, Nat Rev Drug Discov 2007).
 import { describe, it, expect } from "vitest";
-import { ligandEfficiency, lipophilicEfficiency, pKiFromMicromolar } from "./efficiency";
+import {
+  efficiencySql,
+  LE_KCAL_PER_MOL_PER_LOG_UNIT,
+  ligandEfficiency,
+  lipophilicEfficiency,
+  PKI_OFFSET_UM,
+  pKiFromMicromolar,
+} from "./efficiency";
 
 describe("pKi, LE and LipE from their published definitions", () => {
   it("Ki 10 nM (0.01 µM) is pKi 8; 1 µM is 6; 1 mM is 3", () => {
@@ -22,5 +29,16 @@ describe("pKi, LE and LipE from their published definitions", () => {
     expect(ligandEfficiency(8, 0)).toBeNull();
     expect(ligandEfficiency(null, 25)).toBeNull();
     expect(lipophilicEfficiency(8, null)).toBeNull();
+  });
+});
+
+describe("the SQL text of the same definitions", () => {
+  it("is built from the same constants (pKi offset 6 for µM, LE factor 1.37)", () => {
+    expect(PKI_OFFSET_UM).toBe(6);
+    expect(LE_KCAL_PER_MOL_PER_LOG_UNIT).toBe(1.37);
+    const s = efficiencySql({ kiUm: "m.ki_um", pKi: "b.p_ki", heavyAtoms: "b.heavy_atoms", clogp: "b.clogp" });
+    expect(s.pKi).toBe("case when m.ki_um > 0 then 6 - log(m.ki_um) end");
+    expect(s.le).toBe("case when b.heavy_atoms > 0 then 1.37 * b.p_ki / b.heavy_atoms end");
+    expect(s.lipe).toBe("b.p_ki - b.clogp");
   });
 });
