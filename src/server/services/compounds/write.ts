@@ -64,6 +64,14 @@ export function structureColumns(p: CompoundProperties, molfile: string | null |
   };
 }
 
+/** `count` registry numbers from the sequence, ascending, so the first item registered gets the lowest ID. */
+export async function drawRegistryNumbers(tx: Tx, count: number): Promise<number[]> {
+  const rows = await tx.execute<{ n: number }>(
+    sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${count}::int)`,
+  );
+  return rows.map((r) => Number(r.n)).sort((a, b) => a - b);
+}
+
 /**
  * Inserts compounds (and their batches and stocks) inside the caller's transaction, in order:
  * registry numbers are drawn from the sequence and given in ascending order, so the first item
@@ -76,13 +84,7 @@ export async function insertCompounds(
   items: readonly PreparedCompound[],
 ): Promise<{ id: string; registryId: string }[]> {
   if (items.length === 0) return [];
-  const numbers = (
-    await tx.execute<{ n: number }>(
-      sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${items.length}::int)`,
-    )
-  )
-    .map((r) => Number(r.n))
-    .sort((a, b) => a - b);
+  const numbers = await drawRegistryNumbers(tx, items.length);
   const out: { id: string; registryId: string }[] = [];
   const rows = items.map((it, i) => {
     const p = it.properties;

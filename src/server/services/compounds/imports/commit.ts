@@ -7,7 +7,7 @@ import type { Actor } from "@/server/auth/actor";
 import { formatRegistryId, registryIdSql } from "@/server/registry-id";
 import type { ImportIssue } from "@/lib/chem/import-types";
 import { audit } from "../../audit";
-import type { PreparedCompound } from "../write";
+import { drawRegistryNumbers, type PreparedCompound } from "../write";
 import type { ImportMode, ImportPreview, ImportResult } from "./types";
 import { getImport } from "./view";
 
@@ -142,13 +142,7 @@ async function insertFromStaging(
   recordNos: number[],
 ): Promise<{ registryId: string }[]> {
   if (recordNos.length === 0) return [];
-  const numbers = (
-    await tx.execute<{ n: number }>(
-      sql`select nextval('compound_number_seq')::int as n from generate_series(1, ${recordNos.length}::int)`,
-    )
-  )
-    .map((r) => Number(r.n))
-    .sort((a, b) => a - b);
+  const numbers = await drawRegistryNumbers(tx, recordNos.length);
   const recs = sql`${`{${recordNos.join(",")}}`}::int[]`;
   const nums = sql`${`{${numbers.join(",")}}`}::int[]`;
   await tx.execute(sql`
