@@ -43,7 +43,8 @@ describe("results across campaigns", () => {
       nPoints: 2,
       pctInhibition: 63.5,
       hit: true,
-      detail: {},
+      // A single-dose result's detail: the 50 % rule at one tested concentration (invented).
+      detail: { thresholdPct: 50, rule: { kind: "percent", thresholdPercent: 50 }, concentrationsUm: [10] },
     });
     const seen = await resultsForCompound({ id: w.people.viewer.id, globalRole: "member" }, registryId);
     expect(seen).toHaveLength(1);
