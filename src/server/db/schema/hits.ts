@@ -21,7 +21,7 @@ export const triageStatus = pgEnum("triage_status", ["unreviewed", "confirmed", 
 /**
  * One row per (campaign, compound) with any current result: every figure the hit grid sorts or
  * filters on, denormalised so a sorted, filtered page of 100 out of 100,000 is an index scan.
- * Written only by refreshHitRows (src/server/services/hits.ts), inside the transaction that
+ * Written only by refreshHitRows (src/server/services/hits/refresh.ts), inside the transaction that
  * changed what it summarises (analysis results, a mechanism override, a triage decision, a
  * comment). Concentrations in µM; LE in kcal/mol per heavy atom; MW in g/mol.
  */

@@ -1,7 +1,6 @@
 import { requireCampaign } from "@/server/auth/guard";
 import { parseQuery, route } from "@/server/http";
-import { exportHits } from "@/server/services/hits";
-import { hitsCsv, hitsXlsx } from "@/server/services/hits-export";
+import { exportHits, hitsCsv, hitsXlsx } from "@/server/services/hits";
 import { exportQuery } from "./schema";
 
 export const dynamic = "force-dynamic";

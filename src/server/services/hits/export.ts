@@ -1,12 +1,28 @@
 import "server-only";
 import ExcelJS from "exceljs";
-import { triageLabels, type TriageStatus } from "@/lib/hits/query";
-import type { HitItem } from "./hits";
+import { db } from "@/server/db/client";
+import { hitRows } from "@/server/db/schema";
+import { neutraliseFormula, toCsv } from "@/lib/csv/write";
+import { triageLabels, type HitFilter } from "@/lib/hits/query";
+import { hitJson, orderOf, rowColumns, whereOf, type HitItem } from "./list";
 
 /**
  * Export of the hit grid's current view. Numbers stay numbers (concentrations in µM, units in
  * the headers); text that a spreadsheet would read as a formula is neutralised.
  */
+
+export const EXPORT_MAX_ROWS = 100_000;
+
+/** Every row of the view (same filter and order as the grid), up to EXPORT_MAX_ROWS. */
+export async function exportHits(campaignId: string, f: HitFilter): Promise<{ items: HitItem[]; truncated: boolean }> {
+  const rows = await db
+    .select(rowColumns)
+    .from(hitRows)
+    .where(whereOf(campaignId, f))
+    .orderBy(orderOf(f))
+    .limit(EXPORT_MAX_ROWS + 1);
+  return { items: rows.slice(0, EXPORT_MAX_ROWS).map(hitJson), truncated: rows.length > EXPORT_MAX_ROWS };
+}
 
 type Cell = string | number | boolean | null;
 type Column = { header: string; value: (r: HitItem) => Cell; width?: number };
@@ -36,34 +52,22 @@ export const exportColumns: Column[] = [
   { header: "cLogP", value: (r) => r.clogp },
   { header: "Heavy atoms", value: (r) => r.heavyAtoms },
   { header: "Flags", value: (r) => r.flags.join("; "), width: 30 },
-  { header: "Triage status", value: (r) => triageLabels[r.status as TriageStatus] ?? r.status, width: 12 },
+  { header: "Triage status", value: (r) => triageLabels[r.status] ?? r.status, width: 12 },
   { header: "Owner", value: (r) => r.owner, width: 20 },
   { header: "Last tested (UTC)", value: (r) => r.lastTested, width: 22 },
   { header: "Comments", value: (r) => r.comments },
 ];
 
 /**
- * A text cell that starts with = + - @, a tab or a carriage return is prefixed with a single
- * quote, so a spreadsheet shows it as text instead of running it as a formula (OWASP, "CSV
- * Injection"). Numbers are never touched: a negative LipE stays a number.
+ * The view as CSV (RFC 4180, CRLF): the header as it is, data cells through the one
+ * formula-injection rule of src/lib/csv/write.ts; numbers stay numbers (a negative LipE too).
  */
-export function neutralise(v: Cell): Cell {
-  if (typeof v !== "string") return v;
-  return /^[=+\-@\t\r]/.test(v) ? `'${v}` : v;
-}
-
-/** RFC 4180 quoting: a field with a comma, quote, CR or LF is quoted and quotes doubled. */
-function csvField(v: Cell): string {
-  if (v === null || v === undefined) return "";
-  if (typeof v === "number") return Number.isFinite(v) ? String(v) : "";
-  const s = String(v);
-  return /[",\r\n]/.test(s) || s !== s.trim() ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
 export function hitsCsv(items: HitItem[]): string {
-  const lines = [exportColumns.map((c) => csvField(c.header)).join(",")];
-  for (const r of items) lines.push(exportColumns.map((c) => csvField(neutralise(c.value(r)))).join(","));
-  return `${lines.join("\r\n")}\r\n`;
+  return toCsv(
+    exportColumns.map((c) => c.header),
+    items.map((r) => exportColumns.map((c) => c.value(r))),
+    { eol: "\r\n", neutralise: true },
+  );
 }
 
 export async function hitsXlsx(
@@ -76,17 +80,18 @@ export async function hitsXlsx(
   const ws = wb.addWorksheet("Hits", { views: [{ state: "frozen", ySplit: 1, xSplit: 1 }] });
   ws.columns = exportColumns.map((c) => ({ header: c.header, width: c.width ?? Math.max(10, c.header.length + 2) }));
   ws.getRow(1).font = { bold: true };
-  for (const r of items) ws.addRow(exportColumns.map((c) => neutralise(c.value(r))));
+  for (const r of items) ws.addRow(exportColumns.map((c) => neutraliseFormula(c.value(r))));
   const about = wb.addWorksheet("About");
-  const notes = [
+  const truncation: [string, Cell][] = meta.truncated
+    ? [["Note", `Only the first ${items.length} rows of the view are exported; narrow the filters for the rest.`]]
+    : [];
+  const notes: [string, Cell][] = [
     ["Campaign", meta.campaignName],
     ["Exported", new Date().toISOString()],
     ["Exported by", meta.exportedBy],
     ["View (sort and filters)", meta.query || "default ranked order, no filters"],
     ["Rows", items.length],
-    ...(meta.truncated
-      ? [["Note", `Only the first ${items.length} rows of the view are exported; narrow the filters for the rest.`]]
-      : []),
+    ...truncation,
     [
       "Units",
       "Concentrations (Ki, Kic, Kiu, IC50) in µM; MW in g/mol; LE in kcal/mol per heavy atom at 298 K; LipE = pKi − cLogP.",
@@ -95,8 +100,8 @@ export async function hitsXlsx(
       "Caution",
       "Research use only. Potency and mechanism calls depend on assay conditions and must be reviewed by a qualified scientist before decisions; rows with flags are not clean fits.",
     ],
-  ] as [string, Cell][];
-  for (const [k, v] of notes) about.addRow([k, neutralise(v)]);
+  ];
+  for (const [k, v] of notes) about.addRow([k, neutraliseFormula(v)]);
   about.getColumn(1).width = 26;
   about.getColumn(2).width = 100;
   return Buffer.from(await wb.xlsx.writeBuffer());
