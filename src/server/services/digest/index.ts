@@ -1,0 +1,19 @@
+import "server-only";
+/**
+ * The weekly digest's use cases: its week and schedule (week), signed opt-out links and
+ * opt-outs (opt-out), what it says (content), sending it once per member and week (send), the
+ * send log (log) and the campaign's schedule setting (schedule).
+ */
+export { digestDue, digestWeek } from "./week";
+export { optIn, optOut, optOutToken, optOutsOf, readOptOutToken } from "./opt-out";
+export { gatherDigest, previewDigest, renderDigest } from "./content";
+export {
+  MAX_ATTEMPTS,
+  RETRY_DELAYS_MS,
+  recipients,
+  sendCampaignDigest,
+  sendDueDigests,
+  type SendSummary,
+} from "./send";
+export { sendLog } from "./log";
+export { setSchedule } from "./schedule";
