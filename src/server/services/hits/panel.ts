@@ -11,6 +11,7 @@ import {
   type ExperimentSettings,
 } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
+import type { ExperimentKind } from "@/lib/analysis/kinds";
 import { triageLabels } from "@/lib/hits/query";
 import { hitJson, rowColumns } from "./list";
 
@@ -24,7 +25,7 @@ export async function hitDetail(campaignId: string, registryId: string) {
   const [compound] = await db.select().from(compounds).where(eq(compounds.registryId, registryId));
   const [results, batches, history, comments] = await Promise.all([
     db.execute<{
-      kind: string;
+      kind: ExperimentKind;
       experiment_id: string;
       experiment_name: string;
       settings: ExperimentSettings | null;

@@ -2,11 +2,12 @@
 import Link from "next/link";
 import { useEffect, useState } from "react";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
-import { triageLabels, triageStatuses } from "@/lib/hits/query";
-import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
+import { triageLabels, triageStatuses, type TriageStatus } from "@/lib/hits/query";
+import { INHIBITION_MODELS, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
+import { isFittedDoseResponse, isFittedMechanism, parseResultDetail } from "@/lib/analysis/detail";
 import { hitActions, hitStructureUrl, useHitDetail, type HitDetail } from "@/hooks/use-hits";
-import { DoseResponsePlot, type DoseResponseFitView } from "@/components/plots/dose-response-plot";
-import { DoubleReciprocalPlot, RateVsSubstratePlot, type MechanismModelView } from "@/components/plots/mechanism-plots";
+import { DoseResponsePlot } from "@/components/plots/dose-response-plot";
+import { DoubleReciprocalPlot, RateVsSubstratePlot } from "@/components/plots/mechanism-plots";
 import { Flags, kindLabel } from "../../analyses/_components/labels";
 import { MechanismCell, StatusChip } from "./status";
 import { formatAlpha } from "@/lib/analysis/alpha";
@@ -23,6 +24,18 @@ type Props = {
 const when = (iso: string) => new Date(iso).toLocaleString("en-GB", { dateStyle: "medium", timeStyle: "short" });
 const fixed = (v: number | null | undefined, d: number) =>
   v === null || v === undefined || !Number.isFinite(v) ? "—" : v.toFixed(d);
+const messageOf = (e: unknown) => (e instanceof Error ? e.message : String(e));
+const isModel = (m: string | undefined): m is InhibitionModel => INHIBITION_MODELS.some((x) => x === m);
+const isStatus = (s: string): s is TriageStatus => triageStatuses.some((x) => x === s);
+
+/** A stored detail read through its schema, or the sentence that says where it does not match. */
+function readDetail<T>(parse: () => T): { ok: true; detail: T } | { ok: false; message: string } {
+  try {
+    return { ok: true, detail: parse() };
+  } catch (e) {
+    return { ok: false, message: messageOf(e) };
+  }
+}
 
 /** The compound panel: opens beside the grid (the grid stays where it was). */
 export function HitPanel({ campaignId, registryId, canTriage, canComment, onClose, onChanged }: Props) {
@@ -246,8 +259,6 @@ function Row({ label, children }: { label: string; children: React.ReactNode }) 
   );
 }
 
-type ModelSummary = MechanismModelView & { alpha: number | null };
-
 function ResultSection({
   campaignId,
   registryId,
@@ -267,9 +278,17 @@ function ResultSection({
       <span className="ml-auto text-2xs text-ink-faint">{res.nPoints} wells</span>
     </p>
   );
+  const unreadable = (message: string) => (
+    <section>
+      {head}
+      <p className="text-xs text-fail">{message}</p>
+    </section>
+  );
   if (res.kind === "dose-response") {
-    const det = res.detail as { fit?: DoseResponseFitView; points?: [number, number][] };
-    if (!det.points?.length) return <section>{head}</section>;
+    const read = readDetail(() => parseResultDetail("dose-response", res.detail));
+    if (!read.ok) return unreadable(read.message);
+    const det = read.detail;
+    if (!det.points.length) return <section>{head}</section>;
     return (
       <section>
         {head}
@@ -277,7 +296,7 @@ function ResultSection({
           <DoseResponsePlot
             points={det.points.map((p) => [p[0], p[1]])}
             masked={[]}
-            fit={det.fit ?? null}
+            fit={isFittedDoseResponse(det) ? det.fit : null}
             height={320}
           />
         </div>
@@ -285,15 +304,15 @@ function ResultSection({
     );
   }
   if (res.kind === "mechanism") {
-    const det = res.detail as {
-      models?: Record<InhibitionModel, ModelSummary>;
-      points?: [number, number, number][];
-      best?: InhibitionModel;
-    };
-    const chosen = ((res.override?.model as InhibitionModel | undefined) ?? det.best) as InhibitionModel | undefined;
-    const fit = chosen ? det.models?.[chosen] : undefined;
-    if (!det.points?.length || !chosen || !fit) return <section>{head}</section>;
-    const pts = det.points.map((p) => [p[0], p[1], p[2]] as [number, number, number]);
+    const read = readDetail(() => parseResultDetail("mechanism", res.detail));
+    if (!read.ok) return unreadable(read.message);
+    const det = read.detail;
+    if (!isFittedMechanism(det)) return <section>{head}</section>;
+    const override = res.override?.model;
+    const chosen = isModel(override) ? override : det.best;
+    const fit = det.models[chosen];
+    const pts = det.points.flatMap<[number, number, number]>(([s, i, v]) => (v === null ? [] : [[s, i, v]]));
+    if (!pts.length) return <section>{head}</section>;
     return (
       <section>
         {head}
@@ -319,10 +338,10 @@ function TriageForm({
 }: {
   campaignId: string;
   registryId: string;
-  current: string;
+  current: TriageStatus;
   onDone: () => void;
 }) {
-  const [status, setStatus] = useState(current === "unreviewed" ? "confirmed" : current);
+  const [status, setStatus] = useState<TriageStatus>(current === "unreviewed" ? "confirmed" : current);
   const [comment, setComment] = useState("");
   const [busy, setBusy] = useState(false);
   const [msg, setMsg] = useState<{ ok: boolean; text: string } | null>(null);
@@ -331,11 +350,11 @@ function TriageForm({
     setBusy(true);
     try {
       await hitActions.setStatus(campaignId, registryId, status, comment);
-      setMsg({ ok: true, text: `Recorded: ${triageLabels[status as keyof typeof triageLabels]}.` });
+      setMsg({ ok: true, text: `Recorded: ${triageLabels[status]}.` });
       setComment("");
       onDone();
     } catch (err) {
-      setMsg({ ok: false, text: (err as Error).message });
+      setMsg({ ok: false, text: messageOf(err) });
     } finally {
       setBusy(false);
     }
@@ -347,7 +366,7 @@ function TriageForm({
         <select
           className="input w-40"
           value={status}
-          onChange={(e) => setStatus(e.target.value)}
+          onChange={(e) => isStatus(e.target.value) && setStatus(e.target.value)}
           aria-label="New status"
           name="status"
         >
@@ -400,7 +419,7 @@ function CommentForm({
       setErr(null);
       onDone();
     } catch (x) {
-      setErr((x as Error).message);
+      setErr(messageOf(x));
     }
   }
   return (
