@@ -1,36 +1,14 @@
 "use client";
 import useSWR from "swr";
 import { fetchJson } from "./fetcher";
+import { apiPaths } from "./api-paths";
+import type { SearchResult, importView } from "@/server/services/compounds";
 
-/** One row of GET /api/compounds (units: mw g/mol, exactMass Da, tpsa Å²). */
-export type CompoundItem = {
-  id: string;
-  registryId: string;
-  name: string | null;
-  aliases: string[];
-  smiles: string;
-  formula: string;
-  mw: number;
-  exactMass: number;
-  heavyAtoms: number;
-  clogp: number;
-  hbd: number;
-  hba: number;
-  tpsa: number;
-  rotatableBonds: number;
-  registeredAt: string;
-  svg?: string;
-  rank?: string;
-};
+/** One row of GET /api/compounds (units: mw g/mol, exactMass Da, tpsa Å²): the server's own type. */
+export type CompoundItem = SearchResult["items"][number];
 
-export type CompoundPage = {
-  items: CompoundItem[];
-  total: number;
-  totalIsLowerBound: boolean;
-  limit: number;
-  offset: number;
-  substructure?: { understoodAs: string; candidates: number; checked: number; timedOut: boolean };
-};
+/** GET /api/compounds: a page of the registry. */
+export type CompoundPage = SearchResult & { limit: number; offset: number };
 
 export type CompoundSearchParams = {
   q?: string;
@@ -50,7 +28,7 @@ export function compoundSearchUrl(p: CompoundSearchParams): string {
     const v = p[k];
     if (v !== undefined && v !== "") qs.set(k, v);
   }
-  return `/api/compounds?${qs.toString()}`;
+  return `${apiPaths.compounds}?${qs.toString()}`;
 }
 
 /** A page of the registry (search, substructure, sort, filters), paged on the server. */
@@ -58,48 +36,28 @@ export function useCompoundSearch(p: CompoundSearchParams) {
   return useSWR<CompoundPage>(compoundSearchUrl(p), fetchJson, { keepPreviousData: true, revalidateOnFocus: false });
 }
 
-export type ImportIssue = { record: number; line: number; field: string; message: string };
-export type ImportJobView = {
-  id: string;
-  fileName: string;
-  sha256: string;
-  sizeBytes: number;
-  format: string;
-  status: "stored" | "preparing" | "ready" | "failed" | "committing" | "committed";
-  progress: { done: number; total: number };
-  error: string | null;
-  mode: "all_or_nothing" | "valid_only" | null;
-  createdAt: string;
-  committedAt: string | null;
-  preview: null | {
-    format: string;
-    totalRecords: number;
-    valid: number;
-    invalid: number;
-    invalidRecords: number[];
-    issues: ImportIssue[];
-    issuesShown: number;
-    issuesTotal: number;
-    warnings: ImportIssue[];
-    warningsTotal: number;
-    ignoredFields: string[];
-    sample: { record: number; line: number; name: string | null; smiles: string; formula: string; mw: number }[];
-    prepareMs: number;
-  };
-  result: null | {
-    mode: string;
-    registered: number;
-    notRegistered: number;
-    firstRegistryId: string | null;
-    lastRegistryId: string | null;
-  };
-};
+/** GET/POST /api/compound-imports…: an import job as the server writes it. */
+export type ImportJobView = ReturnType<typeof importView>;
 
-export const importJobUrl = (id: string) => `/api/compound-imports/${id}`;
+/** Step 1 of an import: send the file; the server stores it with its checksum and starts preparing it. */
+export function startCompoundImport(file: File): Promise<ImportJobView> {
+  const body = new FormData();
+  body.append("file", file);
+  return fetchJson<ImportJobView>(apiPaths.compoundImports, { method: "POST", body });
+}
+
+/** Step 3: register the prepared records, all or nothing or the valid ones only. */
+export function commitCompoundImport(id: string, mode: "all_or_nothing" | "valid_only"): Promise<ImportJobView> {
+  return fetchJson<ImportJobView>(apiPaths.compoundImportCommit(id), {
+    method: "POST",
+    headers: { "content-type": "application/json" },
+    body: JSON.stringify({ mode }),
+  });
+}
 
 /** An import job, polled every second while it is being prepared (a reload shows the same progress). */
 export function useImportJob(id: string) {
-  return useSWR<ImportJobView>(importJobUrl(id), fetchJson, {
+  return useSWR<ImportJobView>(apiPaths.compoundImport(id), fetchJson, {
     refreshInterval: (data) =>
       !data || data.status === "stored" || data.status === "preparing" || data.status === "committing" ? 1000 : 0,
   });

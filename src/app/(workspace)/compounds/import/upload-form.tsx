@@ -1,8 +1,8 @@
 "use client";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { ApiError, fetchJson } from "@/hooks/fetcher";
-import type { ImportJobView } from "@/hooks/use-compounds";
+import { ApiError } from "@/hooks/fetcher";
+import { startCompoundImport } from "@/hooks/use-compounds";
 
 const MAX_MB = 25;
 
@@ -23,9 +23,7 @@ export function ImportUploadForm() {
       return setError(`${file.name}: use a .csv, .xlsx or .sdf file.`);
     setBusy(true);
     try {
-      const body = new FormData();
-      body.append("file", file);
-      const job = await fetchJson<ImportJobView>("/api/compound-imports", { method: "POST", body });
+      const job = await startCompoundImport(file);
       router.push(`/compounds/import/${job.id}`);
     } catch (err) {
       setError(err instanceof ApiError ? err.message : "The upload failed; check the connection and try again.");

@@ -1,8 +1,9 @@
 "use client";
 import Link from "next/link";
 import { useState } from "react";
-import { ApiError, fetchJson } from "@/hooks/fetcher";
-import { importJobUrl, useImportJob, type ImportJobView } from "@/hooks/use-compounds";
+import { ApiError } from "@/hooks/fetcher";
+import { apiPaths } from "@/hooks/api-paths";
+import { commitCompoundImport, useImportJob, type ImportJobView } from "@/hooks/use-compounds";
 
 const STATUS_TEXT: Record<ImportJobView["status"], string> = {
   stored: "File stored; checking starts in a moment.",
@@ -49,11 +50,7 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
     setCommitting(true);
     setCommitError(null);
     try {
-      const next = await fetchJson<ImportJobView>(`${importJobUrl(id)}/commit`, {
-        method: "POST",
-        headers: { "content-type": "application/json" },
-        body: JSON.stringify({ mode }),
-      });
+      const next = await commitCompoundImport(id, mode);
       await mutate(next, { revalidate: false });
     } catch (e) {
       setCommitError(e instanceof ApiError ? e.message : "Registering failed; nothing was registered. Try again.");
@@ -248,7 +245,7 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
             <button type="button" className="btn-primary" disabled={!mode || committing} onClick={commit}>
               {committing ? "Registering…" : mode ? "Register" : "Choose a mode first"}
             </button>
-            <a className="btn-quiet no-underline" href={`${importJobUrl(id)}/report`}>
+            <a className="btn-quiet no-underline" href={apiPaths.compoundImportReport(id)}>
               Download the problem list (CSV)
             </a>
           </div>
@@ -277,7 +274,7 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
             {job.result.mode === "valid_only" ? "valid records only" : "all or nothing"}.
           </p>
           <div>
-            <a className="btn-primary no-underline" href={`${importJobUrl(id)}/report`}>
+            <a className="btn-primary no-underline" href={apiPaths.compoundImportReport(id)}>
               Download the report (CSV)
             </a>
           </div>
