@@ -23,6 +23,8 @@ import {
   type MechanismModelFit,
   type MechanismResult,
 } from "@/lib/kinetics";
+import type { DoseResponseFittedDetail, MechanismFittedDetail, ModelSummary, ResultDetail } from "./detail";
+import { headlineKi } from "./headline-ki";
 
 export type AnalysisReading = {
   runId: string;
@@ -58,11 +60,13 @@ export type CompoundResult = {
   kiuUm?: number | null;
   alpha?: number | null;
   flags: string[];
-  detail: Record<string, unknown>;
+  detail: ResultDetail;
 };
 
 const round = (x: number | null | undefined, digits = 10): number | null =>
   x === null || x === undefined || !Number.isFinite(x) ? null : Number(x.toPrecision(digits));
+/** `round` of a value already known to be finite. */
+const roundFinite = (x: number, digits = 10): number => Number(x.toPrecision(digits));
 
 function meanSd(xs: number[]): { mean: number; sd: number | null } {
   const n = xs.length;
@@ -177,7 +181,7 @@ export function analyseDoseResponse(
         compoundId: id,
         nPoints: pts.length,
         flags: ["too-few-points"],
-        detail: { points: pts.map((r) => [r.concentrationUm, r.inhibitionPct, r.runId, r.well]) },
+        detail: { points: pts.map((r) => [r.concentrationUm!, r.inhibitionPct!, r.runId, r.well]) },
       });
       continue;
     }
@@ -198,7 +202,7 @@ export function analyseDoseResponse(
     )
       flags.push("partial-inhibition");
     if (fit.bottom !== null && Math.abs(fit.bottom) > 20) flags.push("baseline-offset");
-    let morrison: Record<string, unknown> | null = null;
+    let morrison: DoseResponseFittedDetail["morrison"] = null;
     const e = opts.enzymeUm ?? null;
     if (e && e > 0 && fit.ic50 !== null) {
       const steep = fit.hill !== null && fit.hill > 2;
@@ -248,7 +252,7 @@ export function analyseDoseResponse(
         testedRangeUm: s.rangeUm,
         fixed: { topPct: opts.fixTopPct ?? null, bottomPct: opts.fixBottomPct ?? null },
         morrison,
-        points: pts.map((r) => [r.concentrationUm, round(r.inhibitionPct), r.runId, r.well]),
+        points: pts.map((r) => [r.concentrationUm!, roundFinite(r.inhibitionPct!), r.runId, r.well]),
       },
     });
   }
@@ -260,21 +264,23 @@ export function analyseDoseResponse(
 
 export type MechanismAnalysisOptions = { weighting?: "none" | "relative" };
 
-/** The headline constant of a model: Kic for competitive and mixed, Kiu for uncompetitive, Ki for noncompetitive. */
-export function headlineKi(m: MechanismModelFit): { ki: number | null; ci: [number | null, number | null] } {
-  if (m.model === "uncompetitive") return { ki: m.kiu, ci: [m.ci95.kiu[0], m.ci95.kiu[1]] };
-  return { ki: m.kic, ci: [m.ci95.kic[0], m.ci95.kic[1]] };
-}
-
-function modelSummary(m: MechanismModelFit) {
+function modelSummary(m: MechanismModelFit): ModelSummary {
+  const ci = (v: [number | null, number | null]): [number | null, number | null] => [round(v[0]), round(v[1])];
   return {
     vmax: round(m.vmax),
     kmUm: round(m.km),
     kicUm: round(m.kic),
     kiuUm: round(m.kiu),
     alpha: round(m.alpha),
-    se: Object.fromEntries(Object.entries(m.se).map(([k, v]) => [k, round(v)])),
-    ci95: Object.fromEntries(Object.entries(m.ci95).map(([k, v]) => [k, [round(v[0]), round(v[1])]])),
+    se: {
+      vmax: round(m.se.vmax),
+      km: round(m.se.km),
+      kic: round(m.se.kic),
+      kiu: round(m.se.kiu),
+      a: round(m.se.a),
+      b: round(m.se.b),
+    },
+    ci95: { vmax: ci(m.ci95.vmax), km: ci(m.ci95.km), kic: ci(m.ci95.kic), kiu: ci(m.ci95.kiu) },
     rss: round(m.rss),
     aicc: round(m.aicc),
     deltaAicc: round(m.deltaAicc),
@@ -285,9 +291,19 @@ function modelSummary(m: MechanismModelFit) {
   };
 }
 
+/** The four models' summaries, keyed by model. */
+function modelSummaries(fit: MechanismResult): MechanismFittedDetail["models"] {
+  return {
+    competitive: modelSummary(fit.models.competitive),
+    uncompetitive: modelSummary(fit.models.uncompetitive),
+    noncompetitive: modelSummary(fit.models.noncompetitive),
+    mixed: modelSummary(fit.models.mixed),
+  };
+}
+
 export function summariseMechanism(fit: MechanismResult, chosen: InhibitionModel = fit.best) {
   const m = fit.models[chosen];
-  const { ki, ci } = headlineKi(m);
+  const { kiUm: ki, ci95: ci } = headlineKi(chosen, { kicUm: m.kic, kiuUm: m.kiu, ci95: m.ci95 });
   return {
     mechanism: chosen,
     label: fit.label,
@@ -375,7 +391,7 @@ export function analyseMechanism(
         label: fit.label,
         n: fit.n,
         weighting: fit.weighting,
-        models: Object.fromEntries(Object.entries(fit.models).map(([k, m]) => [k, modelSummary(m)])),
+        models: modelSummaries(fit),
         points: pts.map((p) => [p.substrate, p.inhibitor, round(p.rate), p.runId, p.well]),
         backgroundSubtracted: background.size > 0,
       },

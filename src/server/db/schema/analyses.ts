@@ -14,6 +14,7 @@ import {
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
 import { plateRuns } from "./plates";
+import type { ResultDetail } from "@/lib/analysis/detail";
 
 export const experimentKind = pgEnum("experiment_kind", ["single-dose", "dose-response", "mechanism"]);
 export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "done", "failed"]);
@@ -155,7 +156,7 @@ export const compoundResults = pgTable(
       .array()
       .notNull()
       .default(sql`'{}'::text[]`),
-    detail: jsonb("detail").notNull(),
+    detail: jsonb("detail").$type<ResultDetail>().notNull(),
   },
   (t) => [
     uniqueIndex("compound_results_analysis_compound").on(t.analysisId, t.compoundId),
