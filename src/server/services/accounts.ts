@@ -161,6 +161,11 @@ export async function findInvitation(token: string) {
   return row ?? null;
 }
 
+/** Whether an account exists for this address (case-insensitive): the invitation page asks for a password only then. */
+export async function hasAccount(email: string): Promise<boolean> {
+  return Boolean(await findByEmail(email));
+}
+
 /**
  * Accepts an invitation: a new account (name + password), or, when the address already has an
  * account, that account's password. Single use: the token is spent in the same transaction.

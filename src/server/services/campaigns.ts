@@ -1,15 +1,19 @@
 import "server-only";
 import { and, asc, desc, eq, gt, isNull, sql, type SQL } from "drizzle-orm";
 import { db } from "@/server/db/client";
+import { containsPattern } from "@/server/db/sql-helpers";
 import { campaigns, memberships, users, invitations, auditLog } from "@/server/db/schema";
 import { audit } from "./audit";
 import { endAllSessions, type SessionUser } from "@/server/auth/session";
+import type { Actor } from "@/server/auth/actor";
 import { AppError } from "@/server/errors";
 import type { CampaignRole } from "@/lib/roles";
 import type { z } from "zod";
 import type { campaignSchema } from "@/lib/validation/auth";
 
 export type CampaignInput = z.infer<typeof campaignSchema>;
+export type Campaign = typeof campaigns.$inferSelect;
+export type Thresholds = { qcMinZPrime: number; qcMaxCvPct: number; hitThresholdPct: number };
 
 /** The campaigns a user may see with their role in each (admins see all; role null where not a member). */
 export async function campaignsFor(user: SessionUser) {
@@ -162,13 +166,37 @@ export async function removeMember(actor: SessionUser, campaignId: string, userI
   await endAllSessions(userId);
 }
 
+/** A lead changes the campaign's QC and hit thresholds (audited with the values before). */
+export async function updateThresholds(actor: Actor, campaign: Campaign, t: Thresholds): Promise<void> {
+  await db.transaction(async (tx) => {
+    await tx.update(campaigns).set(t).where(eq(campaigns.id, campaign.id));
+    await audit(tx, actor, {
+      campaignId: campaign.id,
+      action: "campaign.thresholds",
+      entityType: "campaign",
+      entityId: campaign.id,
+      before: {
+        qcMinZPrime: campaign.qcMinZPrime,
+        qcMaxCvPct: campaign.qcMaxCvPct,
+        hitThresholdPct: campaign.hitThresholdPct,
+      },
+      after: t,
+    });
+  });
+}
+
+/** Every campaign's id and name (the admin's audit filter). */
+export async function campaignNames(): Promise<{ id: string; name: string }[]> {
+  return db.select({ id: campaigns.id, name: campaigns.name }).from(campaigns);
+}
+
 export type AuditFilter = { campaignId?: string; action?: string; actor?: string; limit: number; offset: number };
 
 export async function auditEntries(f: AuditFilter) {
   const conds: SQL[] = [];
   if (f.campaignId) conds.push(eq(auditLog.campaignId, f.campaignId));
-  if (f.action) conds.push(sql`${auditLog.action} ilike ${`%${f.action}%`}`);
-  if (f.actor) conds.push(sql`${auditLog.actorEmail} ilike ${`%${f.actor}%`}`);
+  if (f.action) conds.push(sql`${auditLog.action} ilike ${containsPattern(f.action)}`);
+  if (f.actor) conds.push(sql`${auditLog.actorEmail} ilike ${containsPattern(f.actor)}`);
   const where = conds.length ? and(...conds) : undefined;
   const [items, [total]] = await Promise.all([
     db

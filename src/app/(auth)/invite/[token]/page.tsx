@@ -1,8 +1,5 @@
 import Link from "next/link";
-import { sql } from "drizzle-orm";
-import { db } from "@/server/db/client";
-import { users } from "@/server/db/schema";
-import { findInvitation } from "@/server/services/accounts";
+import { findInvitation, hasAccount } from "@/server/services/accounts";
 import { roleLabels } from "@/lib/roles";
 import { AcceptInviteForm } from "../../_components/auth-forms";
 import { acceptInviteAction } from "../../actions";
@@ -25,16 +22,14 @@ export default async function InvitePage({ params }: { params: Promise<{ token: 
       </div>
     );
   }
-  const existing = await db.query.users.findFirst({
-    where: sql`lower(${users.email}) = ${found.inv.email.toLowerCase()}`,
-  });
+  const existing = await hasAccount(found.inv.email);
   return (
     <div className="flex flex-col gap-3">
       <h1 className="text-lg">Join {found.campaignName}</h1>
       <p className="text-sm text-ink-muted">
         You are invited as <b className="text-ink">{roleLabels[found.inv.role]}</b> with the address {found.inv.email}.
       </p>
-      <AcceptInviteForm action={acceptInviteAction} token={token} existing={Boolean(existing)} />
+      <AcceptInviteForm action={acceptInviteAction} token={token} existing={existing} />
     </div>
   );
 }

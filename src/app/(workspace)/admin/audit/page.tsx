@@ -1,9 +1,7 @@
 import Link from "next/link";
 import { z } from "zod";
 import { pageAdmin } from "@/server/auth/page-guard";
-import { auditEntries } from "@/server/services/campaigns";
-import { db } from "@/server/db/client";
-import { campaigns } from "@/server/db/schema";
+import { auditEntries, campaignNames } from "@/server/services/campaigns";
 
 export const metadata = { title: "Audit log" };
 
@@ -32,7 +30,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
       limit: PAGE,
       offset: (f.page - 1) * PAGE,
     }),
-    db.select({ id: campaigns.id, name: campaigns.name }).from(campaigns),
+    campaignNames(),
   ]);
   const pages = Math.max(1, Math.ceil(total / PAGE));
   const link = (page: number) =>

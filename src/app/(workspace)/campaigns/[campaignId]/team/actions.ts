@@ -1,15 +1,11 @@
 "use server";
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
-import { eq } from "drizzle-orm";
 import { formAction } from "@/server/action";
 import { requireAdmin, requireCampaign } from "@/server/auth/guard";
 import { inviteSchema, memberRoleSchema, removeMemberSchema } from "@/lib/validation/auth";
-import { changeRole, removeMember } from "@/server/services/campaigns";
+import { changeRole, removeMember, updateThresholds } from "@/server/services/campaigns";
 import { invite } from "@/server/services/accounts";
-import { db } from "@/server/db/client";
-import { campaigns } from "@/server/db/schema";
-import { audit } from "@/server/services/audit";
 
 export const inviteAction = formAction(inviteSchema, async ({ campaignId, email, role }) => {
   const admin = await requireAdmin();
@@ -44,21 +40,7 @@ const thresholdsSchema = z.object({
 
 export const updateThresholdsAction = formAction(thresholdsSchema, async ({ campaignId, ...t }) => {
   const { user, campaign } = await requireCampaign(campaignId, "campaign:settings");
-  await db.transaction(async (tx) => {
-    await tx.update(campaigns).set(t).where(eq(campaigns.id, campaignId));
-    await audit(tx, user, {
-      campaignId,
-      action: "campaign.thresholds",
-      entityType: "campaign",
-      entityId: campaignId,
-      before: {
-        qcMinZPrime: campaign.qcMinZPrime,
-        qcMaxCvPct: campaign.qcMaxCvPct,
-        hitThresholdPct: campaign.hitThresholdPct,
-      },
-      after: t,
-    });
-  });
+  await updateThresholds(user, campaign, t);
   revalidatePath(`/campaigns/${campaignId}`, "layout");
   return { ok: true, message: "Thresholds saved." };
 });
