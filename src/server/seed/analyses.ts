@@ -2,14 +2,15 @@ import "server-only";
 import { and, eq, like, sql } from "drizzle-orm";
 import type { Db } from "@/server/db/client";
 import { campaigns, compoundResults, plateRuns, users } from "@/server/db/schema";
-import { createExperiment, requestAnalysis, runAnalysis } from "@/server/services/analyses";
+import { AppError } from "@/server/errors";
+import { analyseNow, createExperiment } from "@/server/services/analyses";
 import { DEMO_SUBSTRATE_UM } from "@/lib/plates/demo-campaign";
 
 /**
- * The invented demo campaign's experiments, analysed at seed time so the demo opens with
- * results: the single-dose screen, the dose-response plates (assay [S] = Km = 20 µM, for the
- * Cheng–Prusoff cross-check) and the mechanism study (after dose-response, so the cross-check
- * finds the measured IC50s).
+ * The invented demo campaign's experiments, analysed at seed time (in this process, not queued)
+ * so the demo opens with results: the single-dose screen, the dose-response plates (assay [S] =
+ * Km = 20 µM, for the Cheng–Prusoff cross-check) and the mechanism study (after dose-response, so
+ * the cross-check finds the measured IC50s).
  */
 export async function seedAnalyses(
   db: Db,
@@ -52,9 +53,13 @@ export async function seedAnalyses(
       settings: p.settings,
     });
     experiments += 1;
-    const a = await requestAnalysis(actor, campaign!, id).catch(() => null);
+    // Computed here rather than queued: the worker may not be running while the seed does.
+    // An experiment with nothing to analyse (no accepted run) is skipped.
+    const a = await analyseNow(actor, campaign!, id).catch((e: unknown) => {
+      if (e instanceof AppError) return null;
+      throw e;
+    });
     if (!a) continue;
-    await runAnalysis(a.id);
     const [row] = await db
       .select({ n: sql<number>`count(*)::int` })
       .from(compoundResults)

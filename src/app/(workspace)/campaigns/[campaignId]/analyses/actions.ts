@@ -4,13 +4,13 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { formAction } from "@/server/action";
 import { requireCampaign } from "@/server/auth/guard";
-import { createExperiment, requestAnalysis, overrideMechanism, MODELS } from "@/server/services/analyses";
-import { enqueueAnalysis } from "@/server/jobs/boss";
+import { createExperiment, requestAnalysis, overrideMechanism } from "@/server/services/analyses";
 import { createPlateMap } from "@/server/services/plates";
 import { planMechanismStudy } from "@/lib/analysis/planner";
 import { plateMapFromWells } from "@/lib/plates";
-import { experimentKinds } from "@/lib/validation/experiments";
-import { toMicromolar } from "@/lib/units";
+import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
+import { INHIBITION_MODELS } from "@/lib/kinetics";
+import { campaignKmUm } from "@/lib/units";
 
 const optPos = z.preprocess(
   (v) => (v === "" || v === undefined ? undefined : v),
@@ -24,7 +24,7 @@ const optNum = z.preprocess(
 const createSchema = z.object({
   campaignId: z.string().uuid(),
   name: z.string().trim().min(1, "Name the experiment.").max(120),
-  kind: z.enum(experimentKinds),
+  kind: z.enum(EXPERIMENT_KINDS),
   runIds: z.preprocess(
     (v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
     z.array(z.string().uuid()).min(1, "Choose at least one plate run."),
@@ -69,7 +69,6 @@ export const startAnalysisAction = formAction(
   async ({ campaignId, experimentId }) => {
     const { user, campaign } = await requireCampaign(campaignId, "analysis:run");
     const a = await requestAnalysis(user, campaign, experimentId);
-    if (a.status === "queued") await enqueueAnalysis(a.id);
     revalidatePath(`/campaigns/${campaignId}/analyses/${experimentId}`);
     return {
       ok: true,
@@ -84,12 +83,12 @@ export const overrideMechanismAction = formAction(
     campaignId: z.string().uuid(),
     experimentId: z.string().uuid(),
     compoundId: z.string().min(1).max(40),
-    model: z.enum(MODELS as [string, ...string[]]),
+    model: z.enum(INHIBITION_MODELS),
     reason: z.string().trim().min(5, "Give a reason of at least a few words.").max(500),
   }),
   async ({ campaignId, experimentId, compoundId, model, reason }) => {
     const { user } = await requireCampaign(campaignId, "analysis:override");
-    await overrideMechanism(user, campaignId, experimentId, compoundId, model as (typeof MODELS)[number], reason);
+    await overrideMechanism(user, campaignId, experimentId, compoundId, model, reason);
     revalidatePath(`/campaigns/${campaignId}/analyses/${experimentId}`, "layout");
     return { ok: true, message: `Mechanism set to ${model} (override recorded).` };
   },
@@ -107,8 +106,7 @@ export const planMechanismPlateAction = formAction(
   }),
   async (f) => {
     const { user, campaign } = await requireCampaign(f.campaignId, "plate:write");
-    const kmUm =
-      f.kmUm ?? (campaign.kmValue !== null ? toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM") : undefined);
+    const kmUm = f.kmUm ?? campaignKmUm(campaign);
     if (!kmUm)
       return {
         ok: false,
@@ -120,7 +118,7 @@ export const planMechanismPlateAction = formAction(
       ic50Um: f.ic50Um,
       kmUm,
       assaySubstrateUm: f.assaySubstrateUm,
-      format: f.format as 96 | 384 | 1536,
+      format: f.format,
     });
     const { id } = await createPlateMap(user, f.campaignId, {
       name: f.name,

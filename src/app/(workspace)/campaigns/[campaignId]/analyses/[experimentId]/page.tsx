@@ -2,16 +2,20 @@ import Link from "next/link";
 import { pageCampaign } from "@/server/auth/page-guard";
 import { AppError } from "@/server/errors";
 import { notFound } from "next/navigation";
-import { experimentResults, experimentRunList, getExperiment, currentInputs } from "@/server/services/analyses";
-import { db } from "@/server/db/client";
-import { analyses } from "@/server/db/schema";
-import { desc, eq } from "drizzle-orm";
+import {
+  analysisHistory,
+  currentInputs,
+  experimentResults,
+  experimentRunList,
+  getExperiment,
+} from "@/server/services/analyses";
 import { can } from "@/lib/roles";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { AnalysisRunner } from "../_components/analysis-runner";
 import { Flags, kindLabel, AnalysisStatusChip } from "../_components/labels";
 import { startAnalysisAction } from "../actions";
 import { formatAlpha } from "@/lib/analysis/alpha";
+import { isFittedDoseResponse } from "@/lib/analysis/detail";
 
 export const metadata = { title: "Experiment" };
 
@@ -31,12 +35,7 @@ export default async function ExperimentPage({
   const [rows, runs, history, pending] = await Promise.all([
     experimentResults(experimentId),
     experimentRunList(experimentId),
-    db
-      .select()
-      .from(analyses)
-      .where(eq(analyses.experimentId, experimentId))
-      .orderBy(desc(analyses.requestedAt))
-      .limit(10),
+    analysisHistory(experimentId, 10),
     currentInputs(campaign, experiment),
   ]);
   const current = history.find((a) => a.isCurrent) ?? null;
@@ -119,7 +118,7 @@ export default async function ExperimentPage({
             </thead>
             <tbody>
               {rows.map((r) => {
-                const fit = (r.detail as { fit?: { topPct: number | null; bottomPct: number | null } }).fit;
+                const fit = isFittedDoseResponse(r.detail) ? r.detail.fit : undefined;
                 return (
                   <tr key={r.compoundId}>
                     <td>

@@ -1,21 +1,22 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { and, eq, inArray } from "drizzle-orm";
 import { pageCampaign } from "@/server/auth/page-guard";
 import { AppError } from "@/server/errors";
-import { compoundResultDetail, getExperiment } from "@/server/services/analyses";
-import { db } from "@/server/db/client";
-import { analyses, wellReadings } from "@/server/db/schema";
-import { can } from "@/lib/roles";
-import { formatConcentration, formatConcentrationRange, toMicromolar } from "@/lib/units";
-import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
-import { DoseResponsePlot, type DoseResponseFitView } from "@/components/plots/dose-response-plot";
 import {
-  RateVsSubstratePlot,
-  DoubleReciprocalPlot,
-  ResidualPlot,
-  type MechanismModelView,
-} from "@/components/plots/mechanism-plots";
+  chosenModel,
+  compoundResultDetail,
+  getAnalysis,
+  getExperiment,
+  maskedPoints,
+  type ExperimentResult,
+} from "@/server/services/analyses";
+import { can } from "@/lib/roles";
+import { campaignKmUm, formatConcentration, formatConcentrationRange } from "@/lib/units";
+import { INHIBITION_MODELS } from "@/lib/kinetics/inhibition-models";
+import { isFittedDoseResponse, isFittedMechanism } from "@/lib/analysis/detail";
+import { headlineKi } from "@/lib/analysis/headline-ki";
+import { DoseResponsePlot } from "@/components/plots/dose-response-plot";
+import { RateVsSubstratePlot, DoubleReciprocalPlot, ResidualPlot } from "@/components/plots/mechanism-plots";
 import { Flags, kindLabel } from "../../_components/labels";
 import { OverrideForm, PlannerForm } from "../../_components/result-forms";
 import { overrideMechanismAction, planMechanismPlateAction } from "../../actions";
@@ -23,17 +24,8 @@ import { formatAlpha } from "@/lib/analysis/alpha";
 
 export const metadata = { title: "Compound result" };
 
-type ModelSummary = MechanismModelView & {
-  rss: number;
-  aicc: number;
-  deltaAicc: number;
-  akaikeWeight: number;
-  fTestVsMixedP: number | null;
-  alpha: number | null;
-  ci95: Record<string, [number | null, number | null]>;
-};
-
-const models: InhibitionModel[] = ["competitive", "uncompetitive", "noncompetitive", "mixed"];
+const fixed = (x: number | null, digits: number) => (x === null ? "—" : x.toFixed(digits));
+const precise = (x: number | null, digits: number) => (x === null ? "—" : x.toPrecision(digits));
 
 export default async function CompoundResultPage({
   params,
@@ -48,31 +40,10 @@ export default async function CompoundResultPage({
   };
   const experiment = await getExperiment(campaignId, experimentId).catch(notFoundOnApp);
   const r = await compoundResultDetail(experimentId, decodeURIComponent(compoundId)).catch(notFoundOnApp);
-  const [current] = await db.select().from(analyses).where(eq(analyses.id, r.analysisId));
-  const maskKeys = current?.inputs.masks ?? [];
-  const maskedRows = maskKeys.length
-    ? await db
-        .select({
-          runId: wellReadings.runId,
-          well: wellReadings.well,
-          concentrationUm: wellReadings.concentrationUm,
-          inhibitionPct: wellReadings.inhibitionPct,
-          compoundId: wellReadings.compoundId,
-        })
-        .from(wellReadings)
-        .where(
-          and(
-            inArray(wellReadings.runId, [...new Set(maskKeys.map((m) => m.runId))]),
-            eq(wellReadings.compoundId, r.compoundId),
-          ),
-        )
-    : [];
-  const maskedSet = new Set(maskKeys.map((m) => `${m.runId}|${m.well}`));
-  const masked = maskedRows
-    .filter((m) => maskedSet.has(`${m.runId}|${m.well}`) && m.concentrationUm !== null && m.inhibitionPct !== null)
-    .map((m) => [m.concentrationUm!, m.inhibitionPct!] as [number, number]);
+  const current = await getAnalysis(campaignId, r.analysisId).catch(notFoundOnApp);
+  const masked = r.kind === "dose-response" ? await maskedPoints(current.inputs, r.compoundId) : [];
   const base = `/campaigns/${campaignId}/analyses/${experimentId}`;
-  const kmUm = campaign.kmValue !== null ? toMicromolar(campaign.kmValue, campaign.kmUnit ?? "µM") : null;
+  const kmUm = campaignKmUm(campaign);
 
   return (
     <div className="flex flex-col gap-5">
@@ -114,38 +85,23 @@ export default async function CompoundResultPage({
         </section>
       ) : null}
       <p className="text-2xs text-ink-muted">
-        Analysis {r.analysisId.slice(0, 8)} · engine {current?.engineVersion} · input hash{" "}
-        {current?.inputHash.slice(0, 16)}… · {current?.inputs.runs.length} accepted runs · {maskKeys.length} masked
-        wells
+        Analysis {r.analysisId.slice(0, 8)} · engine {current.engineVersion} · input hash{" "}
+        {current.inputHash.slice(0, 16)}… · {current.inputs.runs.length} accepted runs · {current.inputs.masks.length}{" "}
+        masked wells
       </p>
     </div>
   );
 }
 
-type Row = Awaited<ReturnType<typeof compoundResultDetail>>;
+type Result<K extends ExperimentResult["kind"]> = Extract<ExperimentResult, { kind: K }>;
 
-function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][] }) {
-  const d = r.detail as {
-    fit?: DoseResponseFitView & {
-      rSquared: number | null;
-      ic50Um: number | null;
-      hillSe: number | null;
-      log10Ic50Se: number | null;
-    };
-    points: [number, number, string, string][];
-    testedRangeUm: [number, number];
-    morrison: {
-      kAppUm?: number;
-      kAppCi95Um?: [number | null, number | null];
-      ic50Um?: number;
-      enzymeUm?: number;
-      error?: string;
-    } | null;
-  };
+function DoseResponseSection({ r, masked }: { r: Result<"dose-response">; masked: [number, number][] }) {
+  const d = isFittedDoseResponse(r.detail) ? r.detail : null;
+  const morrison = d?.morrison ?? null;
   return (
     <section className="grid gap-4 lg:grid-cols-[2fr_1fr]">
       <div className="card p-2">
-        <DoseResponsePlot points={d.points.map((p) => [p[0], p[1]])} masked={masked} fit={d.fit ?? null} />
+        <DoseResponsePlot points={r.detail.points.map((p) => [p[0], p[1]])} masked={masked} fit={d?.fit ?? null} />
       </div>
       <div className="flex flex-col gap-3">
         <table className="table-dense card">
@@ -168,17 +124,17 @@ function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][]
             <tr>
               <td className="text-ink-muted">Top / bottom (% inhibition)</td>
               <td className="num text-right">
-                {d.fit?.topPct?.toFixed(1) ?? "—"} / {d.fit?.bottomPct?.toFixed(1) ?? "—"}
+                {d?.fit.topPct?.toFixed(1) ?? "—"} / {d?.fit.bottomPct?.toFixed(1) ?? "—"}
               </td>
             </tr>
             <tr>
               <td className="text-ink-muted">R²</td>
-              <td className="num text-right">{d.fit?.rSquared?.toFixed(3) ?? "—"}</td>
+              <td className="num text-right">{d?.fit.rSquared?.toFixed(3) ?? "—"}</td>
             </tr>
             <tr>
               <td className="text-ink-muted">Tested range</td>
               <td className="num text-right">
-                {formatConcentration(d.testedRangeUm?.[0])} – {formatConcentration(d.testedRangeUm?.[1])}
+                {formatConcentration(d?.testedRangeUm[0])} – {formatConcentration(d?.testedRangeUm[1])}
               </td>
             </tr>
             <tr>
@@ -187,17 +143,16 @@ function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][]
             </tr>
           </tbody>
         </table>
-        {d.morrison ? (
+        {morrison ? (
           <div className="card p-3 text-sm">
             <p className="mb-1 font-semibold">Tight binding: Morrison fit</p>
-            {d.morrison.error ? (
-              <p className="text-fail">{d.morrison.error}</p>
+            {"error" in morrison ? (
+              <p className="text-fail">{morrison.error}</p>
             ) : (
               <p className="num text-ink-soft">
-                K′ (apparent Ki) {formatConcentration(d.morrison.kAppUm)} (95 % CI{" "}
-                {formatConcentration(d.morrison.kAppCi95Um?.[0])} – {formatConcentration(d.morrison.kAppCi95Um?.[1])})
-                at [E] = {formatConcentration(d.morrison.enzymeUm)}; IC50 = K′ + [E]/2 ={" "}
-                {formatConcentration(d.morrison.ic50Um)}.
+                K′ (apparent Ki) {formatConcentration(morrison.kAppUm)} (95 % CI{" "}
+                {formatConcentration(morrison.kAppCi95Um[0])} – {formatConcentration(morrison.kAppCi95Um[1])}) at [E] ={" "}
+                {formatConcentration(morrison.enzymeUm)}; IC50 = K′ + [E]/2 = {formatConcentration(morrison.ic50Um)}.
               </p>
             )}
           </div>
@@ -207,28 +162,22 @@ function DoseResponseSection({ r, masked }: { r: Row; masked: [number, number][]
   );
 }
 
-function MechanismSection({ r }: { r: Row }) {
-  const d = r.detail as {
-    models: Record<InhibitionModel, ModelSummary>;
-    points: [number, number, number, string, string][];
-    best: InhibitionModel;
-    label: string;
-    chengPrusoff?: Record<string, unknown>;
-  };
-  const chosen = (r.override?.model as InhibitionModel | undefined) ?? (r.mechanism as InhibitionModel);
+function MechanismSection({ r }: { r: Result<"mechanism"> }) {
+  const d = r.detail;
+  if (!isFittedMechanism(d)) {
+    return (
+      <section className="card px-4 py-3 text-sm">
+        <p className="text-xs font-medium text-ink-muted">No mechanism fit</p>
+        <p>{"reason" in d ? d.reason : d.error}</p>
+      </section>
+    );
+  }
+  const chosen = chosenModel(r) ?? d.best;
   const fit = d.models[chosen];
-  const pts = d.points.map((p) => [p[0], p[1], p[2]] as [number, number, number]);
+  const headline = headlineKi(chosen, fit);
+  const pts = d.points.flatMap((p): [number, number, number][] => (p[2] === null ? [] : [[p[0], p[1], p[2]]]));
   const unit = "signal/s";
-  const cp = d.chengPrusoff as
-    | {
-        predictedIc50Um?: number;
-        measuredIc50Um?: number;
-        ratio?: number;
-        substrateUm?: number;
-        kmUm?: number;
-        note?: string;
-      }
-    | undefined;
+  const cp = d.chengPrusoff;
   return (
     <>
       <section className="card flex flex-wrap gap-6 px-4 py-3 text-sm">
@@ -248,13 +197,8 @@ function MechanismSection({ r }: { r: Row }) {
         </div>
         <div>
           <p className="text-xs font-medium text-ink-muted">Ki</p>
-          <p className="num text-lg font-semibold">
-            {formatConcentration(chosen === "uncompetitive" ? fit.kiuUm : fit.kicUm)}
-          </p>
-          <p className="num text-xs text-ink-muted">
-            95 % CI{" "}
-            {formatConcentrationRange(...(fit.ci95[chosen === "uncompetitive" ? "kiu" : "kic"] ?? [null, null]))}
-          </p>
+          <p className="num text-lg font-semibold">{formatConcentration(headline.kiUm)}</p>
+          <p className="num text-xs text-ink-muted">95 % CI {formatConcentrationRange(...headline.ci95)}</p>
         </div>
         <div>
           <p className="text-xs font-medium text-ink-muted">α = Kiu/Kic</p>
@@ -269,12 +213,12 @@ function MechanismSection({ r }: { r: Row }) {
         {cp ? (
           <div className="max-w-sm">
             <p className="text-xs font-medium text-ink-muted">Cheng–Prusoff cross-check</p>
-            {cp.note ? (
+            {"note" in cp ? (
               <p className="text-xs text-ink-muted">{cp.note}</p>
             ) : (
               <p className="num text-xs">
                 predicted IC50 {formatConcentration(cp.predictedIc50Um)} at [S] {formatConcentration(cp.substrateUm)} vs
-                measured {formatConcentration(cp.measuredIc50Um)} (ratio {cp.ratio?.toPrecision(3)})
+                measured {formatConcentration(cp.measuredIc50Um)} (ratio {cp.ratio.toPrecision(3)})
               </p>
             )}
           </div>
@@ -309,7 +253,7 @@ function MechanismSection({ r }: { r: Row }) {
             </tr>
           </thead>
           <tbody>
-            {models.map((m) => {
+            {INHIBITION_MODELS.map((m) => {
               const s = d.models[m];
               return (
                 <tr key={m} className={m === chosen ? "bg-accent-soft/50 font-medium" : ""}>
@@ -321,11 +265,11 @@ function MechanismSection({ r }: { r: Row }) {
                   <td className="num text-right">{formatConcentration(s.kmUm)}</td>
                   <td className="num text-right">{s.kicUm === null ? "—" : formatConcentration(s.kicUm)}</td>
                   <td className="num text-right">{s.kiuUm === null ? "—" : formatConcentration(s.kiuUm)}</td>
-                  <td className="num text-right">{s.rss.toPrecision(4)}</td>
-                  <td className="num text-right">{s.aicc.toFixed(2)}</td>
-                  <td className="num text-right">{s.deltaAicc.toFixed(2)}</td>
-                  <td className="num text-right">{s.akaikeWeight.toFixed(3)}</td>
-                  <td className="num text-right">{s.fTestVsMixedP === null ? "—" : s.fTestVsMixedP.toPrecision(3)}</td>
+                  <td className="num text-right">{precise(s.rss, 4)}</td>
+                  <td className="num text-right">{fixed(s.aicc, 2)}</td>
+                  <td className="num text-right">{fixed(s.deltaAicc, 2)}</td>
+                  <td className="num text-right">{fixed(s.akaikeWeight, 3)}</td>
+                  <td className="num text-right">{precise(s.fTestVsMixedP, 3)}</td>
                 </tr>
               );
             })}
