@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { INHIBITION_MODELS } from "@/lib/kinetics/inhibition-models";
 
 /**
  * The hit grid's query language, shared by the route handlers (which parse it), the grid's
@@ -16,15 +17,11 @@ export const triageLabels: Record<TriageStatus, string> = {
   "on-hold": "on hold",
   dropped: "dropped",
 };
+/** True for one of the triage statuses (text from a form or an API response). */
+export const isTriageStatus = (s: string): s is TriageStatus => triageStatuses.some((x) => x === s);
 
-export const mechanismFilterValues = [
-  "competitive",
-  "uncompetitive",
-  "noncompetitive",
-  "mixed",
-  "ambiguous",
-  "none",
-] as const;
+/** The mechanism filter: the four models, an ambiguous call, or no mechanism result. */
+export const mechanismFilterValues = [...INHIBITION_MODELS, "ambiguous", "none"] as const;
 
 /** Sortable fields (API name → meaning). `default` is the ranked order. */
 export const sortFields = [

@@ -47,7 +47,13 @@ export async function campaignOverview(campaignId: string) {
       select d.id, d.compound_id, d.from_status, d.to_status, d.comment, d.at, u.name as by
       from triage_decisions d left join users u on u.id = d.by
       where d.campaign_id = ${campaignId} order by d.at desc, d.id desc limit 8`),
-    db.execute<{ kind: string; what: string; at: string; by: string | null; ref: string | null }>(sql`
+    db.execute<{
+      kind: "run" | "analysis" | "comment";
+      what: string;
+      at: string;
+      by: string | null;
+      ref: string | null;
+    }>(sql`
       select * from (
         (select 'run' as kind, coalesce(r.barcode, r.file_name) as what, r.uploaded_at as at, u.name as by, r.id::text as ref
            from plate_runs r left join users u on u.id = r.uploaded_by where r.campaign_id = ${campaignId} order by r.uploaded_at desc limit 10)
@@ -87,7 +93,7 @@ export async function campaignOverview(campaignId: string) {
       by: d.by,
     })),
     activity: [...activity].map((a) => ({
-      kind: a.kind as "run" | "analysis" | "comment",
+      kind: a.kind,
       what: a.what,
       at: new Date(a.at).toISOString(),
       by: a.by,

@@ -2,7 +2,7 @@
 import Link from "next/link";
 import { useEffect, useState } from "react";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
-import { triageLabels, triageStatuses, type TriageStatus } from "@/lib/hits/query";
+import { isTriageStatus, triageLabels, triageStatuses, type TriageStatus } from "@/lib/hits/query";
 import { INHIBITION_MODELS, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { isFittedDoseResponse, isFittedMechanism, parseResultDetail } from "@/lib/analysis/detail";
 import { hitActions, hitStructureUrl, useHitDetail, type HitDetail } from "@/hooks/use-hits";
@@ -26,7 +26,6 @@ const fixed = (v: number | null | undefined, d: number) =>
   v === null || v === undefined || !Number.isFinite(v) ? "—" : v.toFixed(d);
 const messageOf = (e: unknown) => (e instanceof Error ? e.message : String(e));
 const isModel = (m: string | undefined): m is InhibitionModel => INHIBITION_MODELS.some((x) => x === m);
-const isStatus = (s: string): s is TriageStatus => triageStatuses.some((x) => x === s);
 
 /** A stored detail read through its schema, or the sentence that says where it does not match. */
 function readDetail<T>(parse: () => T): { ok: true; detail: T } | { ok: false; message: string } {
@@ -366,7 +365,7 @@ function TriageForm({
         <select
           className="input w-40"
           value={status}
-          onChange={(e) => isStatus(e.target.value) && setStatus(e.target.value)}
+          onChange={(e) => isTriageStatus(e.target.value) && setStatus(e.target.value)}
           aria-label="New status"
           name="status"
         >

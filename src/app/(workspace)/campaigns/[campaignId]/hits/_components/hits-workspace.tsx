@@ -21,6 +21,7 @@ import {
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { gridToQuery, queryToGrid, type GridFilterModel, type GridSort, type Toolbar } from "@/lib/hits/grid-query";
 import { mechanismFilterValues, triageLabels, triageStatuses, type HitQueryParams } from "@/lib/hits/query";
+import { LE_KCAL_PER_MOL_PER_LOG_UNIT } from "@/lib/hits/efficiency";
 import { hitActions, hitStructureUrl, hitsExportUrl, useHitPages, useHitViews, type HitItem } from "@/hooks/use-hits";
 import { Flags } from "../../analyses/_components/labels";
 import { MechanismCell, StatusChip } from "./status";
@@ -250,7 +251,7 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
         width: 130,
         ...numberFilter("LE"),
         cellClass: "num",
-        headerTooltip: "Ligand efficiency 1.37·pKi / heavy atoms at 298 K (Hopkins, Groom & Alex 2004)",
+        headerTooltip: `Ligand efficiency ${LE_KCAL_PER_MOL_PER_LOG_UNIT}·pKi / heavy atoms at 298 K (Hopkins, Groom & Alex 2004)`,
         valueGetter: (p) => (p.data ? fixed(p.data.le, 2) : ""),
       },
       {

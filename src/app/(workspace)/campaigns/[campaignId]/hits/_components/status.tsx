@@ -1,4 +1,4 @@
-import { triageLabels, type TriageStatus } from "@/lib/hits/query";
+import { isTriageStatus, triageLabels, type TriageStatus } from "@/lib/hits/query";
 
 // Our own palette for the triage states: neutral until reviewed, then blue (confirmed), green
 // (advance), amber (on hold), struck grey (dropped).
@@ -11,8 +11,8 @@ const look: Record<TriageStatus, string> = {
 };
 
 export function StatusChip({ status }: { status: string }) {
-  const s = status as TriageStatus;
-  return <span className={`chip ${look[s] ?? ""}`}>{triageLabels[s] ?? status}</span>;
+  if (!isTriageStatus(status)) return <span className="chip">{status}</span>;
+  return <span className={`chip ${look[status]}`}>{triageLabels[status]}</span>;
 }
 
 export function MechanismCell({ mechanism, label }: { mechanism: string | null; label: string | null }) {
