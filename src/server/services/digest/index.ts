@@ -6,6 +6,7 @@ import "server-only";
  */
 export { digestDue, digestWeek } from "./week";
 export { optIn, optOut, optOutToken, optOutsOf, readOptOutToken } from "./opt-out";
+export { stopLinkTarget, type StopLinkTarget } from "./stop";
 export { gatherDigest, previewDigest, renderDigest } from "./content";
 export {
   MAX_ATTEMPTS,
