@@ -66,7 +66,8 @@ export const rangeFields = [
 ] as const;
 export type RangeField = (typeof rangeFields)[number];
 
-export const fieldUnits: Partial<Record<SortField, string>> = {
+/** The units of the API's numeric fields (the `units` of GET …/hits). */
+export const HIT_UNITS = {
   ki: "µM",
   kic: "µM",
   kiu: "µM",
@@ -74,7 +75,9 @@ export const fieldUnits: Partial<Record<SortField, string>> = {
   pctInhibition: "%",
   le: "kcal/mol per heavy atom",
   mw: "g/mol",
-};
+  lipe: "dimensionless",
+  alpha: "dimensionless",
+} as const satisfies Partial<Record<SortField, string>>;
 
 const list = <T extends readonly [string, ...string[]]>(values: T, what: string) =>
   z

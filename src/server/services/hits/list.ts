@@ -6,6 +6,8 @@ import { containsPattern } from "@/server/db/sql-helpers";
 import type { HitItem } from "@/lib/hits/item";
 import { rangeFields, type HitFilter, type SortField } from "@/lib/hits/query";
 
+export { HIT_UNITS } from "@/lib/hits/query";
+
 export type { HitItem };
 
 const sortColumn: Record<Exclude<SortField, "default">, SQLWrapper> = {
@@ -111,18 +113,6 @@ export function hitJson(r: HitRow): HitItem {
     comments: r.commentCount,
   };
 }
-
-export const HIT_UNITS = {
-  ki: "µM",
-  kic: "µM",
-  kiu: "µM",
-  ic50: "µM",
-  pctInhibition: "%",
-  le: "kcal/mol per heavy atom",
-  mw: "g/mol",
-  lipe: "dimensionless",
-  alpha: "dimensionless",
-};
 
 // Totals of recent filters, per campaign version (hit_row_versions): counting up to 100,000
 // rows on every page was most of a request's cost (bench/hits.ts). The version is read before
