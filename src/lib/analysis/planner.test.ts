@@ -1,5 +1,5 @@
-// Planner rules from the NIH Assay Guidance Manual's mechanism-of-action chapter (second-hand,
-// science.md) and common practice; the Ki estimate is Cheng–Prusoff's competitive form
+// Planner rules from the NIH Assay Guidance Manual (Markossian et al., eds.), "Mechanism of
+// Action Assays for Enzymes" (second-hand) and common practice; the Ki estimate is Cheng–Prusoff's competitive form
 // (Cheng & Prusoff 1973).
 import { describe, it, expect } from "vitest";
 import { planMechanismStudy } from "./planner";

@@ -2,10 +2,11 @@
  * Mechanism-study planner: from a hit's IC50 and the target's Km, a substrate × inhibitor matrix
  * that separates the four mechanisms, and its plate map.
  *
- * Following the NIH Assay Guidance Manual ("Mechanism of Action Assays for Enzymes"; science.md)
- * and common practice: substrate at 8 concentrations spanning about 0.2–10 × Km (log-spaced, so
- * that an uncompetitive component shows at high [S]); inhibitor 0 and about 0.3–10 × the expected
- * Ki; replicates in adjacent rows; neutral and full-inhibition controls on the plate. The
+ * Following the NIH Assay Guidance Manual (Markossian et al., eds., "Mechanism of Action Assays
+ * for Enzymes"; second-hand) and common practice: substrate at 8 concentrations spanning about
+ * 0.2–10 × Km (log-spaced, so that an uncompetitive component shows at high [S]); inhibitor 0
+ * and about 0.3–10 × the expected Ki; replicates in adjacent rows; neutral and full-inhibition
+ * controls on the plate. The
  * expected Ki is the competitive Cheng–Prusoff estimate Ki ≈ IC50 / (1 + S/Km), which is the
  * lowest of the mechanisms' estimates, so 0.3–10 × it also covers the others.
  */
