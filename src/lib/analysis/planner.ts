@@ -6,9 +6,9 @@
  * for Enzymes"; second-hand) and common practice: substrate at 8 concentrations spanning about
  * 0.2–10 × Km (log-spaced, so that an uncompetitive component shows at high [S]); inhibitor 0
  * and about 0.3–10 × the expected Ki; replicates in adjacent rows; neutral and full-inhibition
- * controls on the plate. The
- * expected Ki is the competitive Cheng–Prusoff estimate Ki ≈ IC50 / (1 + S/Km), which is the
- * lowest of the mechanisms' estimates, so 0.3–10 × it also covers the others.
+ * controls on the plate. The expected Ki is the competitive Cheng–Prusoff estimate
+ * Ki ≈ IC50 / (1 + S/Km), which is the lowest of the mechanisms' estimates, so 0.3–10 × it also
+ * covers the others.
  */
 import { mechanismMatrix, plateDimensions, rowLabel, type PlateFormat, type PlateMapWell } from "@/lib/plates";
 
