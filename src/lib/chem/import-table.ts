@@ -1,10 +1,10 @@
 /**
  * Tabular import (CSV text or worksheet rows): the first non-blank row is the header, every later
- * non-blank row is one record. Tokenising is shared with the plates module (`@/lib/plates`), which
- * already reads reader exports: an RFC 4180 tokenizer with delimiter sniffing (comma, semicolon,
- * tab), and exceljs for XLSX in `import-xlsx.ts`.
+ * non-blank row is one record. Text is read as the plates module reads reader exports: the one
+ * CSV reader (src/lib/csv/read.ts, RFC 4180) with delimiter sniffing (comma, semicolon, tab) from
+ * `@/lib/plates/text-table`; exceljs reads XLSX in `import-xlsx.ts`.
  */
-import { decodeText, sniffDelimiter, tokenize, type TableRow } from "@/lib/plates/text-table";
+import { decodeText, readTextTable, sniffDelimiter, type TableRow } from "@/lib/plates/text-table";
 import { type CanonicalField, canonicalField, checkRecord, type RawFields } from "./import-fields";
 import {
   emptyResult,
@@ -69,5 +69,7 @@ export function parseCsvImport(input: string | Uint8Array, fileName = ""): Impor
     return emptyResult("csv", [`The file is larger than ${MAX_IMPORT_BYTES / 1024 / 1024} MB.`]);
   }
   const text = typeof input === "string" ? input.replace(/^\uFEFF/, "") : decodeText(input);
-  return recordsFromRows(tokenize(text, sniffDelimiter(text, fileName)), "csv");
+  const table = readTextTable(text, sniffDelimiter(text, fileName));
+  if (!table.ok) return emptyResult("csv", [`Line ${table.line}: ${table.message}; nothing after it can be read.`]);
+  return recordsFromRows(table.rows, "csv");
 }

@@ -82,6 +82,12 @@ describe("parseCsvImport", () => {
     expect(r.records).toEqual([{ recordNo: 1, line: 2, smiles: "CCO", name: "Invented-A" }]);
   });
 
+  it("names the line of a quote that is never closed instead of reading the rest as one cell", () => {
+    const r = parseCsvImport('smiles,name\nCCO,"Invented-A\nCCN,Invented-B\n');
+    expect(r.fileErrors).toEqual(["Line 2: a quoted cell is not closed; nothing after it can be read."]);
+    expect(r.records).toEqual([]);
+  });
+
   it("needs a structure column", () => {
     expect(parseCsvImport("name,purity\nx,1\n").fileErrors[0]).toMatch(/No structure column/);
   });

@@ -46,7 +46,11 @@ export type CsvWriteOptions = {
 };
 
 /** A whole file: the header, then each row, every record ended with the line end. */
-export function toCsv(header: readonly string[] | null, rows: Iterable<readonly CsvValue[]>, options: CsvWriteOptions = {}): string {
+export function toCsv(
+  header: readonly string[] | null,
+  rows: Iterable<readonly CsvValue[]>,
+  options: CsvWriteOptions = {},
+): string {
   const eol = options.eol ?? "\r\n";
   const safe = options.neutralise ?? true;
   const lines: string[] = [];

@@ -4,11 +4,12 @@
  * can fix the file. Pure string processing (no I/O): the command-line tool and upload handlers
  * both use it.
  *
- * CSV: comma-separated, optional double quotes ("" escapes a quote), CRLF or LF, UTF-8 BOM
- * ignored, blank lines skipped (RFC 4180 subset). Headers are matched case-insensitively after
+ * CSV: comma-separated, read by the one CSV reader (src/lib/csv/read.ts: RFC 4180 quotes, CRLF or
+ * LF, UTF-8 BOM ignored, blank lines skipped). Headers are matched case-insensitively after
  * trimming; a unit in parentheses or brackets is allowed ("substrate (µM)"), and when both
  * concentration columns carry a unit it must be the same one.
  */
+import { CsvSyntaxError, forEachCsvRow, readCsv, type CsvRow, type CsvRowCursor } from "@/lib/csv/read";
 import type { MechanismPoint } from "./mechanism-fit";
 import { mechanismDataProblem } from "./mechanism-fit";
 
@@ -24,67 +25,19 @@ export class TableInputError extends Error {
   }
 }
 
-interface CsvRow {
-  line: number;
-  cells: string[];
-}
-
 /** Splits CSV text into rows of cells, keeping each row's 1-based line number. */
 export function parseCsv(text: string): CsvRow[] {
-  return parseCsvQuoted(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  return located(() => readCsv(text));
 }
 
-function parseCsvQuoted(text: string): CsvRow[] {
-  const rows: CsvRow[] = [];
-  let i = 0;
-  let line = 1;
-  const n = text.length;
-  while (i < n) {
-    const startLine = line;
-    const cells: string[] = [];
-    let cell = "";
-    let quoted = false;
-    let rowDone = false;
-    while (i < n && !rowDone) {
-      const ch = text[i]!;
-      if (quoted) {
-        if (ch === '"') {
-          if (text[i + 1] === '"') {
-            cell += '"';
-            i += 2;
-          } else {
-            quoted = false;
-            i++;
-          }
-        } else {
-          if (ch === "\n") line++;
-          cell += ch;
-          i++;
-        }
-      } else if (ch === '"' && cell.trim() === "") {
-        quoted = true;
-        cell = "";
-        i++;
-      } else if (ch === ",") {
-        cells.push(cell);
-        cell = "";
-        i++;
-      } else if (ch === "\n" || ch === "\r") {
-        if (ch === "\r" && text[i + 1] === "\n") i++;
-        i++;
-        line++;
-        rowDone = true;
-      } else {
-        cell += ch;
-        i++;
-      }
-    }
-    if (quoted) throw new TableInputError(startLine, null, "a quoted cell is not closed");
-    cells.push(cell);
-    if (cells.length === 1 && cells[0]!.trim() === "") continue; // blank line
-    rows.push({ line: startLine, cells });
+/** The reader's syntax errors (an unclosed quote) as this module's located errors. */
+function located<T>(read: () => T): T {
+  try {
+    return read();
+  } catch (e) {
+    if (e instanceof CsvSyntaxError) throw new TableInputError(e.line, null, e.detail);
+    throw e;
   }
-  return rows;
 }
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
@@ -96,93 +49,23 @@ function headerKey(raw: string): { name: string; unit: string | null } {
   return { name: t.toLowerCase(), unit: null };
 }
 
-/** One data row as the readers see it: its line, its cell count and its cells by index. */
-interface RowCursor {
-  line: number;
-  count: number;
-  cell(k: number): string;
-}
-
 /**
- * Calls `onHeader` with the first non-blank row and `onRow` with every later non-blank row.
- * Files without quotes take a single-pass scan that records cell boundaries instead of building
- * arrays (batch files have 10⁵ rows); files with quotes go through parseCsv.
+ * Calls `onHeader` with the first non-blank row and `onRow` with every later non-blank row,
+ * through the reader's cursor (batch files have 10⁵ rows: no array per row).
  */
 function forEachRow(
   text: string,
   onHeader: (cells: string[], line: number) => void,
-  onRow: (row: RowCursor) => void,
+  onRow: (row: CsvRowCursor) => void,
 ): void {
-  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  if (body.includes('"') || /\r(?!\n)/.test(body)) {
-    const rows = parseCsv(body);
-    if (rows.length === 0) return;
-    onHeader(rows[0]!.cells, rows[0]!.line);
-    const cursor = {
-      line: 0,
-      count: 0,
-      cells: [] as string[],
-      cell(k: number) {
-        return this.cells[k]!;
-      },
-    };
-    for (let r = 1; r < rows.length; r++) {
-      cursor.line = rows[r]!.line;
-      cursor.cells = rows[r]!.cells;
-      cursor.count = cursor.cells.length;
-      onRow(cursor);
-    }
-    return;
-  }
-  const len = body.length;
-  let starts: Int32Array = new Int32Array(16);
-  let ends: Int32Array = new Int32Array(16);
-  const cursor: RowCursor = { line: 0, count: 0, cell: (k) => body.slice(starts[k]!, ends[k]!) };
-  let pos = 0;
-  let line = 0;
   let seenHeader = false;
-  while (pos < len) {
-    line++;
-    let end = body.indexOf("\n", pos);
-    if (end === -1) end = len;
-    const stop = end > pos && body.charCodeAt(end - 1) === 13 ? end - 1 : end;
-    // Cell boundaries from the commas of this line (indexOf runs natively).
-    let count = 0;
-    let cellStart = pos;
-    for (;;) {
-      if (count === starts.length) {
-        starts = growInt32(starts);
-        ends = growInt32(ends);
-      }
-      const comma = body.indexOf(",", cellStart);
-      starts[count] = cellStart;
-      if (comma === -1 || comma >= stop) {
-        ends[count] = stop;
-        count++;
-        break;
-      }
-      ends[count] = comma;
-      count++;
-      cellStart = comma + 1;
-    }
-    const lineStart = pos;
-    pos = end + 1;
-    if (count === 1 && body.slice(lineStart, stop).trim() === "") continue; // blank line
-    cursor.line = line;
-    cursor.count = count;
-    if (!seenHeader) {
+  located(() =>
+    forEachCsvRow(text, (row) => {
+      if (seenHeader) return onRow(row);
       seenHeader = true;
-      const cells: string[] = [];
-      for (let k = 0; k < count; k++) cells.push(cursor.cell(k));
-      onHeader(cells, line);
-    } else onRow(cursor);
-  }
-}
-
-function growInt32(a: Int32Array): Int32Array {
-  const b = new Int32Array(a.length * 2);
-  b.set(a);
-  return b;
+      onHeader(row.cells(), row.line);
+    }),
+  );
 }
 
 interface Columns {
@@ -221,7 +104,7 @@ function matchHeader(cells: string[], line: number, required: readonly string[])
 function readTable(
   text: string,
   required: readonly string[],
-  onRow: (row: RowCursor, cols: Columns) => void,
+  onRow: (row: CsvRowCursor, cols: Columns) => void,
 ): { cols: Columns; lastLine: number } {
   let cols: Columns | null = null;
   let lastLine = 0;
@@ -245,11 +128,11 @@ function readTable(
   return { cols: found, lastLine };
 }
 
-function numberCell(row: RowCursor, cols: Columns, column: string, kind: "concentration" | "value"): number {
+function numberCell(row: CsvRowCursor, cols: Columns, column: string, kind: "concentration" | "value"): number {
   return numberAt(row, cols.index[column]!, column, kind);
 }
 
-function numberAt(row: RowCursor, index: number, column: string, kind: "concentration" | "value"): number {
+function numberAt(row: CsvRowCursor, index: number, column: string, kind: "concentration" | "value"): number {
   let raw = row.cell(index);
   const last = raw.length - 1;
   if (last >= 0 && (raw.charCodeAt(0) <= 32 || raw.charCodeAt(last) <= 32)) raw = raw.trim();

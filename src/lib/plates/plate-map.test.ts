@@ -65,6 +65,13 @@ describe("plate map CSV import", () => {
     expect(r.ok).toBe(true);
   });
 
+  it("names the line of a quote that is never closed", () => {
+    const r = parsePlateMapCsv(csv('A2,sample,"INH-000001,10,,'), 96, "map.csv");
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.issues.map((i) => i.text)).toEqual([`map.csv line ${controls.length + 2}: a quoted cell is not closed`]);
+  });
+
   it("round-trips through export (A1 form and padded A01 form)", () => {
     const r = parsePlateMapCsv(csv("A2,sample,INH-000001,10,50,r1", "P24,blank,,,,"), 384);
     expect(r.ok).toBe(true);

@@ -8,6 +8,7 @@
  * only wells that are not empty.
  */
 import { z } from "zod";
+import { toCsv } from "@/lib/csv/write";
 import { formulaInjectionMessage, parseNumber } from "./cells";
 import {
   allWells,
@@ -22,7 +23,7 @@ import {
   wellName,
 } from "./geometry";
 import { issue, MAX_ISSUES, type PlateIssue, quoteCell } from "./issues";
-import { decodeText, sniffDelimiter, tokenize } from "./text-table";
+import { decodeText, readTextTable, sniffDelimiter } from "./text-table";
 
 export const WELL_ROLES = ["sample", "neutral", "full", "blank", "empty"] as const;
 export type WellRole = (typeof WELL_ROLES)[number];
@@ -170,8 +171,17 @@ export function parsePlateMapCsv(
     at(undefined, undefined, "file is empty");
     return { ok: false, issues };
   }
-  const rows = tokenize(text, sniffDelimiter(text, fileName));
-  const header = rows[0]!;
+  const table = readTextTable(text, sniffDelimiter(text, fileName));
+  if (!table.ok) {
+    at(table.line, undefined, table.message);
+    return { ok: false, issues };
+  }
+  const rows = table.rows;
+  const header = rows[0];
+  if (!header) {
+    at(undefined, undefined, "file is empty");
+    return { ok: false, issues };
+  }
   const cols = new Map<string, number>();
   const known = new Map(PLATE_MAP_COLUMNS.map((c) => [c.toLowerCase(), c]));
   header.cells.forEach((raw, i) => {
@@ -275,17 +285,13 @@ export function parsePlateMapCsv(
   return issues.length > 0 ? { ok: false, issues } : { ok: true, map };
 }
 
-function csvField(s: string): string {
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
 /**
- * Write a plate map as CSV (LF line ends, header first, non-empty wells in row-major order).
- * Throws when a text field would be refused on import (formula-like text), so an export can
- * always be read back.
+ * Write a plate map as CSV (LF line ends, header first, non-empty wells in row-major order) with
+ * the one CSV writer. Formula-like text is refused rather than neutralised: the import refuses
+ * it, so an export can always be read back as it was written.
  */
 export function plateMapToCsv(map: PlateMap, options: { padded?: boolean } = {}): string {
-  const lines: string[] = [PLATE_MAP_COLUMNS.join(",")];
+  const rows: (string | number | undefined)[][] = [];
   map.wells.forEach((w, i) => {
     if (
       w.role === "empty" &&
@@ -301,18 +307,9 @@ export function plateMapToCsv(map: PlateMap, options: { padded?: boolean } = {})
     }
     const pos = positionOfIndex(i, map.format);
     const name = options.padded ? paddedWellName(pos, map.format) : wellName(pos);
-    lines.push(
-      [
-        name,
-        w.role,
-        csvField(w.compound ?? ""),
-        w.concentrationUm === undefined ? "" : String(w.concentrationUm),
-        w.substrateUm === undefined ? "" : String(w.substrateUm),
-        csvField(w.group ?? ""),
-      ].join(","),
-    );
+    rows.push([name, w.role, w.compound, w.concentrationUm, w.substrateUm, w.group]);
   });
-  return lines.join("\n") + "\n";
+  return toCsv(PLATE_MAP_COLUMNS, rows, { eol: "\n", neutralise: false });
 }
 
 /** zod schema for a plate map sent as JSON (e.g. from the editor); run validatePlateMap after. */

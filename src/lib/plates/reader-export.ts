@@ -31,7 +31,7 @@ import {
 } from "./geometry";
 import { issue, type IssueLocation, MAX_ISSUES, type PlateIssue, quoteCell } from "./issues";
 import { parseTimeLabel } from "./read-time";
-import { decodeText, type Delimiter, looksBinary, sniffDelimiter, type TableRow, tokenize } from "./text-table";
+import { decodeText, type Delimiter, looksBinary, readTextTable, sniffDelimiter, type TableRow } from "./text-table";
 import { columnLetters, isOleCompound, isZip, readWorkbookRows } from "./xlsx";
 
 export const MAX_FILE_BYTES = 25 * 1024 * 1024;
@@ -160,7 +160,9 @@ function parseTextBytes(bytes: Uint8Array, fileName: string, options: ParseExpor
 function parseText(text: string, fileName: string, options: ParseExportOptions): ReaderExportResult {
   if (text.trim() === "") return fail(fileName, "file is empty");
   const delimiter = sniffDelimiter(text, fileName);
-  const rows = tokenize(text, delimiter);
+  const table = readTextTable(text, delimiter);
+  if (!table.ok) return fail(fileName, table.message, { line: table.line });
+  const rows = table.rows;
   if (rows.length === 0) return fail(fileName, "file is empty");
   const source = delimiter === "\t" ? "TSV" : delimiter === ";" ? "CSV (semicolon-separated)" : "CSV";
   return parseRows(rows, { fileName, kind: "text", decimalComma: delimiter !== ",", source, delimiter }, options);

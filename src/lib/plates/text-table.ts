@@ -1,12 +1,15 @@
 /**
- * Bytes → rows of text cells for CSV and TSV files.
+ * Bytes → rows of text cells for CSV and TSV files from plate readers and compound lists.
  *
- * A small RFC 4180 tokenizer (quoted fields, doubled quotes, CR/LF/CRLF line ends) rather than
+ * The rows come from the one CSV reader (src/lib/csv/read.ts, RFC 4180), used rather than
  * exceljs's CSV reader, which measured far slower here (about 1 s per 1,500 rows with defaults).
- * The delimiter is sniffed from the first 50 non-empty lines: the one of tab, comma and semicolon
- * found on the most lines wins; ties go to the file's extension (.tsv → tab), then tab, comma,
- * semicolon.
+ * What stays here is what only these files need: decoding UTF-16 exports, spotting binary
+ * uploads, and choosing the delimiter, because readers and spreadsheets in other locales write
+ * tabs or semicolons. The delimiter is sniffed from the first 50 non-empty lines: the one of tab,
+ * comma and semicolon found on the most lines wins; ties go to the file's extension
+ * (.tsv → tab), then tab, comma, semicolon.
  */
+import { CsvSyntaxError, readCsv } from "@/lib/csv/read";
 
 export type Delimiter = "," | "\t" | ";";
 
@@ -72,73 +75,19 @@ export function sniffDelimiter(text: string, fileName = ""): Delimiter {
   return tied[0]!;
 }
 
-/** A row whose cells are all blank (`,,,` lines between blocks) counts as a blank line. */
-export function isBlankRow(cells: readonly string[]): boolean {
-  for (const c of cells) if (c.trim() !== "") return false;
-  return true;
-}
+export type TextTableResult =
+  | { readonly ok: true; readonly rows: TableRow[] }
+  | { readonly ok: false; readonly line: number; readonly message: string };
 
-/** Split text into rows of raw (untrimmed) cells. Blank lines are dropped. */
-export function tokenize(text: string, delimiter: Delimiter): TableRow[] {
-  if (!text.includes('"')) return tokenizeUnquoted(text, delimiter);
-  const rows: TableRow[] = [];
-  let cells: string[] = [];
-  let field = "";
-  let line = 1;
-  let rowLine = 1;
-  let inQuotes = false;
-  let fieldStarted = false;
-  const n = text.length;
-  const pushRow = () => {
-    cells.push(field);
-    if (!isBlankRow(cells)) rows.push({ line: rowLine, cells });
-    cells = [];
-    field = "";
-    fieldStarted = false;
-  };
-  for (let i = 0; i < n; i++) {
-    const c = text[i]!;
-    if (inQuotes) {
-      if (c === '"') {
-        if (text[i + 1] === '"') {
-          field += '"';
-          i++;
-        } else inQuotes = false;
-      } else {
-        if (c === "\n") line++;
-        field += c;
-      }
-      continue;
-    }
-    if (c === '"' && !fieldStarted) {
-      inQuotes = true;
-      fieldStarted = true;
-    } else if (c === delimiter) {
-      cells.push(field);
-      field = "";
-      fieldStarted = false;
-    } else if (c === "\n" || c === "\r") {
-      pushRow();
-      if (c === "\r" && text[i + 1] === "\n") i++;
-      line++;
-      rowLine = line;
-    } else {
-      field += c;
-      if (c !== " ") fieldStarted = true;
-    }
+/**
+ * Split text into rows of raw (untrimmed) cells. Blank lines and rows whose cells are all blank
+ * (`,,,` lines between blocks) are dropped; a quote that is never closed is reported with its line.
+ */
+export function readTextTable(text: string, delimiter: Delimiter): TextTableResult {
+  try {
+    return { ok: true, rows: readCsv(text, { delimiter, skipBlankRows: true }) };
+  } catch (e) {
+    if (e instanceof CsvSyntaxError) return { ok: false, line: e.line, message: e.detail };
+    throw e;
   }
-  if (field !== "" || cells.length > 0) pushRow();
-  return rows;
-}
-
-function tokenizeUnquoted(text: string, delimiter: Delimiter): TableRow[] {
-  const rows: TableRow[] = [];
-  const lines = text.split(/\r\n|\n|\r/);
-  for (let i = 0; i < lines.length; i++) {
-    const l = lines[i]!;
-    if (l.trim() === "") continue;
-    const cells = l.split(delimiter);
-    if (!isBlankRow(cells)) rows.push({ line: i + 1, cells });
-  }
-  return rows;
 }
