@@ -6,7 +6,7 @@ export class ApiError extends Error {
   readonly body: {
     error?: string;
     code?: string;
-    details?: { record?: number; line?: number; field?: string; message: string }[];
+    details?: { record?: number; line?: number; well?: string; field?: string; message: string }[];
   } & Record<string, unknown>;
   constructor(status: number, body: ApiError["body"]) {
     super(body.error ?? `The server answered ${status}.`);

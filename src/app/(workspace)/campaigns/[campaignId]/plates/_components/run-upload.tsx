@@ -3,58 +3,25 @@ import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { fmtNum, fmtSig } from "./status";
+import { ApiError } from "@/hooks/fetcher";
+import { previewPlateRun, uploadPlateRun, type RunPreview } from "@/hooks/use-plate-runs";
 
 type MapOption = { id: string; name: string; format: number; isTemplate: boolean };
-type Detail = { line?: number; well?: string; field?: string; message: string };
-type Preview = {
-  preview: {
-    summary: string;
-    shape: string;
-    format: number;
-    reads: number;
-    wells: number;
-    minValue: number;
-    maxValue: number;
-    sample: { well: string; value: number; points?: number }[];
-  };
-  readout: "endpoint" | "kinetic";
-  qc: {
-    zPrime: number | null;
-    signalToBackground: number | null;
-    cvNeutralPct: number | null;
-    cvFullPct: number | null;
-    verdict: "pass" | "fail";
-    reasons: string[];
-    warnings: string[];
-    signalUnit: string;
-  };
-};
+type Detail = NonNullable<ApiError["body"]["details"]>[number];
 type Item = {
   file: File;
   status: "checking" | "checked" | "invalid" | "uploading" | "stored" | "duplicate" | "failed";
-  preview?: Preview;
+  preview?: RunPreview;
   error?: string;
   details?: Detail[];
   runId?: string;
   qc?: { zPrime: number | null; verdict: "pass" | "fail" };
 };
 
-async function post(
-  url: string,
-  fields: Record<string, string>,
-  file: File,
-): Promise<{ status: number; body: Record<string, unknown> }> {
-  const form = new FormData();
-  for (const [k, v] of Object.entries(fields)) if (v) form.append(k, v);
-  form.append("file", file);
-  const res = await fetch(url, { method: "POST", body: form });
-  let body: Record<string, unknown> = {};
-  try {
-    body = (await res.json()) as Record<string, unknown>;
-  } catch {
-    body = { error: `The server answered ${res.status}.` };
-  }
-  return { status: res.status, body };
+/** The server's sentence and details for a refused request; a sentence of our own when the network failed. */
+function refusal(e: unknown, fallback: string): { error: string; details: Detail[] } {
+  if (e instanceof ApiError) return { error: e.message, details: e.body.details ?? [] };
+  return { error: fallback, details: [] };
 }
 
 /** Choose a plate map and files, check each file (nothing stored), then store and parse them. */
@@ -72,7 +39,6 @@ export function RunUpload({
   const [barcode, setBarcode] = useState("");
   const [items, setItems] = useState<Item[]>([]);
   const [busy, setBusy] = useState(false);
-  const api = `/api/campaigns/${campaignId}/plate-runs`;
   const runHref = (id: string) => `/campaigns/${campaignId}/plates/runs/${id}`;
 
   const update = (i: number, patch: Partial<Item>) =>
@@ -83,14 +49,11 @@ export function RunUpload({
     setItems(next);
     setBusy(true);
     for (let i = 0; i < files.length; i++) {
-      const r = await post(`${api}/preview`, { plateMapId: mapId }, files[i]!);
-      if (r.status === 200) update(i, { status: "checked", preview: r.body as unknown as Preview });
-      else
-        update(i, {
-          status: "invalid",
-          error: String(r.body.error ?? "The file was refused."),
-          details: (r.body.details as Detail[] | undefined) ?? [],
-        });
+      try {
+        update(i, { status: "checked", preview: await previewPlateRun(campaignId, mapId, files[i]!) });
+      } catch (e) {
+        update(i, { status: "invalid", ...refusal(e, "The file was refused.") });
+      }
     }
     setBusy(false);
   }
@@ -102,19 +65,16 @@ export function RunUpload({
     const ready = items.map((x, i) => ({ x, i })).filter(({ x }) => x.status === "checked");
     for (const { x, i } of ready) {
       update(i, { status: "uploading" });
-      const r = await post(api, { plateMapId: mapId, barcode: ready.length === 1 ? barcode : "" }, x.file);
-      if (r.status === 201) {
+      try {
+        const run = await uploadPlateRun(campaignId, mapId, ready.length === 1 ? barcode : "", x.file);
         stored += 1;
-        lastId = String(r.body.id);
-        update(i, { status: "stored", runId: lastId, qc: r.body.qc as Item["qc"] });
-      } else if (r.status === 409 && typeof r.body.runId === "string")
-        update(i, { status: "duplicate", error: String(r.body.error), runId: r.body.runId });
-      else
-        update(i, {
-          status: "failed",
-          error: String(r.body.error ?? "The upload failed."),
-          details: (r.body.details as Detail[] | undefined) ?? [],
-        });
+        lastId = run.id;
+        update(i, { status: "stored", runId: run.id, qc: run.qc });
+      } catch (e) {
+        const dup = e instanceof ApiError && e.status === 409 && typeof e.body.runId === "string" ? e.body.runId : null;
+        if (dup) update(i, { status: "duplicate", error: e instanceof Error ? e.message : "", runId: dup });
+        else update(i, { status: "failed", ...refusal(e, "The upload failed.") });
+      }
     }
     setBusy(false);
     if (stored === 1 && ready.length === 1 && lastId) router.push(runHref(lastId));

@@ -1,10 +1,11 @@
+import { apiPaths } from "@/hooks/api-paths";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { pageCampaign } from "@/server/auth/page-guard";
 import { getRunDetail } from "@/server/services/plates";
 import { AppError } from "@/server/errors";
 import { can } from "@/lib/roles";
-import { plateDimensions, type PlateFormat } from "@/lib/plates/geometry";
+import { plateDimensions } from "@/lib/plates/geometry";
 import { DecisionChip, VerdictChip, fmtDate } from "../../_components/status";
 import { QcPanel } from "../../_components/qc-panel";
 import { RunView, type RunWell } from "../../_components/run-view";
@@ -22,7 +23,7 @@ export default async function RunPage({ params }: { params: Promise<{ campaignId
   });
   const r = d.run;
   const writer = can(user.globalRole, role, "plate:write");
-  const dims = plateDimensions(r.format as PlateFormat);
+  const dims = plateDimensions(r.format);
   const wells: RunWell[] = d.readings.map((w) => ({
     index: w.wellIndex,
     well: w.well,
@@ -64,7 +65,7 @@ export default async function RunPage({ params }: { params: Promise<{ campaignId
       <section className="card flex flex-wrap items-center gap-x-6 gap-y-1 px-3 py-2 text-sm">
         <span>
           <span className="text-ink-muted">Raw file</span>{" "}
-          <a href={`/api/campaigns/${campaignId}/plate-runs/${r.id}/file`} download>
+          <a href={apiPaths.plateRunFile(campaignId, r.id)} download>
             Download {r.fileName}
           </a>{" "}
           <span className="num text-ink-muted">({(r.sizeBytes / 1024).toFixed(1)} KB)</span>
