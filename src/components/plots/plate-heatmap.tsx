@@ -73,8 +73,9 @@ export function PlateHeatmap({
         z,
         x,
         y,
-        text: text as unknown as string[],
-        hovertemplate: `%{text}<br>%{z:.4~g} ${unit}<extra></extra>`,
+        // customdata takes the 2-D grid in Plotly's types (text is typed 1-D, though heatmaps accept 2-D).
+        customdata: text,
+        hovertemplate: `%{customdata}<br>%{z:.4~g} ${unit}<extra></extra>`,
         colorscale,
         zmin,
         zmax,

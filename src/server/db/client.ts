@@ -14,9 +14,11 @@ function connect() {
 }
 
 // One pool per process, kept across hot reloads in development.
-const g = globalThis as unknown as { __inhibitrackDb?: ReturnType<typeof connect> };
-const conn = g.__inhibitrackDb ?? connect();
-if (env.NODE_ENV !== "production") g.__inhibitrackDb = conn;
+declare global {
+  var __inhibitrackDb: ReturnType<typeof connect> | undefined;
+}
+const conn = globalThis.__inhibitrackDb ?? connect();
+if (env.NODE_ENV !== "production") globalThis.__inhibitrackDb = conn;
 
 export const db = conn.db;
 export const sqlClient = conn.client;
