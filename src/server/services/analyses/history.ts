@@ -25,3 +25,22 @@ export async function analysisHistory(experimentId: string, limit = 10): Promise
     .orderBy(desc(analyses.requestedAt))
     .limit(limit);
 }
+
+/** The JSON of GET …/analyses/{analysisId}: status, progress (0–1) and provenance. */
+export function analysisJson(a: Analysis) {
+  return {
+    id: a.id,
+    status: a.status,
+    progress: a.progress,
+    current: a.isCurrent,
+    compounds: a.compounds,
+    error: a.status === "failed" ? a.error : null,
+    engineVersion: a.engineVersion,
+    inputHash: a.inputHash,
+    inputs: { runs: a.inputs.runs, masks: a.inputs.masks, settings: a.inputs.settings },
+    requestedAt: a.requestedAt.toISOString(),
+    startedAt: a.startedAt?.toISOString() ?? null,
+    finishedAt: a.finishedAt?.toISOString() ?? null,
+  };
+}
+export type AnalysisJson = ReturnType<typeof analysisJson>;

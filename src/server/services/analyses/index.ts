@@ -8,7 +8,7 @@ export { currentInputs } from "./inputs";
 export { analyseNow, requestAnalysis, type AnalysisRequest } from "./request";
 export { runAnalysis, type Progress } from "./run";
 export { CHENG_PRUSOFF_TOLERANCE } from "./cheng-prusoff";
-export { analysisHistory, getAnalysis, type Analysis } from "./history";
+export { analysisHistory, analysisJson, getAnalysis, type Analysis, type AnalysisJson } from "./history";
 export {
   chosenModel,
   compoundResultDetail,

@@ -1,9 +1,8 @@
 "use client";
 import { useActionState, useEffect, useRef } from "react";
 import { useRouter } from "next/navigation";
-import useSWR from "swr";
 import type { ActionState } from "@/server/action";
-import { fetchJson } from "@/hooks/fetcher";
+import { useAnalysisProgress } from "@/hooks/use-analyses";
 import { FormMessage } from "@/components/forms/form-bits";
 
 type Latest = {
@@ -39,11 +38,7 @@ export function AnalysisRunner({
   const started = state && state.ok ? state.data?.analysisId : undefined;
   const followId =
     started ?? (latest && (latest.status === "queued" || latest.status === "running") ? latest.id : undefined);
-  const { data } = useSWR(
-    followId ? `/api/campaigns/${campaignId}/experiments/${experimentId}/analyses/${followId}` : null,
-    (u: string) => fetchJson<{ status: string; progress: number; error: string | null }>(u),
-    { refreshInterval: (d) => (d && (d.status === "done" || d.status === "failed") ? 0 : 1000) },
-  );
+  const { data } = useAnalysisProgress(campaignId, experimentId, followId);
   const refreshed = useRef<string | null>(null);
   useEffect(() => {
     if (data && (data.status === "done" || data.status === "failed") && refreshed.current !== followId) {

@@ -1,6 +1,6 @@
 import { requireCampaign } from "@/server/auth/guard";
 import { json, route } from "@/server/http";
-import { getAnalysis, getExperiment } from "@/server/services/analyses";
+import { analysisJson, getAnalysis, getExperiment } from "@/server/services/analyses";
 import { AppError } from "@/server/errors";
 
 export const dynamic = "force-dynamic";
@@ -12,19 +12,6 @@ export const GET = route<{ campaignId: string; experimentId: string; analysisId:
     await getExperiment(campaignId, experimentId);
     const a = await getAnalysis(campaignId, analysisId);
     if (a.experimentId !== experimentId) throw new AppError("not_found", "No such analysis.");
-    return json({
-      id: a.id,
-      status: a.status,
-      progress: a.progress,
-      current: a.isCurrent,
-      compounds: a.compounds,
-      error: a.status === "failed" ? a.error : null,
-      engineVersion: a.engineVersion,
-      inputHash: a.inputHash,
-      inputs: { runs: a.inputs.runs, masks: a.inputs.masks, settings: a.inputs.settings },
-      requestedAt: a.requestedAt.toISOString(),
-      startedAt: a.startedAt?.toISOString() ?? null,
-      finishedAt: a.finishedAt?.toISOString() ?? null,
-    });
+    return json(analysisJson(a));
   },
 );
