@@ -42,6 +42,17 @@ function ensureScipy() {
   aptInstall(["python3-scipy"]);
 }
 
+function ensureR() {
+  const probe = ["-e", "library(minpack.lm); library(robustbase)"];
+  if (spawnSync("Rscript", probe, { stdio: "ignore" }).status === 0) return;
+  if (!isRoot)
+    throw new Error(
+      "R is the second reference oracle of the numerical tests: sudo apt-get install -y r-base-core r-cran-minpack.lm r-cran-robustbase",
+    );
+  log("Installing Debian's R with minpack.lm and robustbase (second reference oracle for the numerical tests)…");
+  aptInstall(["r-base-core", "r-cran-minpack.lm", "r-cran-robustbase"]);
+}
+
 let passed = 0;
 let failed = 0;
 const results = [];
@@ -132,6 +143,7 @@ for (const sig of ["SIGINT", "SIGTERM"]) process.on(sig, async () => (await clea
 
 try {
   ensureScipy();
+  if (want("unit")) ensureR();
   const chromium = want("e2e") ? ensureChromium() : "";
   const lockPort = await portFree(ports.s3);
   if (!lockPort) throw new Error(`Port ${ports.s3} is in use: is another \`npm test\` running?`);
