@@ -4,7 +4,8 @@
  */
 export const campaignRoles = ["lead", "chemist", "assay", "viewer"] as const;
 export type CampaignRole = (typeof campaignRoles)[number];
-export type GlobalRole = "admin" | "member";
+export const globalRoles = ["admin", "member"] as const;
+export type GlobalRole = (typeof globalRoles)[number];
 
 export const roleLabels: Record<CampaignRole, string> = {
   lead: "Project lead",

@@ -6,6 +6,7 @@ import { db } from "@/server/db/client";
 import { analyses, compoundResults, experiments } from "@/server/db/schema";
 import { refreshHitRows } from "@/server/services/hits";
 import type { ResultDetail } from "@/lib/analysis/detail";
+import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import * as hitsRoute from "@/app/api/campaigns/[campaignId]/hits/route";
 import { makeWorld, callRoute, type World } from "./harness";
 import { platesWorld, registryIds } from "./plates";
@@ -16,7 +17,7 @@ export type Invented = {
   pct?: number;
   ic50?: number;
   ki?: number;
-  mech?: string;
+  mech?: InhibitionModel;
   label?: "clear" | "ambiguous";
   flags?: string[];
 };

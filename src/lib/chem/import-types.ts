@@ -10,7 +10,8 @@ import type { BatchInput, StockInput } from "./validation";
 export const MAX_IMPORT_RECORDS = 10_000;
 export const MAX_IMPORT_BYTES = 25 * 1024 * 1024;
 
-export type ImportFormat = "csv" | "xlsx" | "sdf";
+export const IMPORT_FORMATS = ["csv", "xlsx", "sdf"] as const;
+export type ImportFormat = (typeof IMPORT_FORMATS)[number];
 
 /** One record that passed the form checks (structure not yet parsed; see import-prepare.ts). */
 export interface ImportRecord {

@@ -26,7 +26,7 @@ const DIMENSIONS: Record<PlateFormat, PlateDimensions> = {
 };
 
 export function isPlateFormat(value: unknown): value is PlateFormat {
-  return value === 96 || value === 384 || value === 1536;
+  return PLATE_FORMATS.some((f) => f === value);
 }
 
 export function plateDimensions(format: PlateFormat): PlateDimensions {

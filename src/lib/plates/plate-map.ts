@@ -243,12 +243,12 @@ export function parsePlateMapCsv(
     }
     firstLine.set(idx, line);
     const roleRaw = get(cells, "role").trim();
-    const role = roleRaw.toLowerCase() as WellRole;
     if (roleRaw === "") {
       at(line, name, "role is missing");
       continue;
     }
-    if (!WELL_ROLES.includes(role)) {
+    const role = WELL_ROLES.find((r) => r === roleRaw.toLowerCase());
+    if (role === undefined) {
       at(line, name, `unknown role ${quoteCell(roleRaw)}; use ${WELL_ROLES.join(", ")}`);
       continue;
     }

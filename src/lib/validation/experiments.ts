@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
 
 const pos = z.number().finite().positive();
 export const experimentSettingsSchema = z
@@ -19,11 +20,9 @@ export const experimentSettingsSchema = z
   })
   .strict();
 
-export const experimentKinds = ["single-dose", "dose-response", "mechanism"] as const;
-
 export const createExperimentSchema = z.object({
   name: z.string().trim().min(1, "Name the experiment.").max(120),
-  kind: z.enum(experimentKinds),
+  kind: z.enum(EXPERIMENT_KINDS),
   runIds: z.array(z.string().uuid("Each run id must be a UUID.")).min(1, "Choose at least one plate run.").max(2000),
   settings: experimentSettingsSchema.optional(),
 });

@@ -10,13 +10,17 @@ import {
   boolean,
   jsonb,
   integer,
+  check,
 } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
 import { plateRuns } from "./plates";
+import { oneOf } from "./checks";
 import type { ResultDetail } from "@/lib/analysis/detail";
+import { EXPERIMENT_KINDS, type ExperimentKind } from "@/lib/analysis/kinds";
+import { INHIBITION_MODELS, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
 
-export const experimentKind = pgEnum("experiment_kind", ["single-dose", "dose-response", "mechanism"]);
+export const experimentKind = pgEnum("experiment_kind", EXPERIMENT_KINDS);
 export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "done", "failed"]);
 
 /** Settings of an experiment; what is not set comes from the campaign (Km, [E], hit threshold). */
@@ -66,7 +70,7 @@ export const experimentRuns = pgTable(
 /** What an analysis was computed from: enough to reproduce every number. */
 export type AnalysisInputs = {
   engineVersion: string;
-  kind: "single-dose" | "dose-response" | "mechanism";
+  kind: ExperimentKind;
   settings: ExperimentSettings & {
     resolved: { hitThresholdPct: number; kmUm: number | null; enzymeNm: number | null };
   };
@@ -144,7 +148,7 @@ export const compoundResults = pgTable(
     ic50HiUm: doublePrecision("ic50_hi_um"),
     ic50Qualifier: text("ic50_qualifier"),
     hill: doublePrecision("hill"),
-    mechanism: text("mechanism"),
+    mechanism: text("mechanism").$type<InhibitionModel>(),
     mechanismLabel: text("mechanism_label"),
     kiUm: doublePrecision("ki_um"),
     kiLoUm: doublePrecision("ki_lo_um"),
@@ -161,6 +165,7 @@ export const compoundResults = pgTable(
   (t) => [
     uniqueIndex("compound_results_analysis_compound").on(t.analysisId, t.compoundId),
     index("compound_results_campaign_compound").on(t.campaignId, t.compoundId),
+    check("compound_results_mechanism", oneOf(t.mechanism, INHIBITION_MODELS)),
   ],
 );
 
@@ -173,10 +178,13 @@ export const mechanismOverrides = pgTable(
       .notNull()
       .references(() => experiments.id, { onDelete: "cascade" }),
     compoundId: text("compound_id").notNull(),
-    model: text("model").notNull(),
+    model: text("model").$type<InhibitionModel>().notNull(),
     reason: text("reason").notNull(),
     by: text("by").references(() => users.id, { onDelete: "set null" }),
     at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("mechanism_overrides_experiment").on(t.experimentId, t.compoundId, t.at)],
+  (t) => [
+    index("mechanism_overrides_experiment").on(t.experimentId, t.compoundId, t.at),
+    check("mechanism_overrides_model", oneOf(t.model, INHIBITION_MODELS)),
+  ],
 );

@@ -11,9 +11,10 @@ import {
   doublePrecision,
 } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
+import { campaignRoles, globalRoles } from "@/lib/roles";
 
-export const globalRole = pgEnum("global_role", ["admin", "member"]);
-export const campaignRole = pgEnum("campaign_role", ["lead", "chemist", "assay", "viewer"]);
+export const globalRole = pgEnum("global_role", globalRoles);
+export const campaignRole = pgEnum("campaign_role", campaignRoles);
 
 export const users = pgTable(
   "users",

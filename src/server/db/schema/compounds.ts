@@ -15,9 +15,12 @@ import {
   primaryKey,
   boolean,
   pgSequence,
+  check,
 } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users } from "./auth";
+import { oneOf } from "./checks";
+import { IMPORT_FORMATS, type ImportFormat } from "@/lib/chem/import-types";
 
 /**
  * The number behind a registry ID (`INH-000123` = env.REGISTRY_PREFIX + this number, zero-padded
@@ -174,7 +177,7 @@ export const compoundImports = pgTable(
     sha256: text("sha256").notNull(),
     s3Key: text("s3_key").notNull(),
     sizeBytes: bigint("size_bytes", { mode: "number" }).notNull(),
-    format: text("format").notNull(),
+    format: text("format").$type<ImportFormat>().notNull(),
     status: importStatus("status").notNull().default("stored"),
     progressDone: integer("progress_done").notNull().default(0),
     progressTotal: integer("progress_total").notNull().default(0),
@@ -187,7 +190,10 @@ export const compoundImports = pgTable(
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
     committedAt: timestamp("committed_at", { withTimezone: true }),
   },
-  (t) => [index("compound_imports_created").on(t.createdAt)],
+  (t) => [
+    index("compound_imports_created").on(t.createdAt),
+    check("compound_imports_format", oneOf(t.format, IMPORT_FORMATS)),
+  ],
 );
 
 /**

@@ -12,11 +12,15 @@ import {
   jsonb,
   primaryKey,
   bigint,
+  check,
 } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
+import { oneOf } from "./checks";
+import { triageStatuses } from "@/lib/hits/query";
+import { INHIBITION_MODELS, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
 
-export const triageStatus = pgEnum("triage_status", ["unreviewed", "confirmed", "advance", "on-hold", "dropped"]);
+export const triageStatus = pgEnum("triage_status", triageStatuses);
 
 /**
  * One row per (campaign, compound) with any current result: every figure the hit grid sorts or
@@ -41,7 +45,7 @@ export const hitRows = pgTable(
     ic50HiUm: doublePrecision("ic50_hi_um"),
     ic50Qualifier: text("ic50_qualifier"),
     hill: doublePrecision("hill"),
-    mechanism: text("mechanism"),
+    mechanism: text("mechanism").$type<InhibitionModel>(),
     mechanismLabel: text("mechanism_label"),
     mechanismOverridden: boolean("mechanism_overridden").notNull().default(false),
     kiUm: doublePrecision("ki_um"),
@@ -91,6 +95,7 @@ export const hitRows = pgTable(
     ),
     index("hit_rows_status").on(t.campaignId, t.status, t.compoundId),
     index("hit_rows_mechanism").on(t.campaignId, t.mechanism),
+    check("hit_rows_mechanism", oneOf(t.mechanism, INHIBITION_MODELS)),
     index("hit_rows_ki").on(t.campaignId, t.kiUm, t.compoundId),
     index("hit_rows_ic50").on(t.campaignId, t.ic50Um, t.compoundId),
     index("hit_rows_pct").on(t.campaignId, t.pctInhibition, t.compoundId),

@@ -12,13 +12,16 @@ import {
   jsonb,
   bigint,
   primaryKey,
+  check,
 } from "drizzle-orm/pg-core";
 import { sql } from "drizzle-orm";
 import { users, campaigns } from "./auth";
-import type { PlateMapWell } from "@/lib/plates/plate-map";
+import { oneOf } from "./checks";
+import { PLATE_FORMATS, type PlateFormat } from "@/lib/plates/geometry";
+import { WELL_ROLES, type PlateMapWell } from "@/lib/plates/plate-map";
 import type { RunQc } from "@/lib/plates/run-qc";
 
-export const wellRole = pgEnum("well_role", ["sample", "neutral", "full", "blank", "empty"]);
+export const wellRole = pgEnum("well_role", WELL_ROLES);
 export const qcVerdict = pgEnum("qc_verdict", ["pass", "fail"]);
 export const runDecision = pgEnum("run_decision", ["pending", "accepted", "rejected"]);
 /** Which way the readout moves when the enzyme is inhibited: a product or activity readout falls. */
@@ -38,7 +41,7 @@ export const plateMaps = pgTable(
       .notNull()
       .references(() => campaigns.id, { onDelete: "cascade" }),
     name: text("name").notNull(),
-    format: integer("format").notNull(),
+    format: integer("format").$type<PlateFormat>().notNull(),
     isTemplate: boolean("is_template").notNull().default(false),
     signalDirection: signalDirection("signal_direction").notNull().default("falls"),
     wells: jsonb("wells").$type<PlateMapWell[]>().notNull(),
@@ -50,7 +53,10 @@ export const plateMaps = pgTable(
     updatedBy: text("updated_by").references(() => users.id, { onDelete: "set null" }),
     updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [uniqueIndex("plate_maps_campaign_name").on(t.campaignId, sql`lower(${t.name})`)],
+  (t) => [
+    uniqueIndex("plate_maps_campaign_name").on(t.campaignId, sql`lower(${t.name})`),
+    check("plate_maps_format", oneOf(t.format, PLATE_FORMATS)),
+  ],
 );
 
 /**
@@ -58,7 +64,7 @@ export const plateMaps = pgTable(
  * `s3Key` (keyed by its SHA-256) and was stored and checksummed before it was parsed; the same
  * file (same SHA-256) is refused a second time in a campaign. `qc` holds every QC figure of the
  * latest computation (recomputed on mask/unmask); `zPrime` and `qcVerdict` are copied out of it
- * for lists, the Z′ trend and the analysis (issue 7: accepted runs only).
+ * for lists, the Z′ trend and the analysis (accepted runs only).
  */
 export const plateRuns = pgTable(
   "plate_runs",
@@ -77,7 +83,7 @@ export const plateRuns = pgTable(
     sha256: text("sha256").notNull(),
     s3Key: text("s3_key").notNull(),
     shape: text("shape").notNull(),
-    format: integer("format").notNull(),
+    format: integer("format").$type<PlateFormat>().notNull(),
     reads: integer("reads").notNull(),
     wellCount: integer("well_count").notNull(),
     /** "endpoint" readings are values; "kinetic" readings are initial rates in signal units per second */
@@ -98,6 +104,7 @@ export const plateRuns = pgTable(
     index("plate_runs_campaign_decision").on(t.campaignId, t.decision),
     index("plate_runs_sha256").on(t.sha256),
     index("plate_runs_plate_map").on(t.plateMapId),
+    check("plate_runs_format", oneOf(t.format, PLATE_FORMATS)),
   ],
 );
 

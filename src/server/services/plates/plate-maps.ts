@@ -16,7 +16,6 @@ import {
   type PlateMapWell,
 } from "@/lib/plates";
 import type { SignalDirection } from "@/lib/plates/run-qc";
-import type { PlateFormat } from "@/lib/plates/geometry";
 import { audit } from "../audit";
 import { issuesError } from "./errors";
 
@@ -221,5 +220,5 @@ export async function loadPlateMapRow(campaignId: string, mapId: string) {
 
 export async function getPlateMap(campaignId: string, mapId: string) {
   const row = await loadPlateMapRow(campaignId, mapId);
-  return { ...row, map: plateMapFromWells(row.format as PlateFormat, row.wells) };
+  return { ...row, map: plateMapFromWells(row.format, row.wells) };
 }

@@ -4,7 +4,7 @@ import { db, type Tx } from "@/server/db/client";
 import { campaigns, plateMaps, plateRuns, plateWellMasks, wellReadings } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import type { Actor } from "@/server/auth/actor";
-import { canonicalWell, type PlateFormat } from "@/lib/plates/geometry";
+import { canonicalWell } from "@/lib/plates/geometry";
 import { computeRunQc, type RunQc } from "@/lib/plates/run-qc";
 import { audit } from "../audit";
 
@@ -64,6 +64,8 @@ function checkReason(reason: string, what: string): string {
   return r;
 }
 
+type MaskArgs = [actor: Actor, campaignId: string, runId: string, wellName: string, reason: string];
+
 type MaskStep = { tx: Tx; runId: string; well: string; why: string; actorId: string };
 
 /** Opens a mask row (the well must have an unmasked reading) or closes the open one. */
@@ -101,16 +103,12 @@ const closeMask: MaskChange = {
  */
 async function changeMask(
   change: MaskChange,
-  actor: Actor,
-  campaignId: string,
-  runId: string,
-  wellName: string,
-  reason: string,
+  ...[actor, campaignId, runId, wellName, reason]: MaskArgs
 ): Promise<RunQc> {
   const why = checkReason(reason, change.masked ? "masking a well" : "unmasking a well");
   return db.transaction(async (tx) => {
     const run = await lockRun(tx, campaignId, runId);
-    const well = canonicalWell(wellName, run.format as PlateFormat) ?? wellName.trim().toUpperCase();
+    const well = canonicalWell(wellName, run.format) ?? wellName.trim().toUpperCase();
     await change.record({ tx, runId, well, why, actorId: actor.id });
     await tx
       .update(wellReadings)
@@ -131,26 +129,10 @@ async function changeMask(
 }
 
 /** Mask one well with a reason (audited); QC and % inhibition are recomputed in the same transaction. */
-export function maskWell(
-  actor: Actor,
-  campaignId: string,
-  runId: string,
-  wellName: string,
-  reason: string,
-): Promise<RunQc> {
-  return changeMask(openMask, actor, campaignId, runId, wellName, reason);
-}
+export const maskWell = (...args: MaskArgs): Promise<RunQc> => changeMask(openMask, ...args);
 
 /** Unmask a well (the mask row is closed, not deleted); QC and % inhibition are recomputed. */
-export function unmaskWell(
-  actor: Actor,
-  campaignId: string,
-  runId: string,
-  wellName: string,
-  reason: string,
-): Promise<RunQc> {
-  return changeMask(closeMask, actor, campaignId, runId, wellName, reason);
-}
+export const unmaskWell = (...args: MaskArgs): Promise<RunQc> => changeMask(closeMask, ...args);
 
 /**
  * Accept or reject a run with a reason (audited). A run that fails QC cannot be accepted: its

@@ -8,7 +8,6 @@ import { deleteObject, putObject } from "@/server/storage/s3";
 import type { Actor } from "@/server/auth/actor";
 import { isUniqueViolation } from "@/server/db/sql-helpers";
 import { plateMapFromWells } from "@/lib/plates";
-import type { PlateFormat } from "@/lib/plates/geometry";
 import { MAX_FILE_BYTES, parseReaderExport, type ExportPreview } from "@/lib/plates/reader-export";
 import { buildReadings, computeRunQc, type QcInputWell, type RunQc, type RunReading } from "@/lib/plates/run-qc";
 import { audit } from "../audit";
@@ -64,13 +63,25 @@ function cleanFileName(name: string): string {
 
 export const s3KeyFor = (sha256: string) => `plate-runs/sha256/${sha256}`;
 
-async function parseAgainstMap(mapRow: typeof plateMaps.$inferSelect, bytes: Uint8Array, fileName: string) {
-  const map = plateMapFromWells(mapRow.format as PlateFormat, mapRow.wells);
+/** Parse with the plate map's format, check against the map, then QC and % inhibition (nothing stored). */
+async function readAgainstMap(
+  campaign: Campaign,
+  mapRow: typeof plateMaps.$inferSelect,
+  bytes: Uint8Array,
+  fileName: string,
+) {
+  const map = plateMapFromWells(mapRow.format, mapRow.wells);
   const parsed = await parseReaderExport(bytes, fileName, { format: map.format });
   if (!parsed.ok) throw issuesError(parsed.issues);
   const built = buildReadings(map, parsed.export);
   if (!built.ok) throw issuesError(built.issues);
-  return { map, exp: parsed.export, built };
+  const { qc, inhibitionPct } = computeRunQc(qcWells(built), {
+    readout: built.readout,
+    direction: mapRow.signalDirection,
+    minZPrime: campaign.qcMinZPrime,
+    maxCvPct: campaign.qcMaxCvPct,
+  });
+  return { exp: parsed.export, built, qc, inhibitionPct };
 }
 
 function qcWells(readings: ReturnType<typeof buildReadings> & { ok: true }): QcInputWell[] {
@@ -103,13 +114,7 @@ export async function previewRun(
   const name = cleanFileName(fileName);
   checkSize(name, bytes.byteLength);
   const mapRow = await loadPlateMapRow(campaign.id, plateMapId);
-  const { exp, built } = await parseAgainstMap(mapRow, bytes, name);
-  const { qc } = computeRunQc(qcWells(built), {
-    readout: built.readout,
-    direction: mapRow.signalDirection,
-    minZPrime: campaign.qcMinZPrime,
-    maxCvPct: campaign.qcMaxCvPct,
-  });
+  const { exp, built, qc } = await readAgainstMap(campaign, mapRow, bytes, name);
   return {
     preview: exp.preview,
     readout: built.readout,
@@ -203,13 +208,7 @@ export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadI
   const key = s3KeyFor(sha256);
   await putObject(key, input.bytes, contentType, sha256);
   try {
-    const { exp, built } = await parseAgainstMap(mapRow, input.bytes, fileName);
-    const { qc, inhibitionPct } = computeRunQc(qcWells(built), {
-      readout: built.readout,
-      direction: mapRow.signalDirection,
-      minZPrime: campaign.qcMinZPrime,
-      maxCvPct: campaign.qcMaxCvPct,
-    });
+    const { exp, built, qc, inhibitionPct } = await readAgainstMap(campaign, mapRow, input.bytes, fileName);
     const id = await db.transaction(async (tx) => {
       const [run] = await tx
         .insert(plateRuns)

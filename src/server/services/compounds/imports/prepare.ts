@@ -56,7 +56,7 @@ export async function prepareJob(id: string): Promise<void> {
     const check = crypto.createHash("sha256").update(bytes).digest("hex");
     if (check !== job!.sha256) throw new AppError("internal", "The stored file does not match its checksum.");
     const tParse = performance.now();
-    const parsed = await parseFile(job!.format as ImportFormat, bytes);
+    const parsed = await parseFile(job!.format, bytes);
     const parseMs = performance.now() - tParse;
     if (parsed.fileErrors.length > 0) {
       await db

@@ -1,11 +1,16 @@
 import { z } from "zod";
+import { PLATE_FORMATS } from "@/lib/plates/geometry";
+
+const FORMAT_MESSAGE = `format must be ${PLATE_FORMATS.slice(0, -1).join(", ")} or ${PLATE_FORMATS.at(-1)}`;
 
 /** Multipart fields of POST /api/campaigns/{campaignId}/plate-maps (the CSV comes as `file`). */
 export const createPlateMapForm = z.object({
   name: z.string().trim().min(1, "Give the plate map a name.").max(120, "A plate map name has at most 120 characters."),
-  format: z
-    .enum(["96", "384", "1536"], { message: "format must be 96, 384 or 1536" })
-    .transform((f) => Number(f) as 96 | 384 | 1536),
+  format: z.string({ error: () => FORMAT_MESSAGE }).transform((f, ctx) => {
+    const format = PLATE_FORMATS.find((p) => String(p) === f);
+    if (format === undefined) ctx.addIssue({ code: "custom", message: FORMAT_MESSAGE });
+    return format ?? z.NEVER;
+  }),
   template: z
     .enum(["0", "1", "true", "false"])
     .optional()

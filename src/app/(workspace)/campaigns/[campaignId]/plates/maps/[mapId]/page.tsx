@@ -4,7 +4,6 @@ import { pageCampaign } from "@/server/auth/page-guard";
 import { getPlateMap, listPlateMaps } from "@/server/services/plates";
 import { AppError } from "@/server/errors";
 import { can } from "@/lib/roles";
-import type { PlateFormat } from "@/lib/plates/geometry";
 import { ChemicalSafetyNote } from "@/components/ui/caution";
 import { PlateMapEditor } from "../../_components/plate-map-editor";
 
@@ -52,7 +51,7 @@ export default async function PlateMapPage({ params }: { params: Promise<{ campa
         mapId={m.id}
         initial={{
           name: m.name,
-          format: m.format as PlateFormat,
+          format: m.format,
           wells: m.wells,
           isTemplate: m.isTemplate,
           signalDirection: m.signalDirection,
