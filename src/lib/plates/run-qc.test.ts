@@ -1,9 +1,9 @@
 // Checks: readings built from an export and its plate map, plate QC and % inhibition.
-// Outside references: the worked example of science.md "Plate quality and normalisation"
-// (Z′ definition: Zhang, Chung & Oldenburg, J Biomol Screen 1999;4:67–73; figures [calc] with
-// SciPy), and SciPy itself (python3 on the machine) for Z′ and CVs of a fixture plate. The
-// fixture files are INVENTED data (fixtures/plates/README.md); their "truth" is the simulator's
-// input, used only as a consistency check, not as a reference.
+// Outside references: a worked example of the Z′ definition (Zhang, Chung & Oldenburg, J Biomol
+// Screen 1999;4:67–73) on controls 1000 ± 31.6 and 100 ± 7.07, its figures calculated with SciPy,
+// and SciPy itself (python3 on the machine) for Z′ and CVs of a fixture plate. The fixture files
+// are INVENTED data (fixtures/plates/README.md); their "truth" is the simulator's input, used
+// only as a consistency check, not as a reference.
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import { describe, expect, it } from "vitest";
@@ -47,7 +47,7 @@ function qcOf(readings: RunReading[], masked: string[] = [], direction: "falls" 
   return computeRunQc(wells, { readout: "endpoint", direction, minZPrime: 0.5, maxCvPct: 20 });
 }
 
-describe("QC of a run (science.md worked example)", () => {
+describe("QC of a run (worked Z′ example)", () => {
   it("Z′ 0.87102, SW 24.79, S/B 10, CV 3.16 % and 7.07 %, and 550 is 50 % inhibition", () => {
     const b = buildReadings(workedMap(), workedExport());
     if (!b.ok) throw new Error(b.issues[0]!.text);

@@ -1,7 +1,7 @@
 // QC review against the real Postgres: verdicts, masks (QC and % inhibition recomputed in the
 // same transaction, audited, history kept) and accept/reject decisions.
-// Outside reference: the worked example of science.md "Plate quality and normalisation"
-// (Z′: Zhang, Chung & Oldenburg, J Biomol Screen 1999;4:67–73; figures [calc] with SciPy).
+// Outside reference: a worked example of the Z′ definition (Zhang, Chung & Oldenburg, J Biomol
+// Screen 1999;4:67–73) on controls 1000 ± 31.6 and 100 ± 7.07, its figures calculated with SciPy.
 // The plates are INVENTED data (fixtures/plates/README.md; test helpers in src/test/plates.ts).
 import { describe, it, expect, beforeAll } from "vitest";
 import { and, eq } from "drizzle-orm";

@@ -1,7 +1,7 @@
 // Plate runs end to end against the real Postgres and the S3 fake: uploads, QC, previews, the
 // stored raw file and duplicates.
-// Outside references: the worked example of science.md "Plate quality and normalisation"
-// (Z′: Zhang, Chung & Oldenburg, J Biomol Screen 1999;4:67–73; figures [calc] with SciPy),
+// Outside references: a worked example of the Z′ definition (Zhang, Chung & Oldenburg, J Biomol
+// Screen 1999;4:67–73) on controls 1000 ± 31.6 and 100 ± 7.07, its figures calculated with SciPy;
 // NumPy/SciPy (python3) for the QC of a fixture plate, and Node's crypto for SHA-256 (FIPS 180-4).
 // The plates are INVENTED data (fixtures/plates/README.md; test helpers in src/test/plates.ts).
 import { describe, it, expect, beforeAll } from "vitest";
@@ -27,7 +27,7 @@ beforeAll(async () => {
 const { postMap, postRun, mapFor } = plateRoutes(() => w);
 
 describe("plate runs: upload, QC, raw file", () => {
-  it("QC figures of the science.md worked example: Z′ 0.87102, SW 24.79, S/B 10, CV 3.16 % / 7.07 %, 550 → 50 %", async () => {
+  it("QC figures of the worked Z′ example: Z′ 0.87102, SW 24.79, S/B 10, CV 3.16 % / 7.07 %, 550 → 50 %", async () => {
     const { id: mapId } = await createPlateMap(w.people.assay, w.campaignId, {
       name: "Worked example",
       map: smallMap(),
