@@ -11,6 +11,7 @@ import crypto from "node:crypto";
 import { db, sqlClient } from "@/server/db/client";
 import { campaigns, plateMaps, users } from "@/server/db/schema";
 import { uploadRun } from "@/server/services/plates";
+import { formatRegistryId } from "@/server/registry-id";
 import { withControls } from "@/lib/plates/layouts";
 import { writeGridText, writeLongKinetic } from "@/lib/plates/export-writers";
 import { parseReaderExport } from "@/lib/plates/reader-export";
@@ -26,7 +27,7 @@ function fullMap(format: PlateFormat): PlateMapWell[] {
       ? {
           well: w.well,
           role: "sample" as const,
-          compound: `INH-${String((i % 900) + 1).padStart(6, "0")}`,
+          compound: formatRegistryId((i % 900) + 1),
           concentrationUm: 10,
         }
       : w,
