@@ -1,5 +1,6 @@
 import { z } from "zod";
-import { DEFAULT_REGISTRY_PREFIX, REGISTRY_PREFIX_RE } from "@/lib/registry-id";
+// Relative, not "@/…": next.config.ts loads this file through a transpiler that does not resolve the alias.
+import { DEFAULT_REGISTRY_PREFIX, REGISTRY_PREFIX_RE } from "./lib/registry-id";
 
 /**
  * The environment, parsed once. A bad value fails `next build` and the first server import with
