@@ -24,7 +24,13 @@ import { issue, MAX_ISSUES, type PlateIssue } from "./issues";
 import type { PlateMap, WellRole } from "./plate-map";
 import type { KineticExport, ReaderExport } from "./reader-export";
 
-export type SignalDirection = "falls" | "rises";
+/** Whether the readout falls or rises with inhibition (the plate map says which; the database enum is built from it). */
+export const SIGNAL_DIRECTIONS = ["falls", "rises"] as const;
+export type SignalDirection = (typeof SIGNAL_DIRECTIONS)[number];
+/** A plate run's review state, and the two decisions a person can take. */
+export const RUN_DECISIONS = ["pending", "accepted", "rejected"] as const;
+export const REVIEW_DECISIONS = ["accepted", "rejected"] as const;
+export const QC_VERDICTS = ["pass", "fail"] as const;
 export type Readout = "endpoint" | "kinetic";
 
 export interface RunReading {

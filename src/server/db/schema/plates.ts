@@ -19,13 +19,13 @@ import { users, campaigns } from "./auth";
 import { oneOf } from "./checks";
 import { PLATE_FORMATS, type PlateFormat } from "@/lib/plates/geometry";
 import { WELL_ROLES, type PlateMapWell } from "@/lib/plates/plate-map";
-import type { RunQc } from "@/lib/plates/run-qc";
+import { QC_VERDICTS, RUN_DECISIONS, SIGNAL_DIRECTIONS, type RunQc } from "@/lib/plates/run-qc";
 
 export const wellRole = pgEnum("well_role", WELL_ROLES);
-export const qcVerdict = pgEnum("qc_verdict", ["pass", "fail"]);
-export const runDecision = pgEnum("run_decision", ["pending", "accepted", "rejected"]);
+export const qcVerdict = pgEnum("qc_verdict", QC_VERDICTS);
+export const runDecision = pgEnum("run_decision", RUN_DECISIONS);
 /** Which way the readout moves when the enzyme is inhibited: a product or activity readout falls. */
-export const signalDirection = pgEnum("signal_direction", ["falls", "rises"]);
+export const signalDirection = pgEnum("signal_direction", SIGNAL_DIRECTIONS);
 
 /**
  * A plate map: what is in each well. `wells` holds the non-empty wells as the plate library's

@@ -13,6 +13,7 @@ import {
   updatePlateMap,
 } from "@/server/services/plates";
 import { plateMapFromJson } from "@/lib/plates";
+import { REVIEW_DECISIONS, SIGNAL_DIRECTIONS } from "@/lib/plates/run-qc";
 
 const id = z.string().uuid();
 const reason = z
@@ -26,7 +27,7 @@ const saveMapSchema = z.object({
   mapId: z.union([id, z.literal("")]).optional(),
   name: z.string().trim().min(1, "Give the plate map a name.").max(120),
   template: z.enum(["on", "1", "0", ""]).optional(),
-  signalDirection: z.enum(["falls", "rises"]).default("falls"),
+  signalDirection: z.enum(SIGNAL_DIRECTIONS).default("falls"),
   /** {"format": 96|384|1536, "wells": PlateMapWell[] (non-empty wells)} from the editor */
   mapJson: z.string().min(2).max(900_000),
 });
@@ -90,7 +91,7 @@ export const unmaskWellAction = formAction(maskSchema, async ({ campaignId, runI
   };
 });
 
-const decideSchema = z.object({ campaignId: id, runId: id, decision: z.enum(["accepted", "rejected"]), reason });
+const decideSchema = z.object({ campaignId: id, runId: id, decision: z.enum(REVIEW_DECISIONS), reason });
 
 /** Accept or reject a run's QC with a reason (audited). */
 export const decideRunAction = formAction(decideSchema, async ({ campaignId, runId, decision, reason: why }) => {

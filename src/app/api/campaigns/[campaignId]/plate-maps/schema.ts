@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { PLATE_FORMATS } from "@/lib/plates/geometry";
+import { SIGNAL_DIRECTIONS } from "@/lib/plates/run-qc";
 
 const FORMAT_MESSAGE = `format must be ${PLATE_FORMATS.slice(0, -1).join(", ")} or ${PLATE_FORMATS.at(-1)}`;
 
@@ -15,6 +16,6 @@ export const createPlateMapForm = z.object({
     .enum(["0", "1", "true", "false"])
     .optional()
     .transform((v) => v === "1" || v === "true"),
-  signalDirection: z.enum(["falls", "rises"], { message: 'signalDirection must be "falls" or "rises"' }).optional(),
+  signalDirection: z.enum(SIGNAL_DIRECTIONS, { message: 'signalDirection must be "falls" or "rises"' }).optional(),
   file: z.instanceof(File, { message: "file: attach the plate map as a CSV file" }),
 });
