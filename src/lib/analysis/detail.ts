@@ -7,6 +7,9 @@
  * The objects are strict, so a misspelt key in a writer or a stored row is an error rather than
  * a silently missing value. Numbers are null where the engine has no finite value (an unbounded
  * CI end, a constant the model does not have). Concentrations are µM.
+ *
+ * Fields added after results were first stored (outcome, adequacy, weighting decision, outlier
+ * proposals, alternative models) are optional, so rows written before them still parse.
  */
 import { z } from "zod";
 import { INHIBITION_MODELS } from "@/lib/kinetics/inhibition-models";
@@ -15,6 +18,31 @@ import type { ExperimentKind } from "./kinds";
 const num = z.number().nullable();
 /** A 95 % CI; an end is null where it is unbounded or cannot be computed. */
 const interval = z.tuple([num, num]);
+
+// ---------------------------------------------------------------- shared by the fits
+
+/**
+ * Is the model adequate? The lack-of-fit F-test over replicate conditions (null without
+ * replicates) and the runs test of the residuals' signs in their natural order (Draper & Smith;
+ * Wald–Wolfowitz; see kinetics/adequacy.ts). `adequate` is false when either p < 0.01; `reasons`
+ * say which in words.
+ */
+const adequacySummary = z.strictObject({
+  lackOfFit: z.strictObject({ f: num, p: num, dfLof: z.number(), dfPe: z.number() }).nullable(),
+  runs: z.strictObject({ runs: z.number(), expected: z.number(), p: num }),
+  adequate: z.boolean(),
+  reasons: z.array(z.string()),
+});
+
+/** The weighting a fit used: set by the experiment, or chosen from the replicates ("auto"), and why. */
+const weightingDecision = z.strictObject({
+  used: z.enum(["none", "relative"]),
+  chosen: z.enum(["auto", "set"]),
+  reason: z.string(),
+});
+
+export type AdequacySummary = z.infer<typeof adequacySummary>;
+export type WeightingDecision = z.infer<typeof weightingDecision>;
 
 // ---------------------------------------------------------------- single-dose
 
@@ -66,18 +94,66 @@ const morrisonSummary = z.union([
   z.strictObject({ error: z.string() }),
 ]);
 
+/**
+ * A well the robust fit finds outlying (ROUT at the stated false-discovery rate): proposed as a
+ * mask, never dropped by itself. `residual` is standardised (residual / robust SD); `p` its
+ * two-sided p-value.
+ */
+const doseResponseOutlier = z.strictObject({
+  runId: z.string(),
+  well: z.string(),
+  concentrationUm: z.number(),
+  inhibitionPct: z.number(),
+  residual: num,
+  p: num,
+});
+
+/** What the outlier step did: the proposals, at which Q, and which fit the result reports. */
+const doseResponseOutliers = z.strictObject({
+  q: z.number(),
+  proposed: z.array(doseResponseOutlier),
+  /** "all-points": the proposals are only shown; "without-outliers": robust was on and they were left out. */
+  reported: z.enum(["all-points", "without-outliers"]),
+  /** The other of the two fits, when the outliers were left out (robust on). */
+  allPointsFit: logistic4Summary.nullable(),
+});
+
 const doseResponseFitted = z.strictObject({
+  /** "fitted": an IC50 is reported (absent on rows stored before outcomes existed). */
+  outcome: z.literal("fitted").optional(),
   fit: logistic4Summary,
   testedRangeUm: z.tuple([z.number(), z.number()]),
   fixed: z.strictObject({ topPct: num, bottomPct: num }),
   morrison: morrisonSummary.nullable(),
+  /** Highest mean % inhibition at the top concentration. */
+  maxInhibitionPct: num.optional(),
+  adequacy: adequacySummary.nullable().optional(),
+  weighting: weightingDecision.optional(),
+  outliers: doseResponseOutliers.optional(),
   points: z.array(doseResponsePoint),
 });
 
-/** Fewer than 4 concentrations or 5 wells: no fit, only the points. */
+/**
+ * No IC50: inactive (< 50 % inhibition at the top concentration, with the maximum reached), an
+ * activator (the response goes the other way), or not determined (with the reason: too few
+ * points, no convergence, a step no curve supports …). `curve` is the 4PL drawn, when there is one.
+ */
+const doseResponseCalled = z.strictObject({
+  outcome: z.enum(["inactive", "activator", "not-determined"]),
+  reason: z.string(),
+  maxInhibitionPct: num,
+  testedRangeUm: z.tuple([z.number(), z.number()]).nullable(),
+  curve: logistic4Summary.nullable(),
+  adequacy: adequacySummary.nullable(),
+  weighting: weightingDecision.nullable(),
+  outliers: doseResponseOutliers.nullable(),
+  points: z.array(doseResponsePoint),
+});
+
+/** Fewer than 4 concentrations or 5 wells: no fit, only the points (rows stored before outcomes existed). */
 const doseResponseTooFew = z.strictObject({ points: z.array(doseResponsePoint) });
 
-export const doseResponseDetailSchema = z.union([doseResponseFitted, doseResponseTooFew]);
+export const doseResponseDetailSchema = z.union([doseResponseFitted, doseResponseCalled, doseResponseTooFew]);
 
 // ---------------------------------------------------------------- mechanism
 
@@ -97,6 +173,7 @@ const modelSummary = z.strictObject({
   fTestVsMixedP: num,
   dof: z.number(),
   converged: z.boolean(),
+  adequacy: adequacySummary.nullable().optional(),
 });
 
 export type ModelSummary = z.infer<typeof modelSummary>;
@@ -130,13 +207,70 @@ export type ChengPrusoffCheck = z.infer<typeof chengPrusoffCheck>;
 
 const inhibitionModel = z.enum(INHIBITION_MODELS);
 
+/** A fitted constant of an alternative model, in its own unit (µM for concentrations, "" for ratios). */
+const constantSummary = z.strictObject({ value: num, se: num, ci95: interval, unit: z.string() });
+
+/**
+ * A model outside the four standard ones, fitted because the data call for it: substrate
+ * inhibition (Haldane term), partial (hyperbolic) inhibition, or a tight-binding (Morrison)
+ * version when the enzyme concentration is known. `meaning` is one plain sentence for the lead.
+ */
+const alternativeModel = z.strictObject({
+  model: z.string(),
+  /** The model's name in words, e.g. "partial mixed inhibition". */
+  name: z.string(),
+  constants: z.record(z.string(), constantSummary),
+  rss: num,
+  aicc: num,
+  /** AICc minus the lowest AICc among all models fitted (standard and alternative). */
+  deltaAicc: num,
+  dof: z.number(),
+  converged: z.boolean(),
+  adequacy: adequacySummary.nullable(),
+  meaning: z.string(),
+});
+
+export type AlternativeModel = z.infer<typeof alternativeModel>;
+
+/** A mechanism well the robust fit finds outlying: proposed as a mask, not dropped. */
+const mechanismOutlier = z.strictObject({
+  runId: z.string(),
+  well: z.string(),
+  substrateUm: z.number(),
+  inhibitorUm: z.number(),
+  rate: z.number(),
+  residual: num,
+  p: num,
+});
+
 const mechanismFitted = z.strictObject({
   best: inhibitionModel,
-  label: z.enum(["clear", "ambiguous"]),
+  /** "inadequate": the chosen standard model fails the adequacy checks (never "clear" then). */
+  label: z.enum(["clear", "ambiguous", "inadequate"]),
+  /** Why the label is not "clear", in words (absent on rows stored before labels had reasons). */
+  labelReasons: z.array(z.string()).optional(),
   n: z.number(),
+  /** The weighting the fits used. */
   weighting: z.enum(["none", "relative"]),
+  /** How that weighting was decided (set, or chosen from the replicates), and why. */
+  weightingDecision: weightingDecision.optional(),
   /** Every model of INHIBITION_MODELS, no other key. */
   models: z.record(inhibitionModel, modelSummary),
+  /** Models beyond the four, fitted when the data call for them. */
+  alternatives: z.array(alternativeModel).optional(),
+  /** The model the engine recommends: one of the four, or an alternative's `model`. */
+  recommended: z.string().optional(),
+  /** Why that one, in words. */
+  recommendedReason: z.string().optional(),
+  /** Enzyme concentration the tight-binding check used, µM (null when not known). */
+  enzymeUm: num.optional(),
+  outliers: z
+    .strictObject({
+      q: z.number(),
+      proposed: z.array(mechanismOutlier),
+      reported: z.enum(["all-points", "without-outliers"]),
+    })
+    .optional(),
   points: z.array(mechanismPoint),
   backgroundSubtracted: z.boolean(),
   /** Present when the campaign has a measured IC50 of the compound (written after the fit). */
@@ -154,6 +288,7 @@ export const mechanismDetailSchema = z.union([
 export type SingleDoseDetail = z.infer<typeof singleDoseDetailSchema>;
 export type DoseResponseDetail = z.infer<typeof doseResponseDetailSchema>;
 export type DoseResponseFittedDetail = z.infer<typeof doseResponseFitted>;
+export type DoseResponseCalledDetail = z.infer<typeof doseResponseCalled>;
 export type MechanismDetail = z.infer<typeof mechanismDetailSchema>;
 export type MechanismFittedDetail = z.infer<typeof mechanismFitted>;
 
@@ -181,7 +316,10 @@ export function parseResultDetail(kind: ExperimentKind, json: unknown): ResultDe
   throw new Error(`The ${kind} result detail does not match its schema at ${where}: ${issue?.message ?? "invalid"}.`);
 }
 
-/** A dose-response detail with a fit (not the too-few-points record). */
+/** A dose-response detail with a fit and an IC50 (not an inactive/activator/not-determined call or too few points). */
 export const isFittedDoseResponse = (d: ResultDetail): d is DoseResponseFittedDetail => "fit" in d;
+/** A dose-response detail that reports no IC50 and says why (inactive, activator, not determined). */
+export const isCalledDoseResponse = (d: ResultDetail): d is DoseResponseCalledDetail =>
+  "outcome" in d && "reason" in d && !("fit" in d);
 /** A mechanism detail with the four models (not the too-few-points or failed-fit record). */
 export const isFittedMechanism = (d: ResultDetail): d is MechanismFittedDetail => "models" in d;

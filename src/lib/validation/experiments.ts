@@ -2,6 +2,15 @@ import { z } from "zod";
 import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
 
 const pos = z.number().finite().positive();
+
+/**
+ * How the fits weight their points: "auto" decides from the replicate wells (relative weighting
+ * 1/Ŷ² when their SD grows with the signal, else none), "none" is ordinary least squares and
+ * "relative" divides each residual by the fitted value. The default is "auto".
+ */
+export const ANALYSIS_WEIGHTINGS = ["auto", "none", "relative"] as const;
+export type AnalysisWeighting = (typeof ANALYSIS_WEIGHTINGS)[number];
+export const DEFAULT_ANALYSIS_WEIGHTING: AnalysisWeighting = "auto";
 export const experimentSettingsSchema = z
   .object({
     hitRule: z
@@ -11,7 +20,10 @@ export const experimentSettingsSchema = z
         z.object({ kind: z.literal("robust"), k: z.number().min(0).max(10) }),
       ])
       .optional(),
-    weighting: z.enum(["none", "relative"]).optional(),
+    /** Dose-response and mechanism fits (see ANALYSIS_WEIGHTINGS). */
+    weighting: z.enum(ANALYSIS_WEIGHTINGS).optional(),
+    /** Report the fit without the outliers a robust fit finds (they are proposed as masks either way). */
+    robust: z.boolean().optional(),
     fixTopPct: z.number().finite().nullable().optional(),
     fixBottomPct: z.number().finite().nullable().optional(),
     substrateUm: pos.nullable().optional(),

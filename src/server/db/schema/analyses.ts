@@ -19,6 +19,7 @@ import { oneOf } from "./checks";
 import type { ResultDetail } from "@/lib/analysis/detail";
 import { EXPERIMENT_KINDS, type ExperimentKind } from "@/lib/analysis/kinds";
 import { INHIBITION_MODELS, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
+import type { AnalysisWeighting } from "@/lib/validation/experiments";
 
 export const experimentKind = pgEnum("experiment_kind", EXPERIMENT_KINDS);
 export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "done", "failed"]);
@@ -26,7 +27,10 @@ export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "d
 /** Settings of an experiment; what is not set comes from the campaign (Km, [E], hit threshold). */
 export type ExperimentSettings = {
   hitRule?: { kind: "threshold"; thresholdPct: number } | { kind: "sd"; k: number } | { kind: "robust"; k: number };
-  weighting?: "none" | "relative";
+  /** Weighting of dose-response and mechanism fits; "auto" (the default) decides from replicates. */
+  weighting?: AnalysisWeighting;
+  /** Report the fit without the outliers a robust fit finds (default off: they are only proposed). */
+  robust?: boolean;
   fixTopPct?: number | null;
   fixBottomPct?: number | null;
   /** Substrate concentration of the dose-response assay, µM (for Cheng–Prusoff). */
@@ -72,7 +76,17 @@ export type AnalysisInputs = {
   engineVersion: string;
   kind: ExperimentKind;
   settings: ExperimentSettings & {
-    resolved: { hitThresholdPct: number; kmUm: number | null; enzymeNm: number | null };
+    /**
+     * The settings as the computation applied them. `weighting` and `robust` are absent from
+     * analyses requested before they existed (those were unweighted unless set, and not robust).
+     */
+    resolved: {
+      hitThresholdPct: number;
+      kmUm: number | null;
+      enzymeNm: number | null;
+      weighting?: AnalysisWeighting;
+      robust?: boolean;
+    };
   };
   runs: { id: string; sha256: string; fileName: string; decision: string }[];
   masks: { runId: string; well: string; reason: string }[];

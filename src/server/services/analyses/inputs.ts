@@ -11,17 +11,24 @@ import {
 } from "@/server/db/schema";
 import { ENGINE_VERSION } from "@/lib/kinetics";
 import { campaignKmUm, toNanomolar } from "@/lib/units";
+import { DEFAULT_ANALYSIS_WEIGHTING } from "@/lib/validation/experiments";
 import type { Campaign } from "../campaigns";
 import type { Experiment } from "./experiments";
 
-/** The experiment's settings with what it leaves unset taken from the campaign (Km, [E], hit threshold). */
-function resolvedSettings(campaign: Campaign, s: ExperimentSettings) {
+/**
+ * The experiment's settings with what it leaves unset taken from the campaign (Km, [E], hit
+ * threshold) or the defaults (weighting "auto", robust off). They are part of the inputs, so a
+ * change of any of them changes the input hash and gives a new analysis.
+ */
+function resolvedSettings(campaign: Campaign, s: ExperimentSettings): AnalysisInputs["settings"]["resolved"] {
   const campaignENm =
     campaign.enzymeConcValue !== null ? toNanomolar(campaign.enzymeConcValue, campaign.enzymeConcUnit ?? "nM") : null;
   return {
     hitThresholdPct: s.hitRule?.kind === "threshold" ? s.hitRule.thresholdPct : campaign.hitThresholdPct,
     kmUm: s.kmUm ?? campaignKmUm(campaign),
     enzymeNm: s.enzymeNm ?? campaignENm,
+    weighting: s.weighting ?? DEFAULT_ANALYSIS_WEIGHTING,
+    robust: s.robust ?? false,
   };
 }
 

@@ -56,13 +56,20 @@ async function compute(
   readings: AnalysisReading[],
 ): Promise<CompoundResult[]> {
   if (inputs.kind === "single-dose") return analyseSingleDose(readings, hitRuleOf(inputs)).results;
+  const s = inputs.settings;
+  // Inputs recorded before weighting and robust were resolved: unweighted unless set, not robust.
+  const weighting = s.resolved.weighting ?? s.weighting ?? "none";
+  const robust = s.resolved.robust ?? s.robust ?? false;
+  const enzymeUm = s.resolved.enzymeNm !== null ? s.resolved.enzymeNm / 1000 : null;
   if (inputs.kind === "dose-response")
     return analyseDoseResponse(readings, {
-      fixTopPct: inputs.settings.fixTopPct ?? null,
-      fixBottomPct: inputs.settings.fixBottomPct ?? null,
-      enzymeUm: inputs.settings.resolved.enzymeNm !== null ? inputs.settings.resolved.enzymeNm / 1000 : null,
+      fixTopPct: s.fixTopPct ?? null,
+      fixBottomPct: s.fixBottomPct ?? null,
+      enzymeUm,
+      weighting,
+      robust,
     });
-  const results = analyseMechanism(readings, { weighting: inputs.settings.weighting ?? "none" });
+  const results = analyseMechanism(readings, { weighting, enzymeUm, robust });
   const measured = await measuredIc50s(
     campaignId,
     results.map((r) => r.compoundId),
