@@ -51,6 +51,7 @@ import * as analysisRoute from "@/app/api/campaigns/[campaignId]/experiments/[ex
 import * as resultsRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route";
 import * as analysisActions from "@/app/(workspace)/campaigns/[campaignId]/analyses/actions";
 import { analysesWorld } from "@/test/analyses";
+import { DEFAULT_REGISTRY_PREFIX, formatRegistryId } from "@/lib/registry-id";
 import * as hitsRoute from "@/app/api/campaigns/[campaignId]/hits/route";
 import * as hitRoute from "@/app/api/campaigns/[campaignId]/hits/[registryId]/route";
 import * as hitCommentsRoute from "@/app/api/campaigns/[campaignId]/hits/[registryId]/comments/route";
@@ -529,6 +530,25 @@ const invokers: Record<string, Invoke> = {
           compoundId: "INH-000001",
           model: "mixed",
           reason: "matrix test reason",
+        },
+        userOf(w, actor),
+      ),
+    );
+  },
+  "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#saveCurationAction": async (actor, w) => {
+    // Each caller excludes its own sample well (C5…C11 hold INH-000005…INH-000011): allowed callers
+    // store the mask, refused ones are stopped before any write.
+    const { experimentId, runId } = await analysesWorld(w);
+    const k = 5 + allActors.indexOf(actor);
+    const edits = [{ runId, well: `C${k}`, masked: true, reason: "curation role-matrix check" }];
+    return deniedAction(
+      await callAction(
+        analysisActions.saveCurationAction,
+        {
+          campaignId: w.campaignId,
+          experimentId,
+          compoundId: formatRegistryId(DEFAULT_REGISTRY_PREFIX, k),
+          edits: JSON.stringify(edits),
         },
         userOf(w, actor),
       ),

@@ -221,6 +221,11 @@ export const registry: RegistryEntry[] = [
     allow: ["assay", "lead", "admin"],
   },
   {
+    id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#saveCurationAction",
+    what: "exclude or restore a result's wells as audited well masks (one transaction)",
+    allow: ["assay", "admin"],
+  },
+  {
     id: "src/app/(workspace)/campaigns/[campaignId]/analyses/actions.ts#planMechanismPlateAction",
     what: "turn a mechanism-study plan into a plate map",
     allow: ["assay", "admin"],

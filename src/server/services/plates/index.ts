@@ -11,5 +11,13 @@ export {
   type RunSummary,
   type UploadInput,
 } from "./upload";
-export { decideRun, maskWell, unmaskWell } from "./review";
+export {
+  changeMasks,
+  compoundMaskedWells,
+  decideRun,
+  maskWell,
+  unmaskWell,
+  type CompoundMaskedWell,
+  type MaskEdit,
+} from "./review";
 export { getRawFile, getRunDetail, listRuns, zPrimeTrend } from "./readings";

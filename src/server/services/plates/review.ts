@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq, isNull, sql } from "drizzle-orm";
+import { and, eq, inArray, isNull, or, sql } from "drizzle-orm";
 import { db, type Tx } from "@/server/db/client";
 import { campaigns, plateMaps, plateRuns, plateWellMasks, wellReadings } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
@@ -97,42 +97,151 @@ const closeMask: MaskChange = {
   },
 };
 
+/** One well to mask (`masked: true`) or unmask, with its reason. */
+export type MaskEdit = { runId: string; well: string; masked: boolean; reason: string };
+
+/** At most this many wells change in one request (a curve has tens of wells, a plate hundreds). */
+const MAX_EDITS = 400;
+
+/** Refuses a well that is not a sample of `compoundId` (a curve's point cannot reach a control well). */
+async function checkCompoundWell(tx: Tx, runId: string, well: string, compoundId: string) {
+  const [reading] = await tx
+    .select({ role: wellReadings.role, compoundId: wellReadings.compoundId })
+    .from(wellReadings)
+    .where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
+  if (!reading) throw new AppError("not_found", `Well ${well.slice(0, 4)} has no reading on this run.`);
+  if (reading.role !== "sample" || reading.compoundId !== compoundId)
+    throw new AppError("bad_request", `Well ${well} does not hold ${compoundId.slice(0, 40)} on this run.`);
+}
+
 /**
- * Mask or unmask one well: reason checked, run locked, the mask row written, the reading's flag
- * set, QC and % inhibition recomputed and the change audited, all in one transaction.
+ * Mask or unmask several wells, on one or more runs, in one transaction: every reason checked
+ * first, runs locked in a fixed order, each mask row written and its reading's flag set, QC and
+ * % inhibition recomputed once per run, one audit row per well. Any refusal (a reason missing, a
+ * well already masked, a well of another compound when `compoundId` is given) writes nothing.
+ * Returns the recomputed QC of each run touched.
  */
-async function changeMask(
-  change: MaskChange,
-  ...[actor, campaignId, runId, wellName, reason]: MaskArgs
-): Promise<RunQc> {
-  const why = checkReason(reason, change.masked ? "masking a well" : "unmasking a well");
+export async function changeMasks(
+  actor: Actor,
+  campaignId: string,
+  edits: readonly MaskEdit[],
+  opts: { compoundId?: string } = {},
+): Promise<Map<string, RunQc>> {
+  if (edits.length === 0) throw new AppError("bad_request", "No well to change.");
+  if (edits.length > MAX_EDITS) throw new AppError("bad_request", `At most ${MAX_EDITS} wells change at once.`);
+  const checked = edits.map((e) => ({
+    ...e,
+    why: checkReason(e.reason, e.masked ? "masking a well" : "unmasking a well"),
+  }));
+  const runIds = [...new Set(checked.map((e) => e.runId))].sort();
   return db.transaction(async (tx) => {
-    const run = await lockRun(tx, campaignId, runId);
-    const well = canonicalWell(wellName, run.format) ?? wellName.trim().toUpperCase();
-    await change.record({ tx, runId, well, why, actorId: actor.id });
-    await tx
-      .update(wellReadings)
-      .set({ masked: change.masked })
-      .where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
-    const qc = await recompute(tx, runId);
-    await audit(tx, actor, {
-      campaignId,
-      action: change.masked ? "plate_run.mask" : "plate_run.unmask",
-      entityType: "plate_run",
-      entityId: runId,
-      before: { well, zPrime: run.zPrime, verdict: run.qcVerdict },
-      after: { well, zPrime: qc.zPrime, verdict: qc.verdict },
-      reason: why,
-    });
-    return qc;
+    const out = new Map<string, RunQc>();
+    for (const runId of runIds) {
+      const run = await lockRun(tx, campaignId, runId);
+      const seen = new Set<string>();
+      const done: { well: string; masked: boolean; why: string }[] = [];
+      for (const e of checked.filter((x) => x.runId === runId)) {
+        const well = canonicalWell(e.well, run.format) ?? e.well.trim().toUpperCase();
+        if (seen.has(well)) throw new AppError("bad_request", `Well ${well} is listed twice.`);
+        seen.add(well);
+        if (opts.compoundId !== undefined) await checkCompoundWell(tx, runId, well, opts.compoundId);
+        await (e.masked ? openMask : closeMask).record({ tx, runId, well, why: e.why, actorId: actor.id });
+        await tx
+          .update(wellReadings)
+          .set({ masked: e.masked })
+          .where(and(eq(wellReadings.runId, runId), eq(wellReadings.well, well)));
+        done.push({ well, masked: e.masked, why: e.why });
+      }
+      const qc = await recompute(tx, runId);
+      for (const d of done)
+        await audit(tx, actor, {
+          campaignId,
+          action: d.masked ? "plate_run.mask" : "plate_run.unmask",
+          entityType: "plate_run",
+          entityId: runId,
+          before: { well: d.well, zPrime: run.zPrime, verdict: run.qcVerdict },
+          after: { well: d.well, zPrime: qc.zPrime, verdict: qc.verdict },
+          reason: d.why,
+        });
+      out.set(runId, qc);
+    }
+    return out;
   });
 }
 
+/** One well masked or unmasked: `changeMasks` with a single edit, returning that run's QC. */
+async function changeMask(masked: boolean, ...[actor, campaignId, runId, wellName, reason]: MaskArgs): Promise<RunQc> {
+  const qcs = await changeMasks(actor, campaignId, [{ runId, well: wellName, masked, reason }]);
+  return qcs.get(runId)!;
+}
+
 /** Mask one well with a reason (audited); QC and % inhibition are recomputed in the same transaction. */
-export const maskWell = (...args: MaskArgs): Promise<RunQc> => changeMask(openMask, ...args);
+export const maskWell = (...args: MaskArgs): Promise<RunQc> => changeMask(true, ...args);
 
 /** Unmask a well (the mask row is closed, not deleted); QC and % inhibition are recomputed. */
-export const unmaskWell = (...args: MaskArgs): Promise<RunQc> => changeMask(closeMask, ...args);
+export const unmaskWell = (...args: MaskArgs): Promise<RunQc> => changeMask(false, ...args);
+
+/** A masked well of one compound with what a curve needs to draw it and put it back. */
+export type CompoundMaskedWell = {
+  runId: string;
+  well: string;
+  reason: string;
+  concentrationUm: number | null;
+  substrateUm: number | null;
+  inhibitionPct: number | null;
+  /** Signal minus the mean of the run's blank wells that are not in `masks` (the mechanism fit's rate). */
+  rate: number | null;
+};
+
+/**
+ * The wells of `compoundId` among `masks` (masks of an analysis's inputs, or the open masks of
+ * its runs), with their readings: the points a result page draws as left out and may restore.
+ */
+export async function compoundMaskedWells(
+  masks: readonly { runId: string; well: string; reason: string }[],
+  compoundId: string,
+): Promise<CompoundMaskedWell[]> {
+  if (masks.length === 0) return [];
+  const runIds = [...new Set(masks.map((m) => m.runId))];
+  const reasons = new Map(masks.map((m) => [`${m.runId}|${m.well}`, m.reason]));
+  const rows = await db
+    .select({
+      runId: wellReadings.runId,
+      well: wellReadings.well,
+      role: wellReadings.role,
+      compoundId: wellReadings.compoundId,
+      concentrationUm: wellReadings.concentrationUm,
+      substrateUm: wellReadings.substrateUm,
+      signal: wellReadings.signal,
+      inhibitionPct: wellReadings.inhibitionPct,
+    })
+    .from(wellReadings)
+    .where(
+      and(
+        inArray(wellReadings.runId, runIds),
+        or(eq(wellReadings.compoundId, compoundId), eq(wellReadings.role, "blank")),
+      ),
+    );
+  const blanks = new Map<string, number[]>();
+  for (const r of rows)
+    if (r.role === "blank" && r.signal !== null && !reasons.has(`${r.runId}|${r.well}`))
+      blanks.set(r.runId, [...(blanks.get(r.runId) ?? []), r.signal]);
+  const background = (runId: string) => {
+    const b = blanks.get(runId);
+    return b && b.length ? b.reduce((s, v) => s + v, 0) / b.length : 0;
+  };
+  return rows
+    .filter((r) => r.role === "sample" && r.compoundId === compoundId && reasons.has(`${r.runId}|${r.well}`))
+    .map((r) => ({
+      runId: r.runId,
+      well: r.well,
+      reason: reasons.get(`${r.runId}|${r.well}`)!,
+      concentrationUm: r.concentrationUm,
+      substrateUm: r.substrateUm,
+      inhibitionPct: r.inhibitionPct,
+      rate: r.signal === null ? null : r.signal - background(r.runId),
+    }));
+}
 
 /**
  * Accept or reject a run with a reason (audited). A run that fails QC cannot be accepted: its

@@ -4,8 +4,14 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { formAction } from "@/server/action";
 import { requireCampaign } from "@/server/auth/guard";
-import { createExperiment, requestAnalysis, overrideMechanism } from "@/server/services/analyses";
-import { createPlateMap } from "@/server/services/plates";
+import {
+  createExperiment,
+  experimentRunList,
+  getExperiment,
+  overrideMechanism,
+  requestAnalysis,
+} from "@/server/services/analyses";
+import { changeMasks, createPlateMap } from "@/server/services/plates";
 import { planMechanismStudy } from "@/lib/analysis/planner";
 import { plateMapFromWells } from "@/lib/plates";
 import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
@@ -125,5 +131,59 @@ export const planMechanismPlateAction = formAction(
       map: plateMapFromWells(plan.format, plan.wells),
     });
     redirect(`/campaigns/${f.campaignId}/plates/maps/${id}`);
+  },
+);
+
+const maskEdit = z.strictObject({
+  runId: z.string().uuid(),
+  well: z.string().trim().min(2).max(4),
+  masked: z.boolean(),
+  reason: z
+    .string()
+    .trim()
+    .min(3, "give a reason (at least 3 characters)")
+    .max(500, "a reason has at most 500 characters"),
+});
+
+/**
+ * Store the wells a scientist excluded from (or restored to) a result's fit on the page, as the
+ * runs' audited well masks, all in one transaction. The masks change the experiment's inputs, so
+ * the next analysis uses them; the current results stay as they are until then.
+ */
+export const saveCurationAction = formAction(
+  z.object({
+    campaignId: z.string().uuid(),
+    experimentId: z.string().uuid(),
+    compoundId: z.string().min(1).max(40),
+    /** JSON: [{runId, well, masked, reason}] */
+    edits: z.string().min(2).max(200_000),
+  }),
+  async ({ campaignId, experimentId, compoundId, edits }) => {
+    const { user } = await requireCampaign(campaignId, "plate:write");
+    let raw: unknown;
+    try {
+      raw = JSON.parse(edits);
+    } catch {
+      return { ok: false, error: "The list of changes could not be read.", status: 400 };
+    }
+    const parsed = z.array(maskEdit).min(1, "Nothing to save.").max(400).safeParse(raw);
+    if (!parsed.success) {
+      const issue = parsed.error.issues[0];
+      const at = typeof issue?.path[0] === "number" ? `Change ${issue.path[0] + 1}: ` : "";
+      const field = issue && issue.path.length > 1 ? `${String(issue.path[1])} — ` : "";
+      return { ok: false, error: `${at}${field}${issue?.message ?? "invalid"}.`, status: 400 };
+    }
+    await getExperiment(campaignId, experimentId);
+    const runs = new Set((await experimentRunList(experimentId)).map((r) => r.id));
+    const stray = parsed.data.find((e) => !runs.has(e.runId));
+    if (stray) return { ok: false, error: `Well ${stray.well} is on a run outside this experiment.`, status: 400 };
+    await changeMasks(user, campaignId, parsed.data, { compoundId });
+    revalidatePath(`/campaigns/${campaignId}/analyses/${experimentId}`, "layout");
+    revalidatePath(`/campaigns/${campaignId}/plates`, "layout");
+    const n = parsed.data.length;
+    return {
+      ok: true,
+      message: `${n} ${n === 1 ? "change" : "changes"} saved as audited well masks. The results shown were computed before ${n === 1 ? "it" : "them"}: run the analysis to use ${n === 1 ? "it" : "them"}.`,
+    };
   },
 );
