@@ -46,17 +46,55 @@ export {
   mixedRateReciprocal,
   apparentVmax,
   apparentKm,
+  apparentKi,
+  substrateInhibitedRate,
+  partialInhibitedRate,
+  tightBindingRate,
+  morrisonFraction,
   type InhibitionModel,
   type InhibitionConstants,
 } from "./inhibition-models";
 export {
   fitMechanism,
   mechanismDataProblem,
+  OUTLIER_SCREEN,
   type MechanismPoint,
   type MechanismOptions,
   type MechanismModelFit,
   type MechanismResult,
+  type MechanismWeightingChoice,
+  type MechanismOutliers,
 } from "./mechanism-fit";
+export {
+  EXTENDED_FAMILIES,
+  EXTENDED_MODELS,
+  extendedRate,
+  extendedConstants,
+  extendedParameterCount,
+  familyModels,
+  modelFamily,
+  modelMechanism,
+  type ExtendedFamily,
+  type ExtendedModel,
+  type ExtendedModelFit,
+  type Estimate,
+  type MechanismAdequacy,
+} from "./mechanism-models";
+export {
+  MECHANISM_LABELS,
+  MECHANISM_FLAG_CODES,
+  CANDIDATE_MODELS,
+  SCREEN_ALPHA,
+  TIGHT_BINDING_RATIO,
+  NESTED_F_ALPHA,
+  CLEAR_F_ALPHA,
+  type MechanismLabel,
+  type MechanismFlag,
+  type MechanismFlagCode,
+  type CandidateModel,
+  type MechanismRecommendation,
+  type MechanismScreens,
+} from "./mechanism-judgement";
 export { aicc, akaikeWeights, extraSumOfSquaresFTest, type FTestResult } from "./model-selection";
 export { finiteOrNull, waldInterval95, reciprocalConstant, type Interval } from "./parameter-summary";
 export { ic50FromKi, kiFromIc50, type ChengPrusoffInput, type KiFromIc50Input } from "./cheng-prusoff";

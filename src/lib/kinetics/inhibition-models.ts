@@ -67,3 +67,85 @@ export function apparentVmax(i: number, c: InhibitionConstants): number {
 export function apparentKm(i: number, c: InhibitionConstants): number {
   return (c.km * (1 + i * reciprocal(c.kic))) / (1 + i * reciprocal(c.kiu));
 }
+
+/**
+ * Apparent inhibition constant at substrate S (the Cheng–Prusoff IC50 without depletion):
+ * K′ = (S + Km)/(S/Kiu + Km/Kic), i.e. 1/K′ = (a·Km + b·S)/(Km + S) with a = 1/Kic, b = 1/Kiu
+ * (Cheng & Prusoff, Biochem Pharmacol 1973;22:3099). Returns Infinity when a = b = 0.
+ * Example: S = 10, Km = 5, Kic = 1, Kiu = 4 → 2.0.
+ */
+export function apparentKi(s: number, km: number, a: number, b: number): number {
+  const q = (a * km + b * s) / (km + s);
+  return q > 0 ? 1 / q : Infinity;
+}
+
+/**
+ * Substrate inhibition (a second substrate molecule binds ES to give a dead-end SES, dissociation
+ * constant Ksi) with the inhibition terms of the mixed model; independent complexes, rapid
+ * equilibrium: v = Vmax·S / (Km(1 + I/Kic) + S(1 + I/Kiu) + S²/Ksi), d = 1/Ksi ≥ 0.
+ * Haldane's form at I = 0 (Segel, Enzyme Kinetics 1975, ch. 3; Cornish-Bowden [from memory]).
+ * Example: Vmax 10, Km 5, d = 0.01 (Ksi 100), no inhibitor, S = 10 → 100/16 = 6.25.
+ */
+export function substrateInhibitedRate(
+  s: number,
+  i: number,
+  vmax: number,
+  km: number,
+  a: number,
+  b: number,
+  d: number,
+): number {
+  if (s === 0) return 0;
+  return (vmax * s) / (km * (1 + a * i) + s * (1 + b * i) + d * s * s);
+}
+
+/**
+ * Partial (hyperbolic) mixed inhibition: the ESI complex still turns over at β·kcat, so that
+ * v = Vmax·S·(1 + β·I/Kiu) / (Km(1 + I/Kic) + S(1 + I/Kiu)), written with c = β·b = β/Kiu:
+ * v = V·S·(1 + c·I) / (Km(1 + a·I) + S(1 + b·I)). β = 0 is the full mixed model; at saturating
+ * inhibitor the rate levels off at v∞/v0 = c(Km + S)/(a·Km + b·S) of the uninhibited rate (β when
+ * Kic = Kiu). Segel 1975, ch. 4; Copeland 2005 [from memory].
+ * Example: Vmax 10, Km 5, a = b = 1, c = 0.4 (β 0.4), S = 5, I = 1000 → 2.0030 (≈ β·v0 = 2).
+ */
+export function partialInhibitedRate(
+  s: number,
+  i: number,
+  vmax: number,
+  km: number,
+  a: number,
+  b: number,
+  c: number,
+): number {
+  if (s === 0) return 0;
+  return (vmax * s * (1 + c * i)) / (km * (1 + a * i) + s * (1 + b * i));
+}
+
+/**
+ * Tight binding in a substrate × inhibitor matrix: the Morrison quadratic at each S with K′ the
+ * model's apparent constant (see apparentKi), E and I total concentrations:
+ * v = Vmax·S/(Km + S) · (1 − ((E + I + K′) − √((E + I + K′)² − 4·E·I)) / (2E))
+ * (Morrison, Biochim Biophys Acta 1969;185:269 [from memory]; K′ per mechanism as in Copeland,
+ * Evaluation of Enzyme Inhibitors in Drug Discovery, 2005 [from memory]). Evaluated with
+ * q = 1/K′ as 1 − 2·I·q / (u + √(u² − 4q²·E·I)), u = 1 + q(E + I), which is finite at q = 0 and
+ * tends to the rapid-equilibrium model as E → 0.
+ * Example: competitive, Vmax 1, Km 1, S = 1, Kic 0.5 (K′ = 1), E = 10: at I = 5 → 0.5·0.574166.
+ */
+export function tightBindingRate(
+  s: number,
+  i: number,
+  e: number,
+  vmax: number,
+  km: number,
+  a: number,
+  b: number,
+): number {
+  if (s === 0) return 0;
+  return ((vmax * s) / (km + s)) * morrisonFraction(i, e, (a * km + b * s) / (km + s));
+}
+
+/** 1 − 2·I·q / (u + √(u² − 4q²EI)), u = 1 + q(E + I): the Morrison free-enzyme fraction, q = 1/K′. */
+export function morrisonFraction(i: number, e: number, q: number): number {
+  const u = 1 + q * (e + i);
+  const root = Math.sqrt(Math.max(0, u * u - 4 * q * q * e * i));
+  return 1 - (2 * i * q) / (u + root);
+}

@@ -16,7 +16,8 @@
  *    them (the one with the lowest RSS has the largest p). Otherwise that best simpler model is
  *    kept. The F-test at the a = 0 or b = 0 boundary is approximate (nesting on a boundary).
  * 4. Label "ambiguous" when any other model's AICc is less than 2 above the chosen one's (or
- *    below it), else "clear".
+ *    below it), or when mixed is chosen with an F-test p of CLEAR_F_ALPHA (0.01) or more, else
+ *    "clear" (a p just under 0.05 is one false "mixed" call in twenty from a simpler truth).
  * Ties (equal AICc, as when the data show no inhibition) resolve in the order competitive,
  * uncompetitive, noncompetitive, mixed.
  *
@@ -26,12 +27,43 @@
  * Rows with substrate 0 are accepted: every model predicts v = 0 there, so they do not move the
  * parameters but do count in n and RSS (unweighted). With relative weighting (residual / observed
  * rate) they are left out, since their weight would be infinite.
+ *
+ * Beyond the choice (mechanism-judgement.ts): every model carries its adequacy (lack of fit over
+ * replicate (S, I) cells, runs test along S within each inhibitor series); models outside the four
+ * (substrate inhibition, partial inhibition, tight binding with `enzymeConc`) are fitted when the
+ * data call for them; the result recommends a model and labels the standard call "inadequate"
+ * when it fails or is superseded. Weighting "auto" reads the error model from the replicate
+ * groups (weighting.ts): relative weights then come from the replicate-group means, 1/ȳ_g, one
+ * weight per (S, I) cell shared by every model, so that AICc, F-tests and lack of fit compare like
+ * with like. Outliers: when the largest residual of the chosen fit exceeds OUTLIER_SCREEN robust
+ * SDs (RSDR), or when asked, ROUT (robust.ts) proposes outlying rows; nothing is dropped.
  */
 import { levenbergMarquardt, parameterCovariance, type LeastSquaresProblem } from "./least-squares";
 import { michaelisMentenStart } from "./michaelis-menten";
 import { aicc, akaikeWeights, extraSumOfSquaresFTest, type FTestResult } from "./model-selection";
 import { INHIBITION_MODELS, MODEL_PARAMETER_COUNT, type InhibitionModel } from "./inhibition-models";
 import { type Interval, finiteOrNull, reciprocalConstant, waldInterval95 } from "./parameter-summary";
+import {
+  adequacyContext,
+  extendedConstants,
+  extendedProblem,
+  mechanismAdequacy,
+  type ExtendedModel,
+  type AdequacyContext,
+  type ExtendedModelFit,
+  type MechanismAdequacy,
+  type MechanismData,
+} from "./mechanism-models";
+import {
+  CLEAR_F_ALPHA,
+  judgeMechanism,
+  type MechanismFlag,
+  type MechanismLabel,
+  type MechanismRecommendation,
+  type MechanismScreens,
+} from "./mechanism-judgement";
+import { chooseWeighting, RELATIVE_WEIGHT_FLOOR, type WeightingChoice } from "./weighting";
+import { DEFAULT_OUTLIER_Q, findOutliers, rsdr } from "./robust";
 
 export interface MechanismPoint {
   substrate: number;
@@ -40,8 +72,49 @@ export interface MechanismPoint {
 }
 
 export interface MechanismOptions {
-  /** "none" (default): ordinary least squares. "relative": residuals divided by the observed rate. */
-  weighting?: "none" | "relative";
+  /**
+   * "none" (default): ordinary least squares. "relative": residuals divided by the observed rate.
+   * "auto": relative (divided by the replicate-group mean rate) when the replicate groups show SD
+   * growing with the rate (weighting.ts), else none; the result says which and why.
+   */
+  weighting?: "none" | "relative" | "auto";
+  /** Total enzyme concentration, same unit as substrate and inhibitor: enables the tight-binding check. */
+  enzymeConc?: number;
+  /** Extended models: "auto" (default) when the data call for them, "all" always, "none" never. */
+  extendedModels?: "auto" | "all" | "none";
+  /** Outlier proposal (ROUT): "auto" (default) when a cheap screen suggests one, "always", "never". */
+  outliers?: "auto" | "always" | "never";
+  /** False discovery rate of the outlier proposal (default 0.01). */
+  outlierQ?: number;
+}
+
+/** The largest |residual|/RSDR of the chosen fit above which ROUT is run (common practice: 3 SD). */
+export const OUTLIER_SCREEN = 3;
+
+export interface MechanismWeightingChoice {
+  requested: "none" | "relative" | "auto";
+  used: "none" | "relative";
+  /** What relative weights divide by: the observed rate or the replicate-group mean; null unweighted. */
+  basis: "observed rate" | "replicate mean" | null;
+  reason: string;
+  /** The replicate-scatter test (weighting.ts), when it was run. */
+  test: WeightingChoice | null;
+}
+
+export interface MechanismOutliers {
+  /** "screen": only the cheap screen ran (nothing suspicious); "rout": the robust fit ran. */
+  checked: "screen" | "rout";
+  /** Largest |residual| / RSDR of the chosen fit. */
+  largestStandardized: number;
+  /** The model whose residuals were judged: the recommended one, else the standard choice. */
+  model: InhibitionModel | ExtendedModel;
+  /** Proposed outliers: indices into the input points (nothing is dropped). */
+  indices: number[];
+  q: number;
+  /** The call without the proposed outliers (null when none are proposed or too few rows remain). */
+  callWithout: InhibitionModel | ExtendedModel | null;
+  /** Its Ki (Kic, or Kiu where there is no Kic). */
+  kiWithout: number | null;
 }
 
 export interface MechanismModelFit {
@@ -75,24 +148,30 @@ export interface MechanismModelFit {
   fTestVsMixed: FTestResult | null;
   dof: number;
   converged: boolean;
+  /** Lack of fit over replicate (S, I) cells and runs test along S within each inhibitor series. */
+  adequacy: MechanismAdequacy;
 }
 
 export interface MechanismResult {
+  /** The standard (four-model) choice. */
   best: InhibitionModel;
-  label: "clear" | "ambiguous";
+  /** Of the standard choice: "inadequate" when it fails adequacy or a model outside the four is recommended. */
+  label: MechanismLabel;
   models: Record<InhibitionModel, MechanismModelFit>;
   /** Rows used in the fit. */
   n: number;
   weighting: "none" | "relative";
+  weightingChoice: MechanismWeightingChoice;
+  /** The model to report (standard or extended), or null when none is adequate. */
+  recommended: MechanismRecommendation | null;
+  /** Extended models fitted because the data called for them (empty otherwise). */
+  alternatives: ExtendedModelFit[];
+  screens: MechanismScreens;
+  flags: MechanismFlag[];
+  outliers: MechanismOutliers | null;
 }
 
-interface Data {
-  s: Float64Array;
-  i: Float64Array;
-  y: Float64Array;
-  w: Float64Array;
-  n: number;
-}
+type Data = MechanismData & { rowIndex: Int32Array };
 
 /** Maps a model's free parameter vector to (V, Km, a, b). */
 function unpack(model: InhibitionModel, t: ArrayLike<number>): [number, number, number, number] {
@@ -193,16 +272,20 @@ interface RawFit {
   rss: number;
   cov: number[] | null;
   converged: boolean;
+  residuals: Float64Array;
 }
 
 function fitFrom(model: InhibitionModel, d: Data, start: number[]): RawFit {
   const problem = makeProblem(model, d);
   const res = levenbergMarquardt(problem, start);
+  const residuals = new Float64Array(d.n);
+  problem.evaluate(res.theta, residuals, null);
   return {
     theta: res.theta,
     rss: res.rss,
     cov: parameterCovariance(res, d.n, problem.nParams),
     converged: res.converged,
+    residuals,
   };
 }
 
@@ -214,6 +297,7 @@ function median(values: number[]): number {
 
 function prepare(points: readonly MechanismPoint[], weighting: "none" | "relative"): Data {
   const rows: MechanismPoint[] = [];
+  const index: number[] = [];
   points.forEach((pt, k) => {
     const { substrate, inhibitor, rate } = pt;
     if (!Number.isFinite(substrate) || substrate < 0)
@@ -227,9 +311,17 @@ function prepare(points: readonly MechanismPoint[], weighting: "none" | "relativ
         throw new RangeError(`fitMechanism: row ${k + 1}: relative weighting needs a positive rate (got ${rate})`);
     }
     rows.push(pt);
+    index.push(k);
   });
   const n = rows.length;
-  const d: Data = { s: new Float64Array(n), i: new Float64Array(n), y: new Float64Array(n), w: new Float64Array(n), n };
+  const d: Data = {
+    s: new Float64Array(n),
+    i: new Float64Array(n),
+    y: new Float64Array(n),
+    w: new Float64Array(n),
+    n,
+    rowIndex: Int32Array.from(index),
+  };
   rows.forEach((r, k) => {
     d.s[k] = r.substrate;
     d.i[k] = r.inhibitor;
@@ -254,14 +346,74 @@ export function mechanismDataProblem(points: readonly MechanismPoint[]): string 
   return null;
 }
 
-/**
- * Fits the four inhibition models to `points` and chooses one (see the file comment).
- * Example (isdals `inhibitor`, see mechanism-fit.test.ts): competitive Vmax 2.9383, Km 33.993,
- * Ki 34.845, chosen over mixed (F-test p = 0.0956), labelled ambiguous (ΔAICc 0.46).
- */
-export function fitMechanism(points: readonly MechanismPoint[], options: MechanismOptions = {}): MechanismResult {
-  const weighting = options.weighting ?? "none";
-  const d = prepare(points, weighting);
+/** Relative weights from the replicate-group means: w = 1/max(|ȳ_g|, floor·max|ȳ|), S = 0 rows left out. */
+function groupMeanWeighted(d: Data): Data {
+  const keep: number[] = [];
+  for (let k = 0; k < d.n; k++) if (d.s[k]! > 0) keep.push(k);
+  const n = keep.length;
+  const out: Data = {
+    s: new Float64Array(n),
+    i: new Float64Array(n),
+    y: new Float64Array(n),
+    w: new Float64Array(n),
+    n,
+    rowIndex: new Int32Array(n),
+  };
+  const sums = new Map<string, { sum: number; count: number }>();
+  keep.forEach((k, j) => {
+    out.s[j] = d.s[k]!;
+    out.i[j] = d.i[k]!;
+    out.y[j] = d.y[k]!;
+    out.rowIndex[j] = d.rowIndex[k]!;
+    const key = `${d.s[k]}|${d.i[k]}`;
+    const g = sums.get(key) ?? { sum: 0, count: 0 };
+    g.sum += d.y[k]!;
+    g.count++;
+    sums.set(key, g);
+  });
+  let maxAbs = 0;
+  for (const g of sums.values()) maxAbs = Math.max(maxAbs, Math.abs(g.sum / g.count));
+  const floor = RELATIVE_WEIGHT_FLOOR * maxAbs;
+  for (let j = 0; j < n; j++) {
+    const g = sums.get(`${out.s[j]}|${out.i[j]}`)!;
+    const m = Math.max(Math.abs(g.sum / g.count), floor);
+    out.w[j] = m > 0 ? 1 / m : 1;
+  }
+  return out;
+}
+
+/** Rows without the ones at positions `drop` (positions in d). */
+function without(d: Data, drop: ReadonlySet<number>): Data {
+  const keep: number[] = [];
+  for (let k = 0; k < d.n; k++) if (!drop.has(k)) keep.push(k);
+  const pick = (a: Float64Array) => Float64Array.from(keep, (k) => a[k]!);
+  return {
+    s: pick(d.s),
+    i: pick(d.i),
+    y: pick(d.y),
+    w: pick(d.w),
+    n: keep.length,
+    rowIndex: Int32Array.from(keep, (k) => d.rowIndex[k]!),
+  };
+}
+
+function conditionKeys(d: MechanismData): string[] {
+  return Array.from({ length: d.n }, (_, k) => `${d.s[k]}|${d.i[k]}`);
+}
+
+interface StandardFit {
+  best: InhibitionModel;
+  label: "clear" | "ambiguous";
+  models: Record<InhibitionModel, MechanismModelFit>;
+  raw: Record<InhibitionModel, RawFit>;
+  ctx: AdequacyContext;
+  rssFloor: number;
+  iRef: number;
+  sMax: number;
+}
+
+/** The four fits, their adequacy and the standard choice (the file comment's rules 1–4). */
+function fitStandard(d: Data): StandardFit {
   const problemText = mechanismDataProblem(
     Array.from({ length: d.n }, (_, k) => ({ substrate: d.s[k]!, inhibitor: d.i[k]!, rate: d.y[k]! })),
   );
@@ -269,9 +421,11 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
 
   // Uninhibited Michaelis–Menten start from the lowest inhibitor level.
   let iMin = Infinity;
+  let sMax = 0;
   const positiveI: number[] = [];
   for (let k = 0; k < d.n; k++) {
     iMin = Math.min(iMin, d.i[k]!);
+    sMax = Math.max(sMax, d.s[k]!);
     if (d.i[k]! > 0) positiveI.push(d.i[k]!);
   }
   const s0: number[] = [];
@@ -312,9 +466,11 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
     fTests[m] = m === "mixed" ? null : extraSumOfSquaresFTest(effRss(m), d.n - 3, effRss("mixed"), d.n - 4);
   }
 
+  const ctx = adequacyContext(d);
   const models = {} as Record<InhibitionModel, MechanismModelFit>;
   INHIBITION_MODELS.forEach((m, idx) => {
-    models[m] = summarise(m, raw[m], d.n, aiccs[idx]!, aiccs[idx]! - minAicc, weights[idx]!, fTests[m]);
+    const adequacy = mechanismAdequacy(ctx, d, raw[m].residuals, MODEL_PARAMETER_COUNT[m], rssFloor);
+    models[m] = summarise(m, raw[m], d.n, aiccs[idx]!, aiccs[idx]! - minAicc, weights[idx]!, fTests[m], adequacy);
   });
 
   // Choice: lowest AICc (first in model order on ties) ...
@@ -329,8 +485,202 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
     if (!(p < 0.05)) best = bestSimple;
   }
   const chosenAicc = models[best].aicc;
-  const ambiguous = INHIBITION_MODELS.some((m) => m !== best && models[m].aicc - chosenAicc < 2);
-  return { best, label: ambiguous ? "ambiguous" : "clear", models, n: d.n, weighting };
+  let ambiguous = INHIBITION_MODELS.some((m) => m !== best && models[m].aicc - chosenAicc < 2);
+  if (best === "mixed") {
+    for (const m of ["competitive", "uncompetitive", "noncompetitive"] as const)
+      if (!(fTests[m]!.p < CLEAR_F_ALPHA)) ambiguous = true;
+  }
+  return { best, label: ambiguous ? "ambiguous" : "clear", models, raw, ctx, rssFloor, iRef, sMax };
+}
+
+/** The Ki a lead would quote: Kic, or Kiu where there is none (uncompetitive). */
+function quotedKiOf(kic: number | null, kiu: number | null): number | null {
+  return kic ?? kiu;
+}
+
+function quotedKi(m: MechanismModelFit): number | null {
+  return quotedKiOf(m.kic, m.kiu);
+}
+
+/** A Ki that moves more than 2-fold (or appears or vanishes) changes what a lead would act on. */
+function kiMoved(before: number | null, after: number | null): boolean {
+  if (before === null || after === null) return before !== after;
+  return Math.abs(Math.log(after / before)) > Math.LN2;
+}
+
+function num3(x: number | null): string {
+  return x === null || !Number.isFinite(x) ? "—" : String(Number(x.toPrecision(3)));
+}
+
+function checkOptions(options: MechanismOptions): void {
+  const { weighting, enzymeConc, extendedModels, outliers, outlierQ } = options;
+  if (weighting !== undefined && !["none", "relative", "auto"].includes(weighting))
+    throw new RangeError(`fitMechanism: weighting must be none, relative or auto (got ${String(weighting)})`);
+  if (enzymeConc !== undefined && !(Number.isFinite(enzymeConc) && enzymeConc > 0))
+    throw new RangeError(`fitMechanism: enzymeConc must be a finite number > 0 (got ${enzymeConc})`);
+  if (extendedModels !== undefined && !["auto", "all", "none"].includes(extendedModels))
+    throw new RangeError(`fitMechanism: extendedModels must be auto, all or none (got ${String(extendedModels)})`);
+  if (outliers !== undefined && !["auto", "always", "never"].includes(outliers))
+    throw new RangeError(`fitMechanism: outliers must be auto, always or never (got ${String(outliers)})`);
+  if (outlierQ !== undefined && !(outlierQ > 0 && outlierQ < 1))
+    throw new RangeError(`fitMechanism: outlierQ must be between 0 and 1 (got ${outlierQ})`);
+}
+
+/**
+ * Fits the four inhibition models to `points`, chooses one, checks adequacy and, when the data
+ * call for them, fits and recommends models outside the four (see the file comment).
+ * Example (isdals `inhibitor`, see mechanism-fit.test.ts): competitive Vmax 2.9383, Km 33.993,
+ * Ki 34.845, chosen over mixed (F-test p = 0.0956), labelled ambiguous (ΔAICc 0.46).
+ */
+export function fitMechanism(points: readonly MechanismPoint[], options: MechanismOptions = {}): MechanismResult {
+  checkOptions(options);
+  const requested = options.weighting ?? "none";
+  const flags: MechanismFlag[] = [];
+  const fragile: string[] = [];
+
+  // --- weighting ---
+  let d: Data;
+  let weightingChoice: MechanismWeightingChoice;
+  if (requested === "auto") {
+    const plain = prepare(points, "none");
+    const test = chooseWeighting(conditionKeys(plain), plain.y);
+    d = test.weighting === "relative" ? groupMeanWeighted(plain) : plain;
+    weightingChoice = {
+      requested,
+      used: test.weighting,
+      basis: test.weighting === "relative" ? "replicate mean" : null,
+      reason: test.reason,
+      test,
+    };
+  } else {
+    d = prepare(points, requested);
+    weightingChoice = {
+      requested,
+      used: requested,
+      basis: requested === "relative" ? "observed rate" : null,
+      reason: requested === "relative" ? "relative weighting as requested" : "unweighted as requested",
+      test: null,
+    };
+  }
+  const fit = fitStandard(d);
+  const { best, models } = fit;
+
+  // --- does the call depend on the weighting? (cheap test; refit only when noise grows with rate) ---
+  let reweighted: Data | null = null;
+  if (requested === "none") {
+    const test = chooseWeighting(conditionKeys(d), d.y);
+    if (test.weighting === "relative") {
+      weightingChoice.test = test;
+      reweighted = groupMeanWeighted(d);
+      const refit = fitStandard(reweighted);
+      const same = refit.best === best;
+      flags.push({
+        code: same ? "noise-grows-with-rate" : "weighting-sensitive",
+        message: same
+          ? `Scatter grows with the rate (${test.reason}); relative weighting (weighting "auto") gives the same call.`
+          : `Scatter grows with the rate (${test.reason}); with relative weighting the call is ${refit.best}, not ${best}: use weighting "auto".`,
+      });
+      if (!same) fragile.push("weighting");
+    }
+  }
+
+  const judgement = judgeMechanism({
+    d,
+    ctx: fit.ctx,
+    rssFloor: fit.rssFloor,
+    best,
+    label: fit.label,
+    models,
+    iRef: fit.iRef,
+    sMax: fit.sMax,
+    enzymeConc: options.enzymeConc ?? null,
+    extendedModels: options.extendedModels ?? "auto",
+    fragile,
+  });
+
+  // --- outliers: ROUT on the recommended model (the chosen one when none is adequate), on the
+  // weighting the replicates support, only when the cheap screen or the caller asks ---
+  let outliers: MechanismOutliers | null = null;
+  const mode = options.outliers ?? "auto";
+  if (mode !== "never" && fit.raw[best].rss > fit.rssFloor) {
+    const target = judgement.recommended?.model ?? best;
+    const alt = judgement.alternatives.find((a) => a.model === target);
+    const data = reweighted ?? d;
+    const e = options.enzymeConc ?? 0;
+    const problem = alt ? extendedProblem(alt.model, data, e) : makeProblem(target as InhibitionModel, data);
+    const start = alt ? alt.theta : Array.from(fit.raw[target as InhibitionModel].theta);
+    const p = problem.nParams;
+    const residuals = new Float64Array(data.n);
+    problem.evaluate(Float64Array.from(start), residuals, null);
+    const scale = rsdr(residuals, p);
+    let largest = 0;
+    for (let k = 0; k < data.n; k++) largest = Math.max(largest, Math.abs(residuals[k]!));
+    const largestStandardized = scale > 0 ? largest / scale : 0;
+    const q = options.outlierQ ?? DEFAULT_OUTLIER_Q;
+    outliers = {
+      checked: "screen",
+      model: target,
+      largestStandardized,
+      indices: [],
+      q,
+      callWithout: null,
+      kiWithout: null,
+    };
+    if (mode === "always" || largestStandardized > OUTLIER_SCREEN) {
+      const rout = findOutliers(problem, start, { q });
+      outliers.checked = "rout";
+      if (rout.outlierIndices.length > 0) {
+        outliers.indices = rout.outlierIndices.map((k) => data.rowIndex[k]!);
+        const before = alt ? quotedKiOf(alt.kic.value, alt.kiu.value) : quotedKi(models[target as InhibitionModel]);
+        let changed: boolean;
+        if (alt) {
+          // The extended model refitted without the outliers (ROUT's own ordinary refit).
+          const k = extendedConstants(alt.model, rout.fit.theta);
+          outliers.callWithout = alt.model;
+          outliers.kiWithout = finiteOrNull(quotedKiOf(k.kic, k.kiu));
+          changed = kiMoved(before, outliers.kiWithout);
+        } else {
+          let refit: StandardFit | null = null;
+          try {
+            refit = fitStandard(without(data, new Set(rout.outlierIndices)));
+          } catch {
+            refit = null; // too few rows left to compare the models: report the proposal alone
+          }
+          outliers.callWithout = refit?.best ?? null;
+          outliers.kiWithout = refit ? finiteOrNull(quotedKi(refit.models[refit.best])) : null;
+          changed = !refit || refit.best !== target || kiMoved(before, outliers.kiWithout);
+        }
+        const rows = outliers.indices.map((k) => k + 1).join(", ");
+        const after =
+          outliers.callWithout !== null
+            ? `without ${outliers.indices.length > 1 ? "them" : "it"} the call is ${outliers.callWithout}, Ki ${num3(outliers.kiWithout)}`
+            : "too few rows would remain to refit";
+        flags.push({
+          code: "outliers-proposed",
+          message: `${outliers.indices.length > 1 ? `Rows ${rows} look like outliers` : `Row ${rows} looks like an outlier`} of the ${target} fit (ROUT, Q = ${100 * q} %); ${after}. Nothing was removed: a scientist accepts or rejects the proposal.`,
+        });
+        if (changed) {
+          // The call rests on wells a scientist may reject: it cannot be "clear".
+          if (judgement.label === "clear") judgement.label = "ambiguous";
+          if (judgement.recommended) judgement.recommended.label = "ambiguous";
+        }
+      }
+    }
+  }
+
+  return {
+    best,
+    label: judgement.label,
+    models,
+    n: d.n,
+    weighting: weightingChoice.used,
+    weightingChoice,
+    recommended: judgement.recommended,
+    alternatives: judgement.alternatives,
+    screens: judgement.screens,
+    flags: [...judgement.flags, ...flags],
+    outliers,
+  };
 }
 
 function summarise(
@@ -341,6 +691,7 @@ function summarise(
   delta: number,
   weight: number,
   fTest: FTestResult | null,
+  adequacy: MechanismAdequacy,
 ): MechanismModelFit {
   const p = MODEL_PARAMETER_COUNT[model];
   const dof = n - p;
@@ -381,5 +732,6 @@ function summarise(
     fTestVsMixed: fTest,
     dof,
     converged: f.converged,
+    adequacy,
   };
 }

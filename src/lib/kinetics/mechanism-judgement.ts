@@ -1,0 +1,484 @@
+/**
+ * Judgement on a mechanism study after the four standard fits (mechanism-fit.ts): is the chosen
+ * model adequate, do the data call for a model outside the four, which model to recommend, and
+ * how sure to be. The rule everywhere: never confidently wrong.
+ *
+ * 1. The chosen standard model carries its adequacy (lack of fit over replicate (S, I) cells, runs
+ *    test along S within each inhibitor series; mechanism-models.ts). Failing either at p < 0.01
+ *    labels the call "inadequate", never "clear".
+ * 2. Extended families are fitted only when called for (common practice; the screens are cheap):
+ *    - substrate inhibition when rates fall at the top of the uninhibited series (the top mean is
+ *      more than 2 SE below the peak) or the score screen for a Haldane term is positive (p < 0.01);
+ *    - partial inhibition when the score screen for ESI turnover is positive (p < 0.01);
+ *    - tight binding when the enzyme concentration is given and the chosen model's smallest
+ *      inhibition constant is below 10·[E] (Copeland 2005 [from memory]; science.md: IC50 < ~10·E);
+ *    - all of them (tight binding only with [E]) when the chosen model is inadequate.
+ * 3. Recommendation: among adequate, converged candidates (the four and the fitted extended
+ *    models), the lowest AICc; then, as long as a simpler nested candidate is not rejected by the
+ *    extra-sum-of-squares F-test at p < 0.05, the simpler one (Burnham & Anderson 2002; Motulsky &
+ *    Christopoulos 2004 [from memory]). When the tight-binding screen fires the depletion-aware
+ *    models replace the four: with [E] known and within 10-fold of Ki, free inhibitor ≠ total
+ *    inhibitor is physics, not a hypothesis to test. No adequate candidate: no recommendation.
+ * 4. Label of the standard call `best`: "inadequate" when it fails adequacy, when a model outside
+ *    the four is recommended (the four's constants would mislead) or when nothing is adequate;
+ *    otherwise the four-model label, with "clear" lowered to "ambiguous" when a caller's check
+ *    (weighting, outliers) shows the call is fragile. The recommendation has its own label:
+ *    "ambiguous" when another adequate candidate, other than a nested extension it was preferred to,
+ *    is within ΔAICc 2.
+ */
+import { extraSumOfSquaresFTest } from "./model-selection";
+import { aicc } from "./model-selection";
+import { INHIBITION_MODELS, MODEL_PARAMETER_COUNT, type InhibitionModel } from "./inhibition-models";
+import {
+  EXTENDED_MODELS,
+  extendedParameterCount,
+  extraTermScreens,
+  familyModels,
+  fitExtendedModel,
+  mechanismAdequacy,
+  modelMechanism,
+  summariseExtended,
+  type AdequacyContext,
+  type Estimate,
+  type ExtendedFamily,
+  type ExtendedModel,
+  type ExtendedModelFit,
+  type MechanismAdequacy,
+  type MechanismData,
+  type ScoreTest,
+} from "./mechanism-models";
+
+export const MECHANISM_LABELS = ["clear", "ambiguous", "inadequate"] as const;
+export type MechanismLabel = (typeof MECHANISM_LABELS)[number];
+
+export type CandidateModel = InhibitionModel | ExtendedModel;
+
+export const MECHANISM_FLAG_CODES = [
+  "inadequate-fit",
+  "no-adequate-model",
+  "substrate-inhibition",
+  "partial-inhibition",
+  "tight-binding",
+  "noise-grows-with-rate",
+  "weighting-sensitive",
+  "outliers-proposed",
+] as const;
+export type MechanismFlagCode = (typeof MECHANISM_FLAG_CODES)[number];
+
+export interface MechanismFlag {
+  code: MechanismFlagCode;
+  message: string;
+}
+
+/** p below which a score screen calls for an extended fit (the adequacy level, 0.01). */
+export const SCREEN_ALPHA = 0.01;
+/** Tight binding is considered when the smallest Ki is below this multiple of [E] (common practice). */
+export const TIGHT_BINDING_RATIO = 10;
+/** Nested-model preference: the simpler model stays unless the F-test rejects it at this level. */
+export const NESTED_F_ALPHA = 0.05;
+/**
+ * A recommendation that needs a more complex model to beat a simpler nested one is "clear" only
+ * when the F-test rejects the simpler model at this level (else "ambiguous"): at 0.05 one
+ * mechanism study in twenty from a simpler truth would be called clearly wrong.
+ */
+export const CLEAR_F_ALPHA = 0.01;
+
+/** What the judgement needs from the standard fit of one model. */
+export interface StandardModelView {
+  nParams: number;
+  vmax: number;
+  km: number;
+  a: number;
+  b: number;
+  kic: number | null;
+  kiu: number | null;
+  se: { kic: number | null; kiu: number | null };
+  ci95: { kic: [number | null, number | null]; kiu: [number | null, number | null] };
+  rss: number;
+  aicc: number;
+  converged: boolean;
+  adequacy: MechanismAdequacy;
+}
+
+export interface JudgementInput {
+  d: MechanismData;
+  ctx: AdequacyContext;
+  /** RSS at or below this is rounding noise (exact data). */
+  rssFloor: number;
+  best: InhibitionModel;
+  label: "clear" | "ambiguous";
+  models: Record<InhibitionModel, StandardModelView>;
+  /** Typical inhibitor concentration (median of the positive ones) and the top substrate. */
+  iRef: number;
+  sMax: number;
+  enzymeConc: number | null;
+  /** "auto" (default): fit extended families when called for; "all": always; "none": never. */
+  extendedModels: "auto" | "all" | "none";
+  /** Findings of the caller's checks that make the standard call fragile (weighting, outliers). */
+  fragile: string[];
+}
+
+export interface MechanismScreens {
+  substrateInhibition: { scoreP: number; ratesFall: boolean };
+  partial: { scoreP: number };
+  /** Score screen for inhibitor depletion (tight binding), run with or without [E]. */
+  depletion: { scoreP: number };
+  tightBinding: { enzymeConc: number; kiMin: number | null; kiOverEnzyme: number | null; near: boolean } | null;
+  /** The families fitted and why. */
+  fitted: { family: ExtendedFamily; why: string }[];
+}
+
+export interface MechanismRecommendation {
+  model: CandidateModel;
+  family: "standard" | ExtendedFamily;
+  /** The inhibition terms of the recommended model. */
+  mechanism: InhibitionModel;
+  label: "clear" | "ambiguous";
+  kic: Estimate;
+  kiu: Estimate;
+  reason: string;
+}
+
+export interface MechanismJudgement {
+  label: MechanismLabel;
+  flags: MechanismFlag[];
+  recommended: MechanismRecommendation | null;
+  alternatives: ExtendedModelFit[];
+  screens: MechanismScreens;
+}
+
+/** Direct nesting: each model's simpler models obtained by fixing one constraint. */
+const NESTED_IN: Partial<Record<CandidateModel, CandidateModel[]>> = {
+  mixed: ["competitive", "uncompetitive", "noncompetitive"],
+  "substrate-inhibition-competitive": ["competitive"],
+  "substrate-inhibition-uncompetitive": ["uncompetitive"],
+  "substrate-inhibition-noncompetitive": ["noncompetitive"],
+  "substrate-inhibition-mixed": [
+    "mixed",
+    "substrate-inhibition-competitive",
+    "substrate-inhibition-uncompetitive",
+    "substrate-inhibition-noncompetitive",
+  ],
+  "partial-competitive": ["competitive"],
+  "partial-uncompetitive": ["uncompetitive"],
+  "partial-noncompetitive": ["noncompetitive"],
+  "partial-mixed": ["mixed", "partial-competitive", "partial-uncompetitive", "partial-noncompetitive"],
+  "tight-binding-mixed": ["tight-binding-competitive", "tight-binding-uncompetitive", "tight-binding-noncompetitive"],
+};
+
+/** All models nested in `m` (transitive closure of NESTED_IN). */
+function nestedClosure(m: CandidateModel): Set<CandidateModel> {
+  const out = new Set<CandidateModel>();
+  const stack = [...(NESTED_IN[m] ?? [])];
+  while (stack.length) {
+    const x = stack.pop()!;
+    if (out.has(x)) continue;
+    out.add(x);
+    stack.push(...(NESTED_IN[x] ?? []));
+  }
+  return out;
+}
+
+/** Plain number for a sentence: 2–3 significant figures. */
+function num(x: number | null | undefined, digits = 2): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return "—";
+  return String(Number(x.toPrecision(digits)));
+}
+
+/** Smallest finite inhibition constant of a fit, or null. */
+function kiMin(kic: number | null, kiu: number | null): number | null {
+  const v = [kic, kiu].filter((k): k is number => k !== null && Number.isFinite(k) && k > 0);
+  return v.length ? Math.min(...v) : null;
+}
+
+/**
+ * Do the rates fall at the top of the uninhibited series? True when the mean at the highest S is
+ * more than 2 standard errors below the highest mean at a lower S (SE from the pooled replicate
+ * scatter of that series, or the chosen fit's residual SD without replicates) [common practice].
+ */
+function ratesFallAtHighSubstrate(d: MechanismData, fallbackSd: number): boolean {
+  let iMin = Infinity;
+  for (let k = 0; k < d.n; k++) iMin = Math.min(iMin, d.i[k]!);
+  const bySubstrate = new Map<number, number[]>();
+  for (let k = 0; k < d.n; k++) {
+    if (d.i[k] !== iMin || !(d.s[k]! > 0)) continue;
+    const list = bySubstrate.get(d.s[k]!);
+    if (list) list.push(d.y[k]!);
+    else bySubstrate.set(d.s[k]!, [d.y[k]!]);
+  }
+  const levels = [...bySubstrate.keys()].sort((x, y) => x - y);
+  if (levels.length < 3) return false;
+  let ss = 0;
+  let df = 0;
+  const stats = levels.map((s) => {
+    const v = bySubstrate.get(s)!;
+    const mean = v.reduce((t, x) => t + x, 0) / v.length;
+    for (const x of v) ss += (x - mean) ** 2;
+    df += v.length - 1;
+    return { mean, n: v.length };
+  });
+  const sd = df >= 2 ? Math.sqrt(ss / df) : fallbackSd;
+  const top = stats[stats.length - 1]!;
+  let peak = stats[0]!;
+  for (const st of stats.slice(0, -1)) if (st.mean > peak.mean) peak = st;
+  return peak.mean - top.mean > 2 * sd * Math.sqrt(1 / top.n + 1 / peak.n);
+}
+
+interface Candidate {
+  model: CandidateModel;
+  nParams: number;
+  rss: number;
+  aicc: number;
+  eligible: boolean;
+}
+
+/** Judges a four-model fit (see the file comment). Pure; deterministic. */
+export function judgeMechanism(input: JudgementInput): MechanismJudgement {
+  const { d, best, models } = input;
+  const chosen = models[best];
+  const flags: MechanismFlag[] = [];
+  const n = d.n;
+  const effRss = (rss: number) => Math.max(rss, input.rssFloor);
+
+  // --- screens (cheap) ---
+  const score = extraTermScreens(best, d, chosen, input.rssFloor);
+  const fallbackSd = Math.sqrt(chosen.rss / Math.max(1, n - chosen.nParams));
+  // Rates on the fit's scale are only comparable for unweighted fits; weighted fits rely on the score screen.
+  const ratesFall = !input.ctx.weighted && ratesFallAtHighSubstrate(d, fallbackSd);
+  const e = input.enzymeConc;
+  const chosenKiMin = kiMin(chosen.kic, chosen.kiu);
+  const tb =
+    e !== null
+      ? {
+          enzymeConc: e,
+          kiMin: chosenKiMin,
+          kiOverEnzyme: chosenKiMin !== null ? chosenKiMin / e : null,
+          near: chosenKiMin !== null && chosenKiMin < TIGHT_BINDING_RATIO * e,
+        }
+      : null;
+  const screens: MechanismScreens = {
+    substrateInhibition: { scoreP: score.substrateInhibition.p, ratesFall },
+    partial: { scoreP: score.partial.p },
+    depletion: { scoreP: score.depletion.p },
+    tightBinding: tb,
+    fitted: [],
+  };
+  const inadequate = !chosen.adequacy.adequate;
+  const all = input.extendedModels === "all";
+  if (input.extendedModels !== "none") {
+    const why = (reasons: string[]) => reasons.filter(Boolean).join("; ");
+    const siWhy = why([
+      all ? "requested" : "",
+      inadequate ? `the ${best} model is inadequate` : "",
+      ratesFall ? "rates fall at the top of the uninhibited series" : "",
+      score.substrateInhibition.p < SCREEN_ALPHA
+        ? screenText("a substrate-inhibition term", score.substrateInhibition)
+        : "",
+    ]);
+    if (siWhy) screens.fitted.push({ family: "substrate-inhibition", why: siWhy });
+    const pWhy = why([
+      all ? "requested" : "",
+      inadequate ? `the ${best} model is inadequate` : "",
+      score.partial.p < SCREEN_ALPHA ? screenText("turnover of the ESI complex", score.partial) : "",
+    ]);
+    if (pWhy) screens.fitted.push({ family: "partial", why: pWhy });
+    if (e !== null) {
+      const tWhy = why([
+        all ? "requested" : "",
+        inadequate ? `the ${best} model is inadequate` : "",
+        tb!.near ? `Ki ${num(chosenKiMin)} is within ${TIGHT_BINDING_RATIO}-fold of [E] ${num(e)}` : "",
+        score.depletion.p < SCREEN_ALPHA ? screenText("inhibitor depletion", score.depletion) : "",
+      ]);
+      if (tWhy) screens.fitted.push({ family: "tight-binding", why: tWhy });
+    }
+  }
+
+  // --- extended fits ---
+  const alternatives: ExtendedModelFit[] = [];
+  for (const { family } of screens.fitted) {
+    for (const model of familyModels(family)) {
+      const base = models[modelMechanism(model)];
+      const raw = fitExtendedModel(model, d, base, { enzymeConc: e ?? undefined, sMax: input.sMax, iRef: input.iRef });
+      const p = extendedParameterCount(model);
+      const adequacy = mechanismAdequacy(input.ctx, d, raw.residuals, p, input.rssFloor);
+      alternatives.push(summariseExtended(raw, n, e, aicc(effRss(raw.rss), n, p), adequacy));
+    }
+  }
+
+  // --- candidates and recommendation ---
+  const tbNear = tb?.near === true && alternatives.some((a) => a.family === "tight-binding" && a.adequacy.adequate);
+  const candidates: Candidate[] = [
+    ...INHIBITION_MODELS.map((m) => ({
+      model: m as CandidateModel,
+      nParams: MODEL_PARAMETER_COUNT[m],
+      rss: effRss(models[m].rss),
+      aicc: models[m].aicc,
+      eligible: !tbNear && models[m].converged && models[m].adequacy.adequate && Number.isFinite(models[m].aicc),
+    })),
+    ...alternatives.map((a) => ({
+      model: a.model as CandidateModel,
+      nParams: a.nParams,
+      rss: effRss(a.rss),
+      aicc: a.aicc,
+      eligible:
+        (!tbNear || a.family === "tight-binding") && a.converged && a.adequacy.adequate && Number.isFinite(a.aicc),
+    })),
+  ];
+  let minAicc = Infinity;
+  for (const c of candidates) if (c.aicc < minAicc) minAicc = c.aicc;
+  for (const a of alternatives) a.deltaAicc = a.aicc - minAicc;
+
+  const byModel = new Map(candidates.map((c) => [c.model, c]));
+  const fTest = (simple: Candidate, complex: Candidate) =>
+    extraSumOfSquaresFTest(simple.rss, n - simple.nParams, complex.rss, n - complex.nParams);
+  const eligible = candidates.filter((c) => c.eligible);
+  let current: Candidate | null = null;
+  for (const c of eligible) if (current === null || c.aicc < current.aicc) current = c;
+  let simplified = false;
+  for (let step = 0; current !== null && step < 8; step++) {
+    const cur: Candidate = current;
+    const nested = nestedClosure(cur.model);
+    let next: Candidate | null = null;
+    for (const c of eligible) {
+      if (!nested.has(c.model) || c.nParams >= cur.nParams) continue;
+      if (fTest(c, cur).p < NESTED_F_ALPHA) continue;
+      if (next === null || c.aicc < next.aicc) next = c;
+    }
+    if (next === null) break;
+    simplified = true;
+    current = next;
+  }
+
+  let recommended: MechanismRecommendation | null = null;
+  if (current !== null) {
+    const rec: Candidate = current;
+    // As the four-model label: any other adequate candidate within ΔAICc 2 makes it ambiguous; and
+    // so does a fitted simpler nested model that the F-test rejects only weakly (CLEAR_F_ALPHA).
+    const rival = eligible.find((c) => c.model !== rec.model && c.aicc - rec.aicc < 2);
+    const nestedRec = nestedClosure(rec.model);
+    const weakly = candidates.find(
+      (c) => nestedRec.has(c.model) && c.nParams < rec.nParams && !(fTest(c, rec).p < CLEAR_F_ALPHA),
+    );
+    const alt = alternatives.find((a) => a.model === rec.model);
+    const family = alt ? alt.family : "standard";
+    const mechanism = alt ? alt.mechanism : (rec.model as InhibitionModel);
+    const std = alt ? null : models[rec.model as InhibitionModel];
+    recommended = {
+      model: rec.model,
+      family,
+      mechanism,
+      label: rival || weakly || input.fragile.length ? "ambiguous" : "clear",
+      kic: alt ? alt.kic : { value: std!.kic, se: std!.se.kic, ci95: std!.ci95.kic },
+      kiu: alt ? alt.kiu : { value: std!.kiu, se: std!.se.kiu, ci95: std!.ci95.kiu },
+      reason: recommendationReason(rec, rival ?? null, weakly ?? null, tbNear, simplified),
+    };
+  }
+
+  // --- sentences ---
+  for (const a of alternatives) a.sentence = sentence(a, input, recommended?.model === a.model, byModel, fTest);
+
+  // --- label and flags ---
+  let label: MechanismLabel = input.label;
+  if (inadequate) {
+    label = "inadequate";
+    flags.push({
+      code: "inadequate-fit",
+      message: `The ${best} model does not describe the data: ${chosen.adequacy.reasons.join("; ")}.`,
+    });
+  }
+  if (recommended === null) {
+    label = "inadequate";
+    flags.push({
+      code: "no-adequate-model",
+      message:
+        "No model tried describes these data adequately: check for outlying wells, tight binding (give the enzyme concentration), time-dependent or non-specific inhibition before reporting a Ki.",
+    });
+  } else if (recommended.family !== "standard") {
+    label = "inadequate";
+    const alt = alternatives.find((a) => a.model === recommended!.model)!;
+    const code =
+      alt.family === "substrate-inhibition"
+        ? "substrate-inhibition"
+        : alt.family === "partial"
+          ? "partial-inhibition"
+          : "tight-binding";
+    flags.push({ code, message: alt.sentence });
+  } else if (recommended.model !== best) {
+    label = "inadequate";
+  }
+  if (tb?.near && recommended?.family !== "tight-binding") {
+    if (label === "clear") label = "ambiguous";
+    flags.push({
+      code: "tight-binding",
+      message: `Tight binding: Ki (${num(chosenKiMin)}) is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${num(e)}), so free inhibitor is depleted; the standard models' Ki may be an overestimate (potency underestimated) and the mechanism unreliable.`,
+    });
+  }
+  if (e === null && score.depletion.p < SCREEN_ALPHA) {
+    label = "inadequate";
+    if (recommended) recommended.label = "ambiguous";
+    flags.push({
+      code: "tight-binding",
+      message: `Tight binding suspected: inhibition is weaker at low inhibitor and steeper than simple binding allows, as when the inhibitor is depleted by binding the enzyme (score screen p ${num(score.depletion.p)}). Give the enzyme concentration to fit the depletion-aware model; until then the Ki may be an overestimate and the mechanism unreliable.`,
+    });
+  }
+  if (input.fragile.length && label === "clear") label = "ambiguous";
+  return { label, flags, recommended, alternatives, screens };
+}
+
+function screenText(term: string, t: ScoreTest): string {
+  return `the score screen for ${term} is positive (t ${num(t.t, 3)}, p ${num(t.p)})`;
+}
+
+function recommendationReason(
+  rec: Candidate,
+  rival: Candidate | null,
+  weakly: Candidate | null,
+  tbNear: boolean,
+  simplified: boolean,
+): string {
+  const parts = [`lowest AICc among the adequate models`];
+  if (simplified) parts.push("simpler nested models kept unless the F-test rejects them at p < 0.05");
+  if (tbNear) parts.push("depletion-aware models only, since Ki is within 10-fold of [E]");
+  if (rival) parts.push(`${rival.model} is within ΔAICc ${num(rival.aicc - rec.aicc)}`);
+  if (weakly) parts.push(`the simpler ${weakly.model} is rejected only at p ≥ ${CLEAR_F_ALPHA}`);
+  return `${rec.model}: ${parts.join("; ")}.`;
+}
+
+/** The Ki a lead would quote from a fit: Kic, or Kiu where there is no Kic (uncompetitive). */
+function quotedKi(kic: number | null, kiu: number | null): number | null {
+  return kic ?? kiu;
+}
+
+function sentence(
+  a: ExtendedModelFit,
+  input: JudgementInput,
+  isRecommended: boolean,
+  byModel: Map<CandidateModel, Candidate>,
+  fTest: (s: Candidate, c: Candidate) => { p: number },
+): string {
+  const chosen = input.models[input.best];
+  const stdKi = quotedKi(chosen.kic, chosen.kiu);
+  const ki = quotedKi(a.kic.value, a.kiu.value);
+  const self = byModel.get(a.model)!;
+  const nestedStd = byModel.get(a.mechanism)!;
+  const fp = a.family === "tight-binding" ? null : fTest(nestedStd, self).p;
+  const adequacyNote = a.adequacy.adequate ? "" : " It is itself inadequate (" + a.adequacy.reasons.join("; ") + ").";
+  if (a.family === "partial") {
+    const left = a.residualActivity;
+    const levels = left !== null ? `about ${num(100 * (1 - Math.min(1, Math.max(0, left))))} %` : "below 100 %";
+    if (isRecommended)
+      return `Inhibition levels off at ${levels} (at S = Km): a partial inhibitor whose enzyme–substrate–inhibitor complex still turns over (β ${num(a.beta?.value)}); Ki ${num(ki, 3)} from this model; Ki from the four standard models would be misleading (the ${input.best} fit gives ${num(stdKi, 3)}).`;
+    return `Partial inhibition (${a.model}, levelling off at ${levels}) does not fit better than ${a.mechanism} enough to prefer it (F-test p ${num(fp)}): inhibition appears to go to completion.${adequacyNote}`;
+  }
+  if (a.family === "substrate-inhibition") {
+    if (isRecommended)
+      return `Rates fall at high substrate (Ksi about ${num(a.ksi?.value)}): the enzyme is substrate-inhibited; allowing for it the inhibitor is ${a.mechanism} with Ki ${num(ki, 3)}, where the four standard models call it ${input.best}.`;
+    return `Substrate inhibition (${a.model}, Ksi ${num(a.ksi?.value)}) does not fit better than ${a.mechanism} enough to prefer it (F-test p ${num(fp)}).${adequacyNote}`;
+  }
+  if (isRecommended)
+    return `Ki is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${num(input.enzymeConc)}): a tight binder that depletes the free inhibitor; allowing for that the inhibitor is ${a.mechanism} with Ki ${num(ki, 3)}, where the four standard models call it ${input.best} with Ki ${num(stdKi, 3)}.`;
+  return `The depletion-aware ${a.mechanism} fit (Ki ${num(ki, 3)} at [E] ${num(input.enzymeConc)}) is not preferred (ΔAICc ${num(a.deltaAicc)}).${adequacyNote}`;
+}
+
+/** Every extended model name, for consumers that enumerate them. */
+export const CANDIDATE_MODELS: readonly CandidateModel[] = [...INHIBITION_MODELS, ...EXTENDED_MODELS];
