@@ -32,7 +32,16 @@ export {
 export { percentInhibition, percentActivity } from "./normalization";
 export { callHits, type HitRule, type HitCall } from "./hit-calling";
 export { initialRate, type InitialRate, type InitialRateOptions, type ProgressShape } from "./initial-rate";
-export { fitLogistic4, logistic4, type Logistic4Fit, type Logistic4Flag, type Logistic4Options } from "./logistic4";
+export {
+  fitLogistic4,
+  logistic4,
+  logistic4Fitted,
+  logistic4Problem,
+  logistic4Theta,
+  type Logistic4Fit,
+  type Logistic4Flag,
+  type Logistic4Options,
+} from "./logistic4";
 export {
   fitMichaelisMenten,
   michaelisMenten,
@@ -152,3 +161,18 @@ export {
   type OutlierOptions,
   type OutlierResult,
 } from "./robust";
+export {
+  analyseCurve,
+  STEP_HILL,
+  INACTIVE_BELOW_PCT,
+  ACTIVATION_MIN_PCT,
+  PARTIAL_BELOW_PCT,
+  OUTLIER_SCREEN_T,
+  type AnalyseCurveOptions,
+  type CurveAnalysis,
+  type CurveJudgement,
+  type CurveOutcome,
+  type CurveOutlier,
+  type CurveFlag,
+  type ResponseScale,
+} from "./dose-response";

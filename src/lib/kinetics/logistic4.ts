@@ -27,6 +27,7 @@ import {
   type LeastSquaresResult,
 } from "./least-squares";
 import { tCritical95 } from "./distributions";
+import { fitRelativeWeighted, RELATIVE_WEIGHT_FLOOR } from "./weighting";
 
 const LN10 = Math.LN10;
 
@@ -35,6 +36,14 @@ export interface Logistic4Options {
   fixedTop?: number;
   /** Fix Bottom at this value instead of fitting it. */
   fixedBottom?: number;
+  /**
+   * "none" (default): ordinary least squares. "relative": residuals divided by the fitted value,
+   * iterated to a fixed point (weights 1/Ŷ², |Ŷ| floored at `weightFloor` of the largest |Ŷ|;
+   * see weighting.ts for why fitted rather than observed values).
+   */
+  weighting?: "none" | "relative";
+  /** Floor of |Ŷ| under relative weighting as a fraction of the largest |Ŷ| (default 0.05). */
+  weightFloor?: number;
 }
 
 export type Logistic4Flag =
@@ -69,11 +78,30 @@ export interface Logistic4Fit {
   converged: boolean;
   iterations: number;
   flags: Logistic4Flag[];
+  /**
+   * Present only on weighted fits ("relative"): then rss is Σ((y − Ŷ)/max(|Ŷ|, floor))², R² is on
+   * the same weighted scale and the SEs come from the weighted fit. Unweighted results carry no
+   * such field, so they are unchanged.
+   */
+  weighting?: "relative";
 }
 
 /** Evaluates the 4PL at concentration x (x ≥ 0). */
 export function logistic4(x: number, top: number, bottom: number, log10Ic50: number, hill: number): number {
   return bottom + (top - bottom) * logisticFraction(x > 0 ? Math.log10(x) : -Infinity, log10Ic50, hill);
+}
+
+/**
+ * The fitted curve of a reported fit at concentration x, or null when the fit has no finite
+ * parameters. The report is canonical (Top ≥ Bottom, hill = |h|, `direction`), so the sign of h is
+ * recovered from the direction: a falling curve has (Top − Bottom)·h > 0.
+ */
+export function logistic4Fitted(fit: Logistic4Fit, x: number): number | null {
+  const { top, bottom, log10Ic50, hill } = fit;
+  if (top === null || bottom === null || log10Ic50 === null || hill === null) return null;
+  if (fit.direction === "flat") return bottom + (top - bottom) * 0.5;
+  const h = (fit.direction === "falling") === top >= bottom ? hill : -hill;
+  return logistic4(x, top, bottom, log10Ic50, h);
 }
 
 /** g = 1/(1 + 10^(h·(lx − L))), computed without overflow; lx may be −Infinity (x = 0). */
@@ -150,6 +178,42 @@ function makeProblem(
       }
     },
   };
+}
+
+/**
+ * The unweighted least-squares problem of the 4PL (residuals y − f over the free subset of
+ * [Bottom, Top, log10 IC50, h]) and the parameter vector of a reported fit in that order, for
+ * callers that reweight or robustify a fit (robust.ts, weighting.ts). Concentrations must be ≥ 0.
+ */
+export function logistic4Problem(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  options: Pick<Logistic4Options, "fixedTop" | "fixedBottom"> = {},
+): LeastSquaresProblem {
+  const lx: number[] = [];
+  const yy: number[] = [];
+  for (let i = 0; i < x.length; i++) {
+    lx.push(x[i]! > 0 ? Math.log10(x[i]!) : -Infinity);
+    yy.push(y[i]!);
+  }
+  return makeProblem(lx, yy, options.fixedTop, options.fixedBottom);
+}
+
+/** Parameters of `fit` as the vector `logistic4Problem` expects, or null when the fit is not finite. */
+export function logistic4Theta(
+  fit: Logistic4Fit,
+  options: Pick<Logistic4Options, "fixedTop" | "fixedBottom"> = {},
+): number[] | null {
+  const { top, bottom, log10Ic50, hill } = fit;
+  if (top === null || bottom === null || log10Ic50 === null || hill === null) return null;
+  const h = fit.direction === "flat" ? 0 : (fit.direction === "falling") === top >= bottom ? hill : -hill;
+  // A fixed asymptote keeps its place; free ones are reported canonically (Top ≥ Bottom), which is
+  // the same curve as the fitted orientation.
+  const theta: number[] = [];
+  if (options.fixedBottom === undefined) theta.push(bottom);
+  if (options.fixedTop === undefined) theta.push(top);
+  theta.push(log10Ic50, h);
+  return theta;
 }
 
 interface Start {
@@ -299,7 +363,39 @@ export function fitLogistic4(x: ArrayLike<number>, y: ArrayLike<number>, options
   if (input.distinct < minDistinct)
     throw new RangeError(`fitLogistic4: ${input.distinct} distinct concentrations; at least ${minDistinct} are needed`);
   const res = solve(problem, x, input, fixedTop, fixedBottom);
+  if (options.weighting === "relative") return fitRelative(problem, res, x, input, options);
+  if (options.weighting !== undefined && options.weighting !== "none")
+    throw new RangeError(`fitLogistic4: weighting must be "none" or "relative" (got ${String(options.weighting)})`);
   return summarise(problem, res, x, input, fixedTop, fixedBottom);
+}
+
+/** Relative weighting: GLS iterations from the ordinary fit, summarised on the weighted scale. */
+function fitRelative(
+  problem: Problem4,
+  ordinary: LeastSquaresResult,
+  x: ArrayLike<number>,
+  input: Input,
+  options: Logistic4Options,
+): Logistic4Fit {
+  const floorFraction = options.weightFloor ?? RELATIVE_WEIGHT_FLOOR;
+  if (!(floorFraction > 0 && floorFraction <= 1))
+    throw new RangeError(`fitLogistic4: weightFloor must be in (0, 1] (got ${floorFraction})`);
+  const gls = fitRelativeWeighted(problem, input.y, [], { initial: ordinary, lm: LM_OPTIONS, floorFraction });
+  const f = gls.factors;
+  // Total sum of squares on the weighted scale, about the weighted mean.
+  let sw = 0;
+  let swy = 0;
+  for (let i = 0; i < input.n; i++) {
+    sw += f[i]! * f[i]!;
+    swy += f[i]! * f[i]! * input.y[i]!;
+  }
+  const mean = swy / sw;
+  let tss = 0;
+  for (let i = 0; i < input.n; i++) tss += (f[i]! * (input.y[i]! - mean)) ** 2;
+  const res: LeastSquaresResult = { ...gls.result, converged: gls.converged && gls.result.converged };
+  const fit = summarise(problem, res, x, { ...input, tss }, options.fixedTop, options.fixedBottom);
+  fit.weighting = "relative";
+  return fit;
 }
 
 interface Input {

@@ -281,6 +281,8 @@ export interface RelativeFitOptions {
   tol?: number;
   maxIterations?: number;
   lm?: LeastSquaresOptions;
+  /** The ordinary fit already computed by the caller (then `start` is not used). */
+  initial?: LeastSquaresResult;
 }
 
 export interface RelativeFit {
@@ -296,7 +298,7 @@ export interface RelativeFit {
 
 /**
  * Fully iterated GLS with relative weights for an unweighted problem (residuals y − f): starts
- * from the ordinary fit at `start` (or from `start` as given when `startIsFit`), then repeats
+ * from the ordinary fit from `start` (or `options.initial` when the caller has it), then repeats
  * factors = relativeWeightFactors(ŷ) and a weighted solve until the factors settle. `y` are the
  * observations, so ŷ = y − residual. The fixed point solves Σ (y − f)/f²·∂f/∂θ = 0, the
  * quasi-likelihood equation for SD ∝ mean (McCullagh & Nelder 1989 [from memory]).
@@ -316,7 +318,7 @@ export function fitRelativeWeighted(
   const weighted = scaleRows(problem, factors);
   const raw = new Float64Array(n);
   const fitted = new Float64Array(n);
-  let result = levenbergMarquardt(problem, start, options.lm);
+  let result = options.initial ?? levenbergMarquardt(problem, start, options.lm);
   let converged = false;
   let iterations = 0;
   while (iterations < maxIterations) {
