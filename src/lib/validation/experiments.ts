@@ -1,16 +1,11 @@
 import { z } from "zod";
 import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
+import { ANALYSIS_WEIGHTINGS } from "@/lib/analysis/settings";
+
+export { ANALYSIS_WEIGHTINGS, DEFAULT_ANALYSIS_WEIGHTING, type AnalysisWeighting } from "@/lib/analysis/settings";
 
 const pos = z.number().finite().positive();
 
-/**
- * How the fits weight their points: "auto" decides from the replicate wells (relative weighting
- * 1/Ŷ² when their SD grows with the signal, else none), "none" is ordinary least squares and
- * "relative" divides each residual by the fitted value. The default is "auto".
- */
-export const ANALYSIS_WEIGHTINGS = ["auto", "none", "relative"] as const;
-export type AnalysisWeighting = (typeof ANALYSIS_WEIGHTINGS)[number];
-export const DEFAULT_ANALYSIS_WEIGHTING: AnalysisWeighting = "auto";
 export const experimentSettingsSchema = z
   .object({
     hitRule: z

@@ -19,7 +19,7 @@ import { oneOf } from "./checks";
 import type { ResultDetail } from "@/lib/analysis/detail";
 import { EXPERIMENT_KINDS, type ExperimentKind } from "@/lib/analysis/kinds";
 import { INHIBITION_MODELS, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
-import type { AnalysisWeighting } from "@/lib/validation/experiments";
+import type { AnalysisWeighting } from "@/lib/analysis/settings";
 
 export const experimentKind = pgEnum("experiment_kind", EXPERIMENT_KINDS);
 export const analysisStatus = pgEnum("analysis_status", ["queued", "running", "done", "failed"]);

@@ -11,7 +11,7 @@ import {
 } from "@/server/db/schema";
 import { ENGINE_VERSION } from "@/lib/kinetics";
 import { campaignKmUm, toNanomolar } from "@/lib/units";
-import { DEFAULT_ANALYSIS_WEIGHTING } from "@/lib/validation/experiments";
+import { DEFAULT_ANALYSIS_WEIGHTING } from "@/lib/analysis/settings";
 import type { Campaign } from "../campaigns";
 import type { Experiment } from "./experiments";
 
