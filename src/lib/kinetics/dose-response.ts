@@ -86,14 +86,14 @@ export interface CurveOutlier {
 
 export interface CurveJudgement {
   outcome: CurveOutcome;
-  /** Why the outcome is not "fitted" (null when fitted). */
-  reason: string | null;
-  /** Largest mean % inhibition over the concentrations (percent scales only, else null). */
-  maxInhibitionPct: number | null;
+  /** Why the outcome is not "fitted" (absent when fitted). */
+  reason?: string;
+  /** Largest mean % inhibition over the concentrations (percent scales only). */
+  maxInhibitionPct?: number;
   /** For activators: the largest mean rise of activity above the vehicle, in %. */
-  maxActivationPct: number | null;
+  maxActivationPct?: number;
   /** For a step: the two tested concentrations the IC50 lies between. */
-  ic50Bracket: [number, number] | null;
+  ic50Bracket?: [number, number];
   /** The 4PL fit, null unless the outcome is "fitted". */
   fit: Logistic4Fit | null;
   adequacy: (Adequacy & { adequate: boolean; reasons: string[] }) | null;
@@ -368,10 +368,11 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
   const percent = s.response !== "signal";
   const out: CurveJudgement = {
     outcome: "not-determined",
-    reason: null,
-    maxInhibitionPct: null,
-    maxActivationPct: null,
-    ic50Bracket: null,
+    // Optional fields present as undefined from the start: one object shape for every curve.
+    reason: undefined,
+    maxInhibitionPct: undefined,
+    maxActivationPct: undefined,
+    ic50Bracket: undefined,
     fit: null,
     adequacy: null,
     doseEffectP: null,
