@@ -199,10 +199,10 @@ function weightedSlope(x: number[], z: number[], w: number[]): { slope: number; 
   return { slope, se: 1 / Math.sqrt(sxx), dispersion: df > 0 ? chi2 / df : 1 };
 }
 
-/** Digamma ψ(x), x > 0: recurrence to x ≥ 6, then the asymptotic series (A&S 6.3.5, 6.3.18). */
+/** Digamma ψ(x), x > 0: recurrence to x ≥ 10, then the asymptotic series (A&S 6.3.5, 6.3.18). */
 export function digamma(x: number): number {
   let r = 0;
-  while (x < 6) {
+  while (x < 10) {
     r -= 1 / x;
     x += 1;
   }
@@ -210,10 +210,10 @@ export function digamma(x: number): number {
   return r + Math.log(x) - 0.5 / x - f * (1 / 12 - f * (1 / 120 - f * (1 / 252 - f * (1 / 240 - f / 132))));
 }
 
-/** Trigamma ψ′(x), x > 0: recurrence to x ≥ 6, then the asymptotic series (A&S 6.4.6, 6.4.12). */
+/** Trigamma ψ′(x), x > 0: recurrence to x ≥ 10, then the asymptotic series (A&S 6.4.6, 6.4.12). */
 export function trigamma(x: number): number {
   let r = 0;
-  while (x < 6) {
+  while (x < 10) {
     r += 1 / (x * x);
     x += 1;
   }
