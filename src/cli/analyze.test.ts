@@ -1,7 +1,11 @@
 /**
- * The analyze command as a child process: its output shapes on published data sets
- * (isdals `inhibitor`, R DNase run 1 — sources in src/lib/kinetics/testdata/reference-data.ts),
- * and each kind of bad input → one stderr line naming line and column, exit 2, empty stdout.
+ * The analyze command as a child process, through its launcher (scripts/analyze.cjs, what
+ * `npm run analyze` runs): its output on published data sets (isdals `inhibitor`, R DNase run 1 —
+ * sources in src/lib/kinetics/testdata/reference-data.ts; the published fits are unweighted, so
+ * those checks pass --weighting=none), the new options on INVENTED difficult data
+ * (src/lib/analysis/testdata/difficult-cases.ts), a compound that cannot be fitted in its own
+ * object, worker threads that keep the output byte for byte, and each kind of bad input → one
+ * stderr line naming line and column, exit 2, empty stdout.
  */
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, writeFileSync } from "node:fs";
@@ -10,13 +14,26 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import { DNASE_RUN1, ISDALS_INHIBITOR } from "../lib/kinetics/testdata/reference-data";
+import {
+  DOSE_CASES,
+  ENZYME_UM,
+  MECHANISM_CASES,
+  doseSeries,
+  mechanismRates,
+} from "../lib/analysis/testdata/difficult-cases";
 
 const ROOT = fileURLToPath(new URL("../..", import.meta.url));
-const TSX = join(ROOT, "node_modules", ".bin", "tsx");
 const dir = mkdtempSync(join(tmpdir(), "analyze-test-"));
 
-function run(args: string[]): { stdout: string; stderr: string; status: number | null } {
-  const r = spawnSync(TSX, [join(ROOT, "src/cli/analyze.ts"), ...args], { cwd: ROOT, encoding: "utf8" });
+function run(
+  args: string[],
+  env: Record<string, string> = {},
+): { stdout: string; stderr: string; status: number | null } {
+  const r = spawnSync(process.execPath, [join(ROOT, "scripts/analyze.cjs"), ...args], {
+    cwd: ROOT,
+    encoding: "utf8",
+    env: { ...process.env, ...env },
+  });
   return { stdout: r.stdout, stderr: r.stderr, status: r.status };
 }
 
@@ -34,6 +51,12 @@ function expectBadInput(r: ReturnType<typeof run>, pattern: RegExp): void {
   expect(lines[0]).toMatch(pattern);
 }
 
+function ok(r: ReturnType<typeof run>): unknown {
+  expect(r.stderr).toBe("");
+  expect(r.status).toBe(0);
+  return JSON.parse(r.stdout);
+}
+
 const mechanismCsv =
   "Rate,SUBSTRATE,inhibitor\n" +
   ISDALS_INHIBITOR.map((p) => `${p.rate},${p.substrate},${p.inhibitor}`).join("\n") +
@@ -47,26 +70,52 @@ const doseCsv =
     .join("\n") +
   "\n";
 
+/** The invented difficult dose-response cases as % inhibition, one compound each. */
+const difficultDoseCsv =
+  "compound,concentration,response\n" +
+  DOSE_CASES.flatMap((c, k) =>
+    doseSeries(c, 7100 + k).map((p) => `${c.id},${p.concentrationUm},${p.inhibitionPct}`),
+  ).join("\n") +
+  "\n";
+/** The invented difficult mechanism matrices as one batch file with a compound column. */
+const difficultMechanismCsv =
+  "compound,substrate (µM),inhibitor (µM),rate\n" +
+  MECHANISM_CASES.flatMap((c, k) =>
+    mechanismRates(c, 7200 + k).map((p) => `${c.id},${p.substrateUm},${p.inhibitorUm},${p.rate}`),
+  ).join("\n") +
+  "\n";
+
+type DoseOut = Record<string, unknown> & { compound: string; outcome: string; flags: string[] };
+type MechOut = Record<string, unknown> & { compound: string; recommended: string; label: string; flags: string[] };
+
 describe("analyze mechanism (isdals inhibitor data, Ekstrøm & Sørensen; expected values computed with SciPy)", () => {
-  it("prints {best, label, models} with all four models and their constants", () => {
-    const r = run(["mechanism", csv("isdals.csv", mechanismCsv)]);
-    expect(r.stderr).toBe("");
-    expect(r.status).toBe(0);
-    const out = JSON.parse(r.stdout);
-    expect(Object.keys(out)).toEqual(["best", "label", "models"]);
+  it("prints the standard call, all four models with their constants and adequacy, and the judgement", () => {
+    const out = ok(run(["mechanism", csv("isdals.csv", mechanismCsv), "--weighting=none"])) as Record<
+      string,
+      unknown
+    > & {
+      models: Record<string, Record<string, unknown>>;
+    };
+    for (const k of ["best", "label", "models", "recommended", "weighting", "alternatives", "flags", "outliers"])
+      expect(out).toHaveProperty(k);
     expect(out.best).toBe("competitive");
     expect(out.label).toBe("ambiguous");
     expect(Object.keys(out.models).sort()).toEqual(["competitive", "mixed", "noncompetitive", "uncompetitive"]);
-    for (const m of Object.values(out.models) as Record<string, unknown>[]) {
+    const models = out.models;
+    for (const m of Object.values(models)) {
       for (const k of ["vmax", "km", "rss", "aicc"]) expect(typeof m[k]).toBe("number");
       expect(m).toHaveProperty("kic");
       expect(m).toHaveProperty("kiu");
+      expect(m).toHaveProperty("adequacy.runs.expected");
     }
-    expect(out.models.competitive.kic).toBeCloseTo(34.845, 3);
-    expect(out.models.competitive.kiu).toBeNull();
-    expect(out.models.uncompetitive.kic).toBeNull();
-    expect(out.models.noncompetitive.kic).toBe(out.models.noncompetitive.kiu);
-    expect(out.models.mixed.aicc).toBeCloseTo(-166.75, 2);
+    expect(models.competitive!.kic).toBeCloseTo(34.845, 3);
+    expect(models.competitive!.kiu).toBeNull();
+    expect(models.uncompetitive!.kic).toBeNull();
+    expect(models.noncompetitive!.kic).toBe(models.noncompetitive!.kiu);
+    expect(models.mixed!.aicc).toBeCloseTo(-166.75, 2);
+    // F-test competitive vs mixed, p = 0.0956 (science.md, computed with SciPy).
+    expect((models.competitive!.fTestVsMixed as { p: number }).p).toBeCloseTo(0.0956, 3);
+    expect(out.weighting).toMatchObject({ used: "none", chosen: "set" });
   });
 
   it("accepts substrate-0 rows and units in the header", () => {
@@ -79,29 +128,169 @@ describe("analyze mechanism (isdals inhibitor data, Ekstrøm & Sørensen; expect
         .filter((c) => c.length === 3)
         .map(([r, s, i]) => `${s},${i},${r}`)
         .join("\n");
-    const r = run(["mechanism", csv("zero.csv", text)]);
-    expect(r.status).toBe(0);
-    expect(JSON.parse(r.stdout).best).toBe("competitive");
+    const out = ok(run(["mechanism", csv("zero.csv", text), "--weighting=none"])) as { best: string };
+    expect(out.best).toBe("competitive");
+  });
+
+  it("weighting auto (the default) says what it chose and why", () => {
+    const out = ok(run(["mechanism", csv("isdals-auto.csv", mechanismCsv)])) as { weighting: Record<string, string> };
+    expect(out.weighting.chosen).toBe("auto");
+    expect(["none", "relative"]).toContain(out.weighting.used);
+    expect(out.weighting.reason).toMatch(/replicate groups/);
   });
 });
 
 describe("analyze dose-response (R datasets::DNase run 1; expected values computed with SciPy, same as R SSfpl)", () => {
-  it("prints one object per compound in input order with the specified keys", () => {
-    const r = run(["dose-response", csv("dose.csv", doseCsv)]);
-    expect(r.stderr).toBe("");
-    expect(r.status).toBe(0);
-    const out = JSON.parse(r.stdout);
+  it("prints one object per compound in input order with its outcome, figures and judgement", () => {
+    // DNase density is a raw signal, not % inhibition; the published fit is unweighted.
+    const out = ok(run(["dose-response", csv("dose.csv", doseCsv), "--response=signal", "--weighting=none"])) as Record<
+      string,
+      never
+    >[];
     expect(out).toHaveLength(2);
-    expect(Object.keys(out[0])).toEqual(["compound", "ic50", "hill", "top", "bottom", "ic50Ci95", "flags"]);
-    expect(out[0].compound).toBe("DNase run 1");
-    expect(out[0].ic50).toBeCloseTo(4.515, 3);
-    expect(out[0].hill).toBeCloseTo(0.94111, 4);
-    expect(out[0].bottom).toBeCloseTo(-0.0078971, 6);
-    expect(out[0].ic50Ci95[0]).toBeCloseTo(3.6146, 3);
-    expect(out[0].ic50Ci95[1]).toBeCloseTo(5.6396, 3);
-    expect(out[1].compound).toBe("IT-0042 (invented)");
-    expect(out[1].ic50).toBeCloseTo(0.5, 2);
-    expect(Array.isArray(out[1].flags)).toBe(true);
+    expect(Object.keys(out[0]!)).toEqual([
+      "compound",
+      "outcome",
+      "reason",
+      "ic50",
+      "ic50Qualifier",
+      "ic50Ci95",
+      "hill",
+      "top",
+      "bottom",
+      "maxInhibition",
+      "maxActivation",
+      "ic50Bracket",
+      "flags",
+      "weighting",
+      "adequacy",
+      "outliers",
+      "morrison",
+      "fit",
+    ]);
+    type Row = { compound: string; outcome: string; ic50: number; hill: number; bottom: number; flags: string[] };
+    const [dnase, invented] = out as unknown as (Row & { ic50Ci95: [number, number] })[];
+    expect(dnase!.compound).toBe("DNase run 1");
+    expect(dnase!.outcome).toBe("fitted");
+    expect(dnase!.ic50).toBeCloseTo(4.515, 3);
+    expect(dnase!.hill).toBeCloseTo(0.94111, 4);
+    expect(dnase!.bottom).toBeCloseTo(-0.0078971, 6);
+    expect(dnase!.ic50Ci95[0]).toBeCloseTo(3.6146, 3);
+    expect(dnase!.ic50Ci95[1]).toBeCloseTo(5.6396, 3);
+    expect(dnase!).toHaveProperty("adequacy.lackOfFit.dfPe", 8); // 16 wells at 8 concentrations
+    expect(invented!.compound).toBe("IT-0042 (invented)");
+    expect(invented!.ic50).toBeCloseTo(0.5, 2);
+    expect(Array.isArray(invented!.flags)).toBe(true);
+  });
+});
+
+describe("analyze on difficult invented data: outcomes, --enzyme, --robust, --weighting", () => {
+  it("dose-response: inactive and activator get no IC50 and say why; the partial inhibitor is flagged", () => {
+    const out = ok(run(["dose-response", csv("difficult-dose.csv", difficultDoseCsv)])) as DoseOut[];
+    const by = new Map(out.map((o) => [o.compound, o]));
+    expect(out.map((o) => o.compound)).toEqual(DOSE_CASES.map((c) => c.id));
+    expect(by.get("inactive")).toMatchObject({ outcome: "inactive", ic50: null });
+    expect(by.get("inactive")!.reason).toMatch(/< 50 % inhibition at the top concentration/);
+    expect(by.get("weak")).toMatchObject({ outcome: "inactive", ic50: null });
+    expect(by.get("weak")!.maxInhibition as number).toBeGreaterThan(20);
+    expect(by.get("activator")).toMatchObject({ outcome: "activator", ic50: null });
+    expect(by.get("partial")!.flags).toContain("partial-inhibition");
+    expect(by.get("clean")).toMatchObject({ outcome: "fitted" });
+    // Without --enzyme there is no tight-binding check.
+    expect(by.get("tight-binder")!.morrison).toBeNull();
+  });
+
+  it("--enzyme: the dose-response tight binder gets the Morrison fit, the mechanism one its depletion-aware model", () => {
+    const dose = ok(
+      run(["dose-response", csv("difficult-dose-e.csv", difficultDoseCsv), `--enzyme=${ENZYME_UM}`]),
+    ) as DoseOut[];
+    const tight = dose.find((o) => o.compound === "tight-binder")!;
+    expect(tight.flags).toContain("tight-binding-suspected");
+    expect(tight.morrison).toMatchObject({ enzyme: ENZYME_UM });
+
+    const mech = ok(
+      run(["mechanism", csv("difficult-mech-e.csv", difficultMechanismCsv), `--enzyme=${ENZYME_UM}`]),
+    ) as MechOut[];
+    expect(mech.map((m) => m.compound)).toEqual(MECHANISM_CASES.map((c) => c.id));
+    const byId = new Map(mech.map((m) => [m.compound, m]));
+    expect(byId.get("tight-binder")!.recommended).toBe("tight-binding-competitive");
+    expect(byId.get("tight-binder")!.label).toBe("inadequate");
+    expect(byId.get("tight-binder")!.enzyme).toBe(ENZYME_UM);
+    expect(byId.get("substrate-inhibited")!.recommended).toBe("substrate-inhibition-competitive");
+    expect(byId.get("partial")!.recommended).toMatch(/^partial-/);
+    expect(byId.get("mixed-clean")).toMatchObject({ recommended: "mixed", label: "clear" });
+    const alt = (
+      byId.get("substrate-inhibited")!.alternatives as { model: string; meaning: string; constants: object }[]
+    ).find((a) => a.model === "substrate-inhibition-competitive")!;
+    expect(alt.constants).toHaveProperty("ksi.value");
+    expect(alt.meaning).toMatch(/substrate/i);
+  });
+
+  it("--robust reports the fit without the wild well; without it the well is only proposed", () => {
+    const plain = ok(run(["dose-response", csv("wild.csv", difficultDoseCsv)])) as DoseOut[];
+    const robust = ok(run(["dose-response", csv("wild-r.csv", difficultDoseCsv), "--robust"])) as DoseOut[];
+    const p = plain.find((o) => o.compound === "wild-well")!;
+    const r = robust.find((o) => o.compound === "wild-well")!;
+    const wild = { concentration: 100, response: 0 };
+    expect(p.outliers).toMatchObject({ reported: "all-points", proposed: [expect.objectContaining(wild)] });
+    expect(r.outliers).toMatchObject({ reported: "without-outliers", proposed: [expect.objectContaining(wild)] });
+    expect(r.flags).toContain("outliers-excluded");
+    expect(Math.abs(Math.log10((r.ic50 as number) / 1))).toBeLessThan(Math.log10(2));
+    // The proposal names the file line of the well.
+    const line = (r.outliers as { proposed: { line: number }[] }).proposed[0]!.line;
+    expect(difficultDoseCsv.split("\n")[line - 1]).toMatch(/^wild-well,100,0$/);
+  });
+
+  it("--weighting=relative is used as set and said so", () => {
+    const out = ok(run(["dose-response", csv("rel.csv", difficultDoseCsv), "--weighting=relative"])) as DoseOut[];
+    expect(out.find((o) => o.compound === "clean")!.weighting).toMatchObject({ used: "relative", chosen: "set" });
+  });
+
+  it("--response=activity reads % activity (100 = vehicle)", () => {
+    const activity =
+      "compound,concentration,response\n" +
+      doseSeries(DOSE_CASES[0]!, 7100)
+        .map((p) => `clean,${p.concentrationUm},${100 - p.inhibitionPct}`)
+        .join("\n") +
+      "\n";
+    const [asActivity] = ok(run(["dose-response", csv("act.csv", activity), "--response=activity"])) as DoseOut[];
+    const [asInhibition] = ok(run(["dose-response", csv("inh.csv", difficultDoseCsv)])) as DoseOut[];
+    expect(asActivity!.outcome).toBe("fitted");
+    expect(asActivity!.ic50 as number).toBeCloseTo(asInhibition!.ic50 as number, 6);
+  });
+});
+
+describe("analyze batches: one compound's error in its own object, the rest fitted (exit 0)", () => {
+  it("dose-response: a compound with too few points", () => {
+    const text = doseCsv + "X,1,90\nX,10,50\nX,100,10\n";
+    const out = ok(run(["dose-response", csv("few.csv", text), "--response=signal"])) as Record<string, unknown>[];
+    expect(out).toHaveLength(3);
+    expect(out[0]).toMatchObject({ compound: "DNase run 1", outcome: "fitted" });
+    expect(out[2]).toEqual({
+      compound: "X",
+      error: expect.stringMatching(/^line 28, column "concentration": too few points: 3 points at 3 concentrations/),
+    });
+  });
+
+  it("mechanism with a compound column: a compound with too few levels", () => {
+    const text = difficultMechanismCsv + "thin,10,0,50\nthin,20,0,60\nthin,40,1,40\n";
+    const out = ok(run(["mechanism", csv("few-mech.csv", text)])) as Record<string, unknown>[];
+    expect(out.map((o) => o.compound)).toEqual([...MECHANISM_CASES.map((c) => c.id), "thin"]);
+    expect(out.at(-1)).toEqual({ compound: "thin", error: expect.stringMatching(/^lines \d+–\d+: too few points/) });
+    for (const o of out.slice(0, -1)) expect(o).toHaveProperty("best");
+  });
+
+  it("worker threads print the same bytes as one thread, in input order", () => {
+    const path = csv("threads.csv", difficultDoseCsv.repeat(1).replace(/\n$/, "\n"));
+    const one = run(["dose-response", path], { ANALYZE_THREADS: "1" });
+    const two = run(["dose-response", path], { ANALYZE_THREADS: "2" });
+    expect(two.status).toBe(0);
+    expect(two.stdout).toBe(one.stdout);
+    const mp = csv("threads-mech.csv", difficultMechanismCsv);
+    const m1 = run(["mechanism", mp], { ANALYZE_THREADS: "1" });
+    const m2 = run(["mechanism", mp], { ANALYZE_THREADS: "2" });
+    expect(m2.status).toBe(0);
+    expect(m2.stdout).toBe(m1.stdout);
   });
 });
 
@@ -138,11 +327,7 @@ describe("analyze: bad input → one stderr line with line and column, exit 2, n
     );
   });
 
-  it("too few points", () => {
-    expectBadInput(
-      run(["dose-response", csv("few.csv", "compound,concentration,response\nX,1,90\nX,10,50\nX,100,10\n")]),
-      /line 4, column "concentration": too few points: compound "X" has 3/,
-    );
+  it("too few points in a file that is one mechanism data set", () => {
     const oneLevel =
       "substrate,inhibitor,rate\n" +
       [1, 2, 5, 10, 20, 50, 100, 200].map((s) => `${s},0,${s / (s + 10)}`).join("\n") +
@@ -153,9 +338,23 @@ describe("analyze: bad input → one stderr line with line and column, exit 2, n
     );
   });
 
-  it("unknown command, missing file, unknown option", () => {
+  it("unknown command, missing file, unknown option, bad option values", () => {
     expectBadInput(run(["kinetics", "x.csv"]), /unknown command/);
     expectBadInput(run(["mechanism", join(dir, "does-not-exist.csv")]), /cannot read/);
-    expectBadInput(run(["dose-response", csv("ok.csv", doseCsv), "--fast"]), /unknown option/);
+    const ok = csv("ok.csv", doseCsv);
+    expectBadInput(run(["dose-response", ok, "--fast"]), /unknown option "--fast"/);
+    expectBadInput(run(["dose-response", ok, "--weighting=heavy"]), /--weighting must be auto, none or relative/);
+    expectBadInput(run(["dose-response", ok, "--enzyme=-1"]), /--enzyme needs a positive number/);
+    expectBadInput(run(["dose-response", ok, "--enzyme"]), /--enzyme needs a value/);
+    expectBadInput(run(["dose-response", ok, "--robust=yes"]), /--robust takes no value/);
+    expectBadInput(run(["dose-response", ok, "--response=ratio"]), /--response must be inhibition, activity or signal/);
+    expectBadInput(run(["mechanism", csv("m.csv", mechanismCsv), "--fix-top=100"]), /unknown option "--fix-top=100"/);
+  });
+
+  it("--help prints the usage with every option", () => {
+    const r = run(["--help"]);
+    expect(r.status).toBe(0);
+    for (const o of ["--enzyme=", "--weighting=", "--robust", "--response=", "--fix-top=", "--fix-bottom="])
+      expect(r.stdout).toContain(o);
   });
 });

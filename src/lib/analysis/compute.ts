@@ -4,34 +4,45 @@
  *
  * - Single-dose: % inhibition of each compound pooled over its wells on every plate (mean, SD,
  *   n), hit call by the campaign's rule (kinetics/hit-calling).
- * - Dose-response: a four-parameter logistic fit of % inhibition against concentration, pooled
- *   over plates (kinetics/logistic4), with the engine's flags plus partial inhibition and
- *   tight binding (Morrison fit when the enzyme concentration is known).
- * - Mechanism: the four-model global fit of initial rates against [S] and [I]
- *   (kinetics/mechanism-fit), Ki of the chosen model with its 95 % CI.
+ * - Dose-response: the engine's judgement of each curve (kinetics/dose-response: outcome
+ *   fitted / inactive / activator / not determined, weighting, adequacy, proposed outliers) on
+ *   % inhibition pooled over plates, plus tight binding (Morrison fit when the enzyme
+ *   concentration is known) and a baseline-offset flag.
+ * - Mechanism: the global fit of initial rates against [S] and [I] (kinetics/mechanism-fit: the
+ *   four standard models with their adequacy, the models beyond them the data call for, the
+ *   recommended model, weighting, proposed outliers), Ki of the recommended model with its 95 % CI.
+ * The `analyze` command calls the same per-compound functions, so it reports what the app stores.
  * Concentrations are µM throughout. Results are for research use and need review by a
  * qualified scientist.
  */
+import { callHits, type HitRule } from "@/lib/kinetics/hit-calling";
+import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
+import type { Logistic4Fit } from "@/lib/kinetics/logistic4";
+import { fitMorrison } from "@/lib/kinetics/morrison";
 import {
-  callHits,
-  chooseWeighting,
-  fitLogistic4,
+  analyseCurve,
+  type CurveAnalysis,
+  type CurveJudgement,
+  type ResponseScale,
+} from "@/lib/kinetics/dose-response";
+import {
   fitMechanism,
-  fitMorrison,
-  type HitRule,
-  type InhibitionModel,
-  type Logistic4Fit,
   type MechanismModelFit,
   type MechanismResult,
-} from "@/lib/kinetics";
-import { DEFAULT_ANALYSIS_WEIGHTING, type AnalysisWeighting } from "@/lib/validation/experiments";
-import {
-  isFittedMechanism,
-  type DoseResponseFittedDetail,
-  type MechanismFittedDetail,
-  type ModelSummary,
-  type ResultDetail,
-  type WeightingDecision,
+  type MechanismWeightingChoice,
+} from "@/lib/kinetics/mechanism-fit";
+import type { ExtendedModelFit } from "@/lib/kinetics/mechanism-models";
+import type { Estimate } from "@/lib/kinetics/mechanism-models";
+import { DEFAULT_ANALYSIS_WEIGHTING, OUTLIER_Q, type AnalysisWeighting } from "./settings";
+import type {
+  AdequacySummary,
+  AlternativeModel,
+  DoseResponseCalledDetail,
+  DoseResponseFittedDetail,
+  MechanismFittedDetail,
+  ModelSummary,
+  ResultDetail,
+  WeightingDecision,
 } from "./detail";
 import { headlineKi } from "./headline-ki";
 
@@ -61,7 +72,7 @@ export type CompoundResult = {
   ic50Qualifier?: ">" | "<" | null;
   hill?: number | null;
   mechanism?: InhibitionModel | null;
-  mechanismLabel?: "clear" | "ambiguous" | null;
+  mechanismLabel?: "clear" | "ambiguous" | "inadequate" | null;
   kiUm?: number | null;
   kiLoUm?: number | null;
   kiHiUm?: number | null;
@@ -72,10 +83,23 @@ export type CompoundResult = {
   detail: ResultDetail;
 };
 
+/**
+ * x to `digits` significant digits, as Number(x.toPrecision(digits)) gives it, so stored figures
+ * do not carry the last bits of floating-point noise. toPrecision costs about half a microsecond,
+ * and a batch of 10⁴ curves rounds some 3·10⁵ figures, so the common magnitudes take the integer
+ * path: with 10^p exact (p ≤ 22) the quotient Math.round(x·10^p)/10^p is the double nearest the
+ * rounded decimal, which is what toPrecision's string parses to (ties aside).
+ */
+function roundFinite(x: number, digits = 10): number {
+  if (x === 0) return 0;
+  const p = digits - 1 - Math.floor(Math.log10(Math.abs(x)));
+  if (p < 0 || p > 22) return Number(x.toPrecision(digits));
+  const f = POW10[p]!;
+  return Math.round(x * f) / f;
+}
+const POW10 = Array.from({ length: 23 }, (_, k) => 10 ** k);
 const round = (x: number | null | undefined, digits = 10): number | null =>
-  x === null || x === undefined || !Number.isFinite(x) ? null : Number(x.toPrecision(digits));
-/** `round` of a value already known to be finite. */
-const roundFinite = (x: number, digits = 10): number => Number(x.toPrecision(digits));
+  x === null || x === undefined || !Number.isFinite(x) ? null : roundFinite(x, digits);
 
 function meanSd(xs: number[]): { mean: number; sd: number | null } {
   const n = xs.length;
@@ -159,29 +183,26 @@ export type DoseResponseOptions = {
   weighting?: AnalysisWeighting;
   /** Report the fit without the proposed outliers (default: they are only proposed). */
   robust?: boolean;
+  /**
+   * What `inhibitionPct` holds: % inhibition (default; the pipeline), or, for the command only,
+   * % activity or a raw signal.
+   */
+  response?: DoseResponseScale;
 };
+
+export type DoseResponseScale = ResponseScale;
 
 /** One well of a dose-response series: concentration µM, % inhibition, and where it was read. */
 export type DoseResponsePoint = { concentrationUm: number; inhibitionPct: number; runId: string; well: string };
 
-function ic50Summary(fit: Logistic4Fit, xs: readonly number[]) {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const x of xs)
-    if (x > 0) {
-      if (x < lo) lo = x;
-      if (x > hi) hi = x;
-    }
-  let qualifier: ">" | "<" | null = null;
-  let ic50 = fit.ic50;
-  if (fit.flags.includes("ic50-above-range")) {
-    qualifier = ">";
-    ic50 = hi;
-  } else if (fit.flags.includes("ic50-below-range")) {
-    qualifier = "<";
-    ic50 = lo;
-  }
-  return { ic50, qualifier, rangeUm: [lo, hi] as [number, number] };
+/**
+ * The IC50 as reported: inside the tested range as fitted; beyond it (the 4PL's range flags, or
+ * a curve whose IC50 lies below the lowest concentration) as the range end with ">" or "<".
+ */
+function ic50Summary(ic50: number | null, flags: readonly string[], rangeUm: [number, number]) {
+  if (flags.includes("ic50-above-range")) return { ic50: rangeUm[1], qualifier: ">" as const };
+  if (flags.includes("ic50-below-range")) return { ic50: rangeUm[0], qualifier: "<" as const };
+  return { ic50, qualifier: null };
 }
 
 function logistic4Detail(fit: Logistic4Fit): DoseResponseFittedDetail["fit"] {
@@ -202,6 +223,18 @@ function logistic4Detail(fit: Logistic4Fit): DoseResponseFittedDetail["fit"] {
   };
 }
 
+function adequacyDetail(a: CurveJudgement["adequacy"] | MechanismModelFit["adequacy"] | null): AdequacySummary | null {
+  if (!a) return null;
+  return {
+    lackOfFit: a.lackOfFit
+      ? { f: round(a.lackOfFit.f), p: round(a.lackOfFit.p), dfLof: a.lackOfFit.dfLof, dfPe: a.lackOfFit.dfPe }
+      : null,
+    runs: { runs: a.runs.runs, expected: roundFinite(a.runs.expected), p: round(a.runs.p) },
+    adequate: a.adequate,
+    reasons: [...a.reasons],
+  };
+}
+
 const pointTuple = (p: DoseResponsePoint): [number, number, string, string] => [
   p.concentrationUm,
   roundFinite(p.inhibitionPct),
@@ -209,9 +242,54 @@ const pointTuple = (p: DoseResponsePoint): [number, number, string, string] => [
   p.well,
 ];
 
+/** [lowest, highest] concentration above 0 (null when there is none). */
+function testedRange(x: readonly number[]): [number, number] | null {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const c of x)
+    if (c > 0) {
+      if (c < lo) lo = c;
+      if (c > hi) hi = c;
+    }
+  return hi > 0 ? [lo, hi] : null;
+}
+
+function outliersDetail(
+  c: CurveAnalysis,
+  pts: readonly DoseResponsePoint[],
+  q: number,
+): DoseResponseCalledDetail["outliers"] {
+  if (c.outliers.length === 0) return null;
+  const other = c.alternative;
+  return {
+    q,
+    proposed: c.outliers.map((o) => {
+      const p = pts[o.index]!;
+      return {
+        runId: p.runId,
+        well: p.well,
+        concentrationUm: p.concentrationUm,
+        inhibitionPct: roundFinite(p.inhibitionPct),
+        residual: round(c.robustScale ? o.residual / c.robustScale : null),
+        p: round(o.p),
+      };
+    }),
+    reported: c.reported === "outliers-excluded" ? "without-outliers" : "all-points",
+    other: other
+      ? {
+          basis: other.basis === "outliers-excluded" ? "without-outliers" : "all-points",
+          outcome: other.outcome,
+          reason: other.reason ?? null,
+          fit: other.fit ? logistic4Detail(other.fit) : null,
+        }
+      : null,
+  };
+}
+
 /**
  * One compound's dose-response result from its wells (pooled over plates): the pipeline and the
- * `analyze` command both call this, so they report the same outcome, flags and figures.
+ * `analyze` command both call this, so they report the same outcome, flags and figures. An
+ * inactive, activating or undetermined curve gets no IC50 (`ic50Um` null) and says why.
  */
 export function analyseDoseResponseCompound(
   compoundId: string,
@@ -220,49 +298,70 @@ export function analyseDoseResponseCompound(
 ): CompoundResult {
   const x = pts.map((p) => p.concentrationUm);
   const y = pts.map((p) => p.inhibitionPct);
-  const distinct = new Set(x.filter((c) => c > 0)).size;
-  if (distinct < 4 || pts.length < 5) {
+  const q = OUTLIER_Q;
+  const requested = opts.weighting ?? DEFAULT_ANALYSIS_WEIGHTING;
+  const c = analyseCurve(x, y, {
+    weighting: requested,
+    robust: opts.robust ?? false,
+    q,
+    ...(opts.response ? { response: opts.response } : {}),
+    ...(opts.fixTopPct !== null && opts.fixTopPct !== undefined ? { fixedTop: opts.fixTopPct } : {}),
+    ...(opts.fixBottomPct !== null && opts.fixBottomPct !== undefined ? { fixedBottom: opts.fixBottomPct } : {}),
+  });
+  const weighting: WeightingDecision = {
+    used: c.weighting.used,
+    chosen: c.weighting.chosen,
+    reason: c.weighting.reason,
+  };
+  const rangeUm = testedRange(x);
+  const maxInhibitionPct = round(c.maxInhibitionPct ?? null);
+  const outliers = outliersDetail(c, pts, q);
+  const points = pts.map(pointTuple);
+
+  if (c.outcome !== "fitted" || !c.fit || !rangeUm) {
+    const tooFew = c.flags.includes("too-few-points");
+    // "too-few-points" alone keeps the record of old; otherwise the outcome is a flag of its own.
+    const flags = [...new Set<string>(tooFew ? c.flags : [c.outcome, ...c.flags])];
+    // A curve at ≥ 50 % everywhere has its IC50 below the range: kept as a bound for ranking.
+    const bound =
+      c.outcome === "not-determined" && rangeUm ? ic50Summary(null, c.flags, rangeUm) : { ic50: null, qualifier: null };
+    const detail: DoseResponseCalledDetail = {
+      outcome: c.outcome === "fitted" ? "not-determined" : c.outcome,
+      reason: c.reason ?? "no IC50 could be determined",
+      maxInhibitionPct,
+      testedRangeUm: rangeUm,
+      curve: null,
+      adequacy: adequacyDetail(c.adequacy),
+      weighting,
+      outliers,
+      points,
+    };
+    if (c.maxActivationPct !== undefined) detail.maxActivationPct = round(c.maxActivationPct);
+    if (c.ic50Bracket) detail.ic50BracketUm = c.ic50Bracket;
     return {
       compoundId,
       nPoints: pts.length,
-      flags: ["too-few-points"],
-      detail: {
-        outcome: "not-determined",
-        reason: `too few points: ${pts.length} wells at ${distinct} concentrations above 0; a fit needs at least 5 wells at 4 concentrations`,
-        maxInhibitionPct: round(maxAtTop(x, y)),
-        testedRangeUm: distinct > 0 ? testedRange(x) : null,
-        curve: null,
-        adequacy: null,
-        weighting: null,
-        outliers: null,
-        points: pts.map(pointTuple),
-      },
+      ic50Um: bound.ic50,
+      ic50LoUm: null,
+      ic50HiUm: null,
+      ic50Qualifier: bound.qualifier,
+      hill: null,
+      flags,
+      detail,
     };
   }
-  const weighting = decideWeighting(
-    opts.weighting ?? DEFAULT_ANALYSIS_WEIGHTING,
-    x.map((c) => String(c)),
-    y,
+
+  const fit = c.fit;
+  const flags: string[] = [...c.flags];
+  const s = ic50Summary(fit.ic50, fit.flags, rangeUm);
+  if (fit.bottom !== null && Math.abs(fit.bottom) > 20 && opts.response !== "signal") flags.push("baseline-offset");
+  const morrison = tightBindingCheck(
+    fit,
+    c.usedIndices.map((k) => x[k]!),
+    c.usedIndices.map((k) => y[k]!),
+    opts,
+    flags,
   );
-  const fit = fitLogistic4(x, y, {
-    ...(opts.fixTopPct !== null && opts.fixTopPct !== undefined ? { fixedTop: opts.fixTopPct } : {}),
-    ...(opts.fixBottomPct !== null && opts.fixBottomPct !== undefined ? { fixedBottom: opts.fixBottomPct } : {}),
-    ...(weighting.used === "relative" ? { weighting: "relative" as const } : {}),
-  });
-  const flags: string[] = [...fit.flags];
-  const s = ic50Summary(fit, x);
-  // % inhibition rises with concentration: the upper plateau is the maximum inhibition.
-  if (fit.direction === "falling") flags.push("activation-not-inhibition");
-  if (
-    fit.top !== null &&
-    fit.direction === "rising" &&
-    fit.top < 80 &&
-    !fit.flags.includes("plateau-not-reached") &&
-    s.qualifier === null
-  )
-    flags.push("partial-inhibition");
-  if (fit.bottom !== null && Math.abs(fit.bottom) > 20) flags.push("baseline-offset");
-  const morrison = tightBindingCheck(fit, x, y, opts.enzymeUm ?? null, flags);
   return {
     compoundId,
     nPoints: pts.length,
@@ -275,60 +374,38 @@ export function analyseDoseResponseCompound(
     detail: {
       outcome: "fitted",
       fit: logistic4Detail(fit),
-      testedRangeUm: s.rangeUm,
+      testedRangeUm: rangeUm,
       fixed: { topPct: opts.fixTopPct ?? null, bottomPct: opts.fixBottomPct ?? null },
       morrison,
-      maxInhibitionPct: round(maxAtTop(x, y)),
-      weighting: weighting.decision,
-      points: pts.map(pointTuple),
+      maxInhibitionPct,
+      adequacy: adequacyDetail(c.adequacy),
+      weighting,
+      outliers,
+      points,
     },
   };
-}
-
-/** [lowest, highest] concentration above 0. */
-function testedRange(x: readonly number[]): [number, number] {
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const c of x)
-    if (c > 0) {
-      lo = Math.min(lo, c);
-      hi = Math.max(hi, c);
-    }
-  return [lo, hi];
-}
-
-/** Mean % inhibition at the highest concentration (NaN without points). */
-function maxAtTop(x: readonly number[], y: readonly number[]): number {
-  let top = -Infinity;
-  for (const c of x) top = Math.max(top, c);
-  let sum = 0;
-  let n = 0;
-  x.forEach((c, k) => {
-    if (c === top) {
-      sum += y[k]!;
-      n++;
-    }
-  });
-  return n ? sum / n : NaN;
 }
 
 /**
  * Tight binding suspected (IC50 < 10·[E] or Hill > 2, common practice): the Morrison equation is
  * fitted with the known enzyme concentration (Morrison 1969; IC50 = K′ + E/2, Copeland et al.
- * 1995) and the flag is added.
+ * 1995) and the flag is added. Needs % inhibition (activity = 1 − % / 100).
  */
 function tightBindingCheck(
   fit: Logistic4Fit,
   x: readonly number[],
   y: readonly number[],
-  e: number | null,
+  opts: DoseResponseOptions,
   flags: string[],
 ): DoseResponseFittedDetail["morrison"] {
+  const e = opts.enzymeUm ?? null;
   if (!e || !(e > 0) || fit.ic50 === null) return null;
   const steep = fit.hill !== null && fit.hill > 2;
   if (!(fit.ic50 < 10 * e || steep)) return null;
   flags.push("tight-binding-suspected");
-  const v = y.map((p) => 1 - p / 100);
+  if (opts.response === "signal")
+    return { error: "the Morrison fit needs % inhibition or % activity, not a raw signal" };
+  const v = y.map((p) => (opts.response === "activity-pct" ? p / 100 : 1 - p / 100));
   try {
     const m = fitMorrison([...x], v, e, { fixedV0: 1 });
     return {
@@ -342,25 +419,6 @@ function tightBindingCheck(
   } catch (err) {
     return { error: err instanceof Error ? err.message : String(err) };
   }
-}
-
-/** The weighting a fit uses: as set, or chosen from the replicate groups (kinetics/weighting). */
-function decideWeighting(
-  setting: AnalysisWeighting,
-  keys: readonly string[],
-  y: readonly number[],
-): { used: "none" | "relative"; decision: WeightingDecision } {
-  if (setting !== "auto")
-    return {
-      used: setting,
-      decision: {
-        used: setting,
-        chosen: "set",
-        reason: setting === "relative" ? "relative weighting 1/Ŷ², as set" : "unweighted, as set",
-      },
-    };
-  const c = chooseWeighting(keys, y);
-  return { used: c.weighting, decision: { used: c.weighting, chosen: "auto", reason: c.reason } };
 }
 
 export function analyseDoseResponse(
@@ -415,8 +473,10 @@ function modelSummary(m: MechanismModelFit): ModelSummary {
     deltaAicc: round(m.deltaAicc),
     akaikeWeight: round(m.akaikeWeight),
     fTestVsMixedP: round(m.fTestVsMixed?.p ?? null),
+    fTestVsMixedF: round(m.fTestVsMixed?.f ?? null),
     dof: m.dof,
     converged: m.converged,
+    adequacy: adequacyDetail(m.adequacy),
   };
 }
 
@@ -430,25 +490,134 @@ function modelSummaries(fit: MechanismResult): MechanismFittedDetail["models"] {
   };
 }
 
-export function summariseMechanism(fit: MechanismResult, chosen: InhibitionModel = fit.best) {
-  const m = fit.models[chosen];
-  const { kiUm: ki, ci95: ci } = headlineKi(chosen, { kicUm: m.kic, kiuUm: m.kiu, ci95: m.ci95 });
+const FAMILY_NAMES: Record<ExtendedModelFit["family"], string> = {
+  "substrate-inhibition": "with substrate inhibition",
+  partial: "partial",
+  "tight-binding": "tight-binding",
+};
+
+/** "partial mixed inhibition", "competitive inhibition with substrate inhibition", … */
+function alternativeName(a: ExtendedModelFit): string {
+  if (a.family === "substrate-inhibition") return `${a.mechanism} inhibition ${FAMILY_NAMES[a.family]}`;
+  return `${FAMILY_NAMES[a.family]} ${a.mechanism} inhibition`;
+}
+
+function estimate(e: Estimate, unit: string) {
   return {
-    mechanism: chosen,
+    value: round(e.value),
+    se: round(e.se),
+    ci95: [round(e.ci95[0]), round(e.ci95[1])] as [number | null, number | null],
+    unit,
+  };
+}
+
+function alternativeDetail(a: ExtendedModelFit): AlternativeModel {
+  const constants: AlternativeModel["constants"] = {
+    vmax: estimate(a.vmax, "rate"),
+    kmUm: estimate(a.km, "µM"),
+  };
+  if (
+    a.kic.value !== null ||
+    a.mechanism === "competitive" ||
+    a.mechanism === "mixed" ||
+    a.mechanism === "noncompetitive"
+  )
+    constants.kicUm = estimate(a.kic, "µM");
+  if (a.mechanism !== "competitive" && a.mechanism !== "noncompetitive") constants.kiuUm = estimate(a.kiu, "µM");
+  if (a.ksi) constants.ksiUm = estimate(a.ksi, "µM");
+  if (a.beta) constants.beta = estimate(a.beta, "");
+  const out: AlternativeModel = {
+    model: a.model,
+    name: alternativeName(a),
+    constants,
+    rss: round(a.rss),
+    aicc: round(a.aicc),
+    deltaAicc: round(a.deltaAicc),
+    dof: a.dof,
+    converged: a.converged,
+    adequacy: adequacyDetail(a.adequacy),
+    meaning: a.sentence,
+  };
+  if (a.residualActivity !== null) out.residualActivity = round(a.residualActivity);
+  if (a.enzymeConc !== null) out.enzymeUm = round(a.enzymeConc);
+  return out;
+}
+
+function weightingDetail(w: MechanismWeightingChoice): WeightingDecision {
+  return { used: w.used, chosen: w.requested === "auto" ? "auto" : "set", reason: w.reason };
+}
+
+/** α = Kiu/Kic as the mechanism defines it: null competitive, 0 uncompetitive, 1 noncompetitive. */
+function alphaOf(mechanism: InhibitionModel, kic: number | null, kiu: number | null): number | null {
+  if (mechanism === "competitive") return null;
+  if (mechanism === "uncompetitive") return 0;
+  if (mechanism === "noncompetitive") return 1;
+  return kic !== null && kiu !== null && kic > 0 ? kiu / kic : null;
+}
+
+/**
+ * The constants a result stands for: the recommended model's (one of the four, or a model beyond
+ * them — its Ki is then the trustworthy one), else the standard choice's when no model is adequate.
+ */
+export function summariseMechanism(fit: MechanismResult, chosen?: InhibitionModel) {
+  const rec = chosen === undefined ? fit.recommended : null;
+  const mechanism = chosen ?? rec?.mechanism ?? fit.best;
+  const std = fit.models[mechanism];
+  const kic = rec ? rec.kic : { value: std.kic, ci95: std.ci95.kic };
+  const kiu = rec ? rec.kiu : { value: std.kiu, ci95: std.ci95.kiu };
+  const { kiUm: ki, ci95: ci } = headlineKi(mechanism, {
+    kicUm: kic.value,
+    kiuUm: kiu.value,
+    ci95: { kic: kic.ci95, kiu: kiu.ci95 },
+  });
+  return {
+    mechanism,
     label: fit.label,
     kiUm: round(ki),
     kiCi95Um: [round(ci[0]), round(ci[1])] as [number | null, number | null],
-    kicUm: round(m.kic),
-    kiuUm: round(m.kiu),
-    alpha: round(m.alpha),
-    vmax: round(m.vmax),
-    kmUm: round(m.km),
+    kicUm: round(kic.value),
+    kiuUm: round(kiu.value),
+    alpha: round(rec && rec.family !== "standard" ? alphaOf(mechanism, kic.value, kiu.value) : std.alpha),
+    vmax: round(std.vmax),
+    kmUm: round(std.km),
+  };
+}
+
+function mechanismOutliersDetail(
+  fit: MechanismResult,
+  pts: readonly MechanismInputPoint[],
+  reported: "all-points" | "without-outliers",
+): MechanismFittedDetail["outliers"] {
+  const o = fit.outliers;
+  if (!o) return null;
+  return {
+    checked: o.checked,
+    largestStandardized: round(o.largestStandardized),
+    model: o.model,
+    q: o.q,
+    proposed: o.indices.map((k) => {
+      const p = pts[k]!;
+      return {
+        runId: p.runId,
+        well: p.well,
+        substrateUm: p.substrate,
+        inhibitorUm: p.inhibitor,
+        rate: roundFinite(p.rate),
+        // The engine reports the largest standardised residual, not one per well.
+        residual: null,
+        p: null,
+      };
+    }),
+    reported,
+    callWithout: o.callWithout,
+    kiWithoutUm: round(o.kiWithout),
   };
 }
 
 /**
  * One compound's mechanism result from its wells: the pipeline and the `analyze` command both
- * call this, so they report the same label, models and flags.
+ * call this, so they report the same label, models and flags. With `robust` on and outliers
+ * proposed, the fit without them is the one reported (the proposals stay listed).
  */
 export function analyseMechanismCompound(
   compoundId: string,
@@ -463,36 +632,54 @@ export function analyseMechanismCompound(
       nPoints: pts.length,
       flags: ["too-few-points"],
       detail: {
-        reason: `needs at least 3 substrate and 2 inhibitor concentrations (has ${levelsS} and ${levelsI})`,
+        reason: `needs at least 6 wells at 3 substrate and 2 inhibitor concentrations (has ${pts.length} wells at ${levelsS} and ${levelsI})`,
         points: [...pts],
       },
     };
   }
-  const weighting = decideWeighting(
-    opts.weighting ?? DEFAULT_ANALYSIS_WEIGHTING,
-    pts.map((p) => `${p.substrate}|${p.inhibitor}`),
-    pts.map((p) => p.rate),
-  );
+  const e = opts.enzymeUm ?? null;
+  const options = {
+    weighting: opts.weighting ?? DEFAULT_ANALYSIS_WEIGHTING,
+    ...(e !== null && e > 0 ? { enzymeConc: e } : {}),
+    outliers: opts.robust ? ("always" as const) : ("auto" as const),
+    outlierQ: OUTLIER_Q,
+  };
   let fit: MechanismResult;
+  let used = pts;
+  let reported: "all-points" | "without-outliers" = "all-points";
   try {
-    fit = fitMechanism(pts, { weighting: weighting.used });
-  } catch (e) {
+    fit = fitMechanism(pts, options);
+    const drop = fit.outliers?.indices ?? [];
+    if (opts.robust && drop.length > 0) {
+      const out = new Set(drop);
+      const kept = pts.filter((_, k) => !out.has(k));
+      const without = fitMechanism(kept, { ...options, outliers: "never" });
+      // The proposals (indices into all points) stay with the reported fit.
+      fit = { ...without, outliers: fit.outliers };
+      used = kept;
+      reported = "without-outliers";
+    }
+  } catch (err) {
     return {
       compoundId,
       nPoints: pts.length,
       flags: ["fit-failed"],
-      detail: { error: e instanceof Error ? e.message : String(e), points: [...pts] },
+      detail: { error: err instanceof Error ? err.message : String(err), points: [...pts] },
     };
   }
   const s = summariseMechanism(fit);
   const flags: string[] = [];
   if (fit.label === "ambiguous") flags.push("ambiguous-mechanism");
+  if (fit.label === "inadequate") flags.push("mechanism-inadequate");
+  for (const f of fit.flags) flags.push(f.code);
+  if (reported === "without-outliers") flags.push("outliers-excluded");
   if (!fit.models[fit.best].converged) flags.push("not-converged");
   if (s.kiCi95Um[0] !== null && s.kiCi95Um[1] !== null && s.kiCi95Um[1] / Math.max(s.kiCi95Um[0], 1e-300) > 10)
     flags.push("ki-ci-wider-than-10-fold");
   if (s.kiCi95Um[1] === null) flags.push("ki-ci-unbounded");
-  const maxI = Math.max(...pts.map((p) => p.inhibitor));
+  const maxI = Math.max(...used.map((p) => p.inhibitor));
   if (s.kiUm !== null && s.kiUm > 3 * maxI) flags.push("ki-above-tested-range");
+  const sc = fit.screens;
   return {
     compoundId,
     nPoints: pts.length,
@@ -504,15 +691,36 @@ export function analyseMechanismCompound(
     kicUm: s.kicUm,
     kiuUm: s.kiuUm,
     alpha: s.alpha,
-    flags,
+    flags: [...new Set(flags)],
     detail: {
       best: fit.best,
       label: fit.label,
+      labelReasons: fit.flags.map((f) => f.message),
       n: fit.n,
       weighting: fit.weighting,
-      weightingDecision: weighting.decision,
+      weightingDecision: weightingDetail(fit.weightingChoice),
       models: modelSummaries(fit),
-      enzymeUm: round(opts.enzymeUm ?? null),
+      alternatives: fit.alternatives.map(alternativeDetail),
+      ...(fit.recommended ? { recommended: fit.recommended.model } : {}),
+      recommendedReason: fit.recommended?.reason ?? "no model fits these data adequately",
+      enzymeUm: round(e),
+      outliers: mechanismOutliersDetail(fit, pts, reported),
+      screens: {
+        substrateInhibition: {
+          scoreP: round(sc.substrateInhibition.scoreP),
+          ratesFall: sc.substrateInhibition.ratesFall,
+        },
+        partial: { scoreP: round(sc.partial.scoreP) },
+        tightBinding: sc.tightBinding
+          ? {
+              enzymeUm: round(sc.tightBinding.enzymeConc),
+              kiMinUm: round(sc.tightBinding.kiMin),
+              kiOverEnzyme: round(sc.tightBinding.kiOverEnzyme),
+              near: sc.tightBinding.near,
+            }
+          : null,
+        fitted: sc.fitted.map((f) => ({ family: f.family, why: f.why })),
+      },
       points: pts.map((p) => [p.substrate, p.inhibitor, round(p.rate), p.runId, p.well]),
       backgroundSubtracted: false,
     },
@@ -542,7 +750,8 @@ export function analyseMechanism(
         well: r.well,
       }));
     const result = analyseMechanismCompound(id, pts, opts);
-    if (isFittedMechanism(result.detail)) result.detail.backgroundSubtracted = background.size > 0;
+    // (not isFittedMechanism: a runtime import of detail.ts would pull zod into the command's bundle)
+    if ("models" in result.detail) result.detail.backgroundSubtracted = background.size > 0;
     out.push(result);
   }
   return out;

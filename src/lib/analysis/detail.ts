@@ -108,14 +108,24 @@ const doseResponseOutlier = z.strictObject({
   p: num,
 });
 
-/** What the outlier step did: the proposals, at which Q, and which fit the result reports. */
+/**
+ * What the outlier step did: the proposals at false-discovery rate `q`, which points the result
+ * reports ("without-outliers" only when robust is on), and the other analysis — without the
+ * proposals when they are only proposed, with all points when robust left them out — so the
+ * effect of accepting them can be seen. Null when the cheap screen found nothing to search.
+ */
 const doseResponseOutliers = z.strictObject({
   q: z.number(),
   proposed: z.array(doseResponseOutlier),
-  /** "all-points": the proposals are only shown; "without-outliers": robust was on and they were left out. */
   reported: z.enum(["all-points", "without-outliers"]),
-  /** The other of the two fits, when the outliers were left out (robust on). */
-  allPointsFit: logistic4Summary.nullable(),
+  other: z
+    .strictObject({
+      basis: z.enum(["all-points", "without-outliers"]),
+      outcome: z.enum(["fitted", "inactive", "activator", "not-determined"]),
+      reason: z.string().nullable(),
+      fit: logistic4Summary.nullable(),
+    })
+    .nullable(),
 });
 
 const doseResponseFitted = z.strictObject({
@@ -129,7 +139,7 @@ const doseResponseFitted = z.strictObject({
   maxInhibitionPct: num.optional(),
   adequacy: adequacySummary.nullable().optional(),
   weighting: weightingDecision.optional(),
-  outliers: doseResponseOutliers.optional(),
+  outliers: doseResponseOutliers.nullable().optional(),
   points: z.array(doseResponsePoint),
 });
 
@@ -142,6 +152,10 @@ const doseResponseCalled = z.strictObject({
   outcome: z.enum(["inactive", "activator", "not-determined"]),
   reason: z.string(),
   maxInhibitionPct: num,
+  /** Activators: the largest mean rise of activity above the vehicle, %. */
+  maxActivationPct: num.optional(),
+  /** A step too steep to fix the IC50: the two tested concentrations it lies between, µM. */
+  ic50BracketUm: z.tuple([z.number(), z.number()]).optional(),
   testedRangeUm: z.tuple([z.number(), z.number()]).nullable(),
   curve: logistic4Summary.nullable(),
   adequacy: adequacySummary.nullable(),
@@ -169,8 +183,9 @@ const modelSummary = z.strictObject({
   aicc: num,
   deltaAicc: num,
   akaikeWeight: num,
-  /** Extra-sum-of-squares F-test against mixed (null for mixed itself). */
+  /** Extra-sum-of-squares F-test against mixed (null for mixed itself): p, and F (absent on older rows). */
   fTestVsMixedP: num,
+  fTestVsMixedF: num.optional(),
   dof: z.number(),
   converged: z.boolean(),
   adequacy: adequacySummary.nullable().optional(),
@@ -227,6 +242,10 @@ const alternativeModel = z.strictObject({
   dof: z.number(),
   converged: z.boolean(),
   adequacy: adequacySummary.nullable(),
+  /** Partial inhibition: the activity left at saturating inhibitor and S = Km, as a fraction. */
+  residualActivity: num.optional(),
+  /** Tight binding: the total enzyme concentration the Morrison fit used, µM. */
+  enzymeUm: num.optional(),
   meaning: z.string(),
 });
 
@@ -239,8 +258,34 @@ const mechanismOutlier = z.strictObject({
   substrateUm: z.number(),
   inhibitorUm: z.number(),
   rate: z.number(),
+  /** Standardised residual and its p-value, where the engine reports them per well (else null). */
   residual: num,
   p: num,
+});
+
+/**
+ * The outlier step: "screen" when only the cheap screen ran (largest standardised residual of the
+ * judged fit below the threshold), "rout" when the robust fit ran; the proposals at
+ * false-discovery rate `q`, and the call and Ki without them.
+ */
+const mechanismOutliers = z.strictObject({
+  checked: z.enum(["screen", "rout"]),
+  largestStandardized: num,
+  /** The model whose residuals were judged (the recommended one, else the standard choice). */
+  model: z.string(),
+  q: z.number(),
+  proposed: z.array(mechanismOutlier),
+  reported: z.enum(["all-points", "without-outliers"]),
+  callWithout: z.string().nullable(),
+  kiWithoutUm: num,
+});
+
+/** Why models beyond the four were (or were not) fitted: the screens' p-values and the [E]/Ki check. */
+const mechanismScreens = z.strictObject({
+  substrateInhibition: z.strictObject({ scoreP: num, ratesFall: z.boolean() }),
+  partial: z.strictObject({ scoreP: num }),
+  tightBinding: z.strictObject({ enzymeUm: num, kiMinUm: num, kiOverEnzyme: num, near: z.boolean() }).nullable(),
+  fitted: z.array(z.strictObject({ family: z.string(), why: z.string() })),
 });
 
 const mechanismFitted = z.strictObject({
@@ -258,19 +303,17 @@ const mechanismFitted = z.strictObject({
   models: z.record(inhibitionModel, modelSummary),
   /** Models beyond the four, fitted when the data call for them. */
   alternatives: z.array(alternativeModel).optional(),
-  /** The model the engine recommends: one of the four, or an alternative's `model`. */
+  /**
+   * The model the engine recommends: one of the four, or an alternative's `model`. Absent when
+   * none is adequate (then the flag "no-adequate-model" says so) and on rows stored before it.
+   */
   recommended: z.string().optional(),
   /** Why that one, in words. */
   recommendedReason: z.string().optional(),
   /** Enzyme concentration the tight-binding check used, µM (null when not known). */
   enzymeUm: num.optional(),
-  outliers: z
-    .strictObject({
-      q: z.number(),
-      proposed: z.array(mechanismOutlier),
-      reported: z.enum(["all-points", "without-outliers"]),
-    })
-    .optional(),
+  outliers: mechanismOutliers.nullable().optional(),
+  screens: mechanismScreens.optional(),
   points: z.array(mechanismPoint),
   backgroundSubtracted: z.boolean(),
   /** Present when the campaign has a measured IC50 of the compound (written after the fit). */
