@@ -66,7 +66,7 @@ export {
 export {
   fitMechanism,
   mechanismDataProblem,
-  OUTLIER_SCREEN,
+  OUTLIER_SCREEN_MARGIN,
   type MechanismPoint,
   type MechanismOptions,
   type MechanismModelFit,

@@ -166,8 +166,9 @@ const NESTED_IN: Partial<Record<CandidateModel, CandidateModel[]>> = {
   "tight-binding-mixed": ["tight-binding-competitive", "tight-binding-uncompetitive", "tight-binding-noncompetitive"],
 };
 
-/** All models nested in `m` (transitive closure of NESTED_IN). */
-function nestedClosure(m: CandidateModel): Set<CandidateModel> {
+/** All models nested in each model (transitive closure of NESTED_IN), computed once. */
+const NESTED_CLOSURE = new Map<CandidateModel, ReadonlySet<CandidateModel>>();
+for (const m of [...INHIBITION_MODELS, ...EXTENDED_MODELS]) {
   const out = new Set<CandidateModel>();
   const stack = [...(NESTED_IN[m] ?? [])];
   while (stack.length) {
@@ -176,7 +177,11 @@ function nestedClosure(m: CandidateModel): Set<CandidateModel> {
     out.add(x);
     stack.push(...(NESTED_IN[x] ?? []));
   }
-  return out;
+  NESTED_CLOSURE.set(m, out);
+}
+
+function nestedClosure(m: CandidateModel): ReadonlySet<CandidateModel> {
+  return NESTED_CLOSURE.get(m)!;
 }
 
 /** Plain number for a sentence: 2–3 significant figures. */
@@ -195,33 +200,42 @@ function kiMin(kic: number | null, kiu: number | null): number | null {
  * Do the rates fall at the top of the uninhibited series? True when the mean at the highest S is
  * more than 2 standard errors below the highest mean at a lower S (SE from the pooled replicate
  * scatter of that series, or the chosen fit's residual SD without replicates) [common practice].
+ * Walks the context's series order, whose first block is the lowest inhibitor level by S.
  */
-function ratesFallAtHighSubstrate(d: MechanismData, fallbackSd: number): boolean {
-  let iMin = Infinity;
-  for (let k = 0; k < d.n; k++) iMin = Math.min(iMin, d.i[k]!);
-  const bySubstrate = new Map<number, number[]>();
-  for (let k = 0; k < d.n; k++) {
-    if (d.i[k] !== iMin || !(d.s[k]! > 0)) continue;
-    const list = bySubstrate.get(d.s[k]!);
-    if (list) list.push(d.y[k]!);
-    else bySubstrate.set(d.s[k]!, [d.y[k]!]);
-  }
-  const levels = [...bySubstrate.keys()].sort((x, y) => x - y);
-  if (levels.length < 3) return false;
+function ratesFallAtHighSubstrate(d: MechanismData, ctx: AdequacyContext, fallbackSd: number): boolean {
+  const order = ctx.order;
+  if (d.n === 0) return false;
+  const iMin = d.i[order[0]!]!;
+  let levels = 0;
   let ss = 0;
   let df = 0;
-  const stats = levels.map((s) => {
-    const v = bySubstrate.get(s)!;
-    const mean = v.reduce((t, x) => t + x, 0) / v.length;
-    for (const x of v) ss += (x - mean) ** 2;
-    df += v.length - 1;
-    return { mean, n: v.length };
-  });
+  let peakMean = -Infinity;
+  let peakN = 0;
+  let lastMean = 0;
+  let lastN = 0;
+  let j = 0;
+  while (j < d.n && d.i[order[j]!] === iMin && !(d.s[order[j]!]! > 0)) j++;
+  while (j < d.n && d.i[order[j]!] === iMin) {
+    const s = d.s[order[j]!]!;
+    let end = j;
+    let sum = 0;
+    while (end < d.n && d.i[order[end]!] === iMin && d.s[order[end]!] === s) sum += d.y[order[end++]!]!;
+    const m = end - j;
+    const mean = sum / m;
+    for (let k = j; k < end; k++) ss += (d.y[order[k]!]! - mean) ** 2;
+    df += m - 1;
+    if (levels > 0 && lastMean > peakMean) {
+      peakMean = lastMean;
+      peakN = lastN;
+    }
+    lastMean = mean;
+    lastN = m;
+    levels++;
+    j = end;
+  }
+  if (levels < 3) return false;
   const sd = df >= 2 ? Math.sqrt(ss / df) : fallbackSd;
-  const top = stats[stats.length - 1]!;
-  let peak = stats[0]!;
-  for (const st of stats.slice(0, -1)) if (st.mean > peak.mean) peak = st;
-  return peak.mean - top.mean > 2 * sd * Math.sqrt(1 / top.n + 1 / peak.n);
+  return peakMean - lastMean > 2 * sd * Math.sqrt(1 / lastN + 1 / peakN);
 }
 
 interface Candidate {
@@ -244,7 +258,7 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   const score = extraTermScreens(best, d, chosen, input.rssFloor);
   const fallbackSd = Math.sqrt(chosen.rss / Math.max(1, n - chosen.nParams));
   // Rates on the fit's scale are only comparable for unweighted fits; weighted fits rely on the score screen.
-  const ratesFall = !input.ctx.weighted && ratesFallAtHighSubstrate(d, fallbackSd);
+  const ratesFall = !input.ctx.weighted && ratesFallAtHighSubstrate(d, input.ctx, fallbackSd);
   const e = input.enzymeConc;
   const chosenKiMin = kiMin(chosen.kic, chosen.kiu);
   const tb =
