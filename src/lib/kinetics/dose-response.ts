@@ -16,6 +16,7 @@
  *    fitted): the compound raises the activity; inactive — the maximum mean % inhibition and
  *    the fitted value at the top concentration both stay below 50 % (no IC50 within the range;
  *    the maximum is reported).
+ *    At least 50 % at every concentration: the IC50 lies below the range → not determined.
  * 5. No dose-dependence (extra-sum-of-squares F-test of the 4PL against a flat line, p ≥ 0.05,
  *    Motulsky & Christopoulos 2004 [from memory]): on a raw signal scale that is "inactive"; on a
  *    percent scale that reached 50 % it is "not determined" (noise, not a curve).
@@ -23,7 +24,8 @@
  *    concentrations, so the data fix only a bracket for the IC50 (reported as `ic50Bracket`),
  *    never a value: not determined (steep curves also point to aggregation or tight binding,
  *    Shoichet, J Med Chem 2006;49:7274 [from memory]).
- * 7. IC50 more than half a decade outside the tested range, or no convergence → not determined.
+ * 7. IC50 more than half a decade outside the tested range, a 95 % CI of the IC50 unbounded or
+ *    wider than 1000-fold, or no convergence → not determined.
  * 8. Otherwise fitted, with the 4PL's flags plus: partial inhibition (fitted inhibition plateau
  *    below 80 % with the plateau reached: the ESI complex may still turn over, science.md),
  *    inadequate fit (lack-of-fit F-test across replicate doses or runs test by dose at p < 0.01,
@@ -123,6 +125,8 @@ export interface CurveAnalysis extends CurveJudgement {
 
 /** Half a decade: how far beyond the tested range an IC50 may be extrapolated (common practice). */
 const RANGE_SLACK_LOG10 = 0.5;
+/** A 95 % CI of the IC50 wider than this ratio (3 decades) leaves the IC50 undetermined (our threshold). */
+const MAX_CI_RATIO = 1000;
 export const STEP_HILL = 5;
 export const INACTIVE_BELOW_PCT = 50;
 export const ACTIVATION_MIN_PCT = 20;
@@ -210,12 +214,13 @@ export function analyseCurve(
   const base = { weighting, outliers: [] as CurveOutlier[], robustScale: null as number | null };
   const c = core.judgement;
   // Outlier search on the all-points fit: when asked; when the judgement is odd (an activator, not
-  // determined, an inadequate fit), since one wild well can cause each of these; or when the cheap
+  // determined, an inadequate or poor fit), since one wild well can cause each of these; or when the cheap
   // screen finds a residual far out. A clean fitted or inactive curve costs only the screen.
   const odd =
     c.outcome === "activator" ||
     (c.outcome === "not-determined" && !c.flags.includes("too-few-points")) ||
-    (c.adequacy !== null && !c.adequacy.adequate);
+    (c.adequacy !== null && !c.adequacy.adequate) ||
+    (c.fit !== null && c.fit.flags.includes("poor-fit"));
   if (core.fit && core.residuals && (options.robust || odd || screenSuggestsOutlier(core.residuals, core.fit))) {
     // Leave-one-out starts only where a wild well may have dragged the whole fit (asked, or an odd
     // judgement); when the screen alone fired, the outlier already stands out of the ordinary fit.
@@ -239,6 +244,12 @@ export function analyseCurve(
     return assemble(without, base, "outliers-excluded", { ...c, basis: "all-points" });
   }
   c.flags = [...c.flags, "outliers-proposed"];
+  if (c.outcome !== "fitted") {
+    const wells = base.outliers.length === 1 ? "the proposed outlier" : `the ${base.outliers.length} proposed outliers`;
+    const ic50 = without.fit?.ic50;
+    const then = without.outcome === "fitted" && ic50 ? `fitted, IC50 ${fmtC(ic50)}` : without.outcome;
+    c.reason = `${c.reason}; without ${wells} the curve is ${then}`;
+  }
   return assemble(c, base, "all-points", { ...without, basis: "outliers-excluded" });
 }
 
@@ -429,6 +440,11 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
       return judged;
     }
   }
+  if (percent && groups.minMean >= INACTIVE_BELOW_PCT) {
+    out.reason = `≥ ${INACTIVE_BELOW_PCT} % inhibition at every concentration: IC50 below the tested range (< ${fmtC(xLow)})`;
+    out.flags.push("ic50-below-range");
+    return judged;
+  }
   if (!fit || !fitted || fit.log10Ic50 === null) {
     out.reason = fit ? "the fit gave no finite curve" : `no fit: ${fitError}`;
     return judged;
@@ -440,9 +456,6 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
     if (!percent) {
       out.outcome = "inactive";
       out.reason = `no significant change of the response with concentration (${test})`;
-    } else if (groups.minMean >= INACTIVE_BELOW_PCT) {
-      out.reason = `≥ ${INACTIVE_BELOW_PCT} % inhibition at every concentration: IC50 below the tested range (< ${fmtC(xLow)})`;
-      out.flags.push("ic50-below-range");
     } else {
       out.reason = `no significant dose-dependence (${test}): the scatter is not a curve`;
     }
@@ -470,6 +483,15 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
     const above = fit.log10Ic50 > lTop;
     out.reason = `IC50 ${above ? "above" : "below"} the tested range (${above ? ">" : "<"} ${fmtC(above ? xTop : xLow)}) by more than half a decade: not determined by these data`;
     out.flags.push(above ? "ic50-above-range" : "ic50-below-range");
+    return judged;
+  }
+  const [lo, hi] = fit.ic50Ci95;
+  if (lo === null || hi === null || hi / lo > MAX_CI_RATIO) {
+    out.reason =
+      lo === null || hi === null
+        ? "the 95 % confidence interval of the IC50 is unbounded: not determined by these data"
+        : `the 95 % confidence interval of the IC50 spans ${fmt(Math.log10(hi / lo))} decades (${fmtC(lo)}–${fmtC(hi)}): not determined by these data`;
+    out.flags.push("ci-wider-than-10-fold");
     return judged;
   }
 
