@@ -1,24 +1,32 @@
 #!/usr/bin/env node
 /**
- * Kinetics engine benchmark: engine vs SciPy, measured side by side in one run.
+ * Kinetics benchmark: the documented command against SciPy, measured side by side in one run.
  *
- * 1. 10,000 ten-point dose-response curves (seeded, invented) written to one CSV; the whole
- *    `analyze dose-response` process (bundled with esbuild into .local/) vs a SciPy curve_fit loop
- *    over the same CSV (bench/scipy_dose_response.py), each a separate process, wall time, median
- *    of --runs (default 5, interleaved); each process's CPU time is reported too. Goal ≥ 10×. SciPy is run plain and again with an analytic Jacobian.
- * 2. Four-model mechanism fits (fitMechanism, bench/engine-mechanism.mjs) vs
- *    scipy.optimize.least_squares (bench/scipy_mechanism.py) on the same data sets: each run a
- *    fresh process on both sides, fitting loop timed (engine cold, JIT compilation included).
- *    Goal ≥ 5×.
- * 3. For the record: in-process 4PL fits per second of the engine's solver and of
+ * 1. 10,000 ten-point dose-response curves (seeded, INVENTED) in one CSV: the whole
+ *    `npm run -s analyze -- dose-response` process (npm's own start-up included) against a SciPy
+ *    curve_fit loop over the same CSV (bench/scipy_dose_response.py), each a fresh process, wall
+ *    time, median of --runs (default 5), interleaved so a burst of load on the shared machine hits
+ *    both sides alike; CPU time of each process too. Goal ≥ 10×. The command runs with
+ *    --weighting=none so both sides fit the same objective; its default (weighting "auto") is
+ *    timed too. SciPy is run plain and with its analytic Jacobian.
+ * 2. 1,000 mechanism data sets (INVENTED) in one batch CSV (compound column): the whole
+ *    `npm run -s analyze -- mechanism` process against scipy.optimize.least_squares over the same
+ *    CSV (bench/scipy_mechanism.py, four models, AICc, F-test, the same choice rule), whole
+ *    process on both sides. Goal ≥ 5×.
+ * 3. What the judgement costs (goal: adequacy and robust steps ≤ 30 % of a fit), in process:
+ *    fitLogistic4 alone against analyseCurve (adequacy, outcome rules, outlier screen), and the
+ *    four-model fit alone against fitMechanism with its adequacy, screens and outlier screen.
+ * 4. Start-up of the command: `npm run -s analyze -- --help`, the launcher alone, tsx, and npm's
+ *    own floor (`npm -v`), median of 15.
+ * 5. For the record: in-process 4PL fits per second of the engine's solver and of
  *    ml-levenberg-marquardt 5.1 (the package the stack suggests), on the same curves.
  *
  * usage: node bench/kinetics.mjs [--curves=10000] [--mechanism=1000] [--runs=5]
- * Prints a markdown table; writes its files under .local/bench/ (git-ignored).
+ * Prints markdown tables; writes its files under .local/bench/ (git-ignored).
  */
 import { spawnSync } from "node:child_process";
 import { mkdirSync, readFileSync, writeFileSync } from "node:fs";
-import { cpus } from "node:os";
+import { cpus, loadavg } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { build } from "esbuild";
@@ -36,26 +44,26 @@ const N_CURVES = arg("curves", 10_000);
 const N_MECH = arg("mechanism", 1_000);
 const RUNS = arg("runs", 5);
 const N_ML = Math.min(2_000, N_CURVES);
+const N_COST = Math.min(2_000, N_CURVES);
 
 function log(msg) {
   process.stderr.write(`[bench] ${msg}\n`);
 }
+const load = () =>
+  loadavg()
+    .map((x) => x.toFixed(1))
+    .join(", ");
+const loadBefore = load();
 
-// --- bundles ---------------------------------------------------------------------------------
-const cliBundle = join(OUT, "analyze.cjs"); // CommonJS: Node loads it a little faster than ESM
+// --- the engine in this process (data generation, in-process timings) -----------------------
 const libBundle = join(OUT, "kinetics-lib.mjs");
 await build({
-  entryPoints: [join(ROOT, "src/cli/analyze.ts")],
-  bundle: true,
-  platform: "node",
-  format: "cjs",
-  target: "node20",
-  outfile: cliBundle,
-  logLevel: "warning",
-});
-await build({
   stdin: {
-    contents: 'export * from "./src/lib/kinetics/index.ts"; export * from "./src/lib/kinetics/testdata/synthetic.ts";',
+    contents: [
+      'export * from "./src/lib/kinetics/index.ts";',
+      'export * from "./src/lib/kinetics/testdata/synthetic.ts";',
+      'export { analyseCurve } from "./src/lib/kinetics/dose-response.ts";',
+    ].join("\n"),
     resolveDir: ROOT,
     loader: "ts",
   },
@@ -70,30 +78,46 @@ await build({
 const lib = await import(pathToFileURL(libBundle).href);
 log(`bundled ${lib.ENGINE_VERSION} with esbuild into .local/bench/`);
 
+// The command's own bundle is built (or found fresh) before anything is timed.
+const warm = spawnSync(process.execPath, [join(ROOT, "scripts/analyze.cjs"), "--help"], { encoding: "utf8" });
+if (warm.status !== 0) throw new Error(`the analyze command does not start: ${warm.stderr}`);
+
 // --- data ------------------------------------------------------------------------------------
-const curves = Array.from({ length: N_CURVES }, (_, k) => lib.generateDoseResponseCurve(1_000_000 + k));
+// The generator's curves fall (% activity) or rise; the command reads % inhibition, so falling
+// curves are written as 100 − y. The IC50 and |Hill| are unchanged by that.
+const curves = Array.from({ length: N_CURVES }, (_, k) => {
+  const c = lib.generateDoseResponseCurve(1_000_000 + k);
+  const falling = c.truth.hill > 0;
+  return falling ? { ...c, response: c.response.map((y) => Number((100 - y).toFixed(4))) } : c;
+});
 const csvPath = join(OUT, `dose-response-${N_CURVES}.csv`);
 const csvLines = ["compound,concentration,response"];
 for (const c of curves) c.concentration.forEach((x, k) => csvLines.push(`${c.id},${x},${c.response[k]}`));
 writeFileSync(csvPath, csvLines.join("\n") + "\n");
 const models = lib.INHIBITION_MODELS;
 const mechSets = Array.from({ length: N_MECH }, (_, k) => lib.generateMechanismDataset(models[k % 4], 2_000_000 + k));
-const mechPath = join(OUT, `mechanism-${N_MECH}.json`);
-writeFileSync(mechPath, JSON.stringify(mechSets.map((d) => ({ id: d.id, points: d.points }))));
-log(`wrote ${N_CURVES} curves (${csvLines.length - 1} rows) and ${N_MECH} mechanism data sets`);
+const mechPath = join(OUT, `mechanism-${N_MECH}.csv`);
+const mechLines = ["compound,substrate,inhibitor,rate"];
+for (const d of mechSets) for (const p of d.points) mechLines.push(`${d.id},${p.substrate},${p.inhibitor},${p.rate}`);
+writeFileSync(mechPath, mechLines.join("\n") + "\n");
+log(
+  `wrote ${N_CURVES} curves (${csvLines.length - 1} rows) and ${N_MECH} mechanism data sets (${mechLines.length - 1} rows)`,
+);
 
 // --- helpers ---------------------------------------------------------------------------------
 /** Runs a command (stdout to outFile) through bench/_timed.py: wall time and the child's CPU time. */
-function timeProcess(cmd, args, outFile) {
+function timeProcess(cmd, args, outFile, env = process.env) {
   const r = spawnSync("python3", [join(ROOT, "bench/_timed.py"), outFile, cmd, ...args], {
     cwd: ROOT,
     encoding: "utf8",
+    env,
   });
   if (r.status !== 0) throw new Error(`${cmd} ${args.join(" ")} failed (${r.status}): ${r.stderr}`);
   return JSON.parse(r.stdout);
 }
 const median = (v) => [...v].sort((a, b) => a - b)[v.length >> 1];
 const fmt = (s) => (s < 10 ? s.toFixed(2) : s.toFixed(1));
+const ms = (s) => `${Math.round(s * 1000)} ms`;
 const versions = spawnSync(
   "python3",
   ["-c", "import scipy, numpy, sys; print(scipy.__version__, numpy.__version__, sys.version.split()[0])"],
@@ -101,72 +125,136 @@ const versions = spawnSync(
 );
 if (versions.status !== 0) throw new Error("python3 with scipy is needed (apt-get install -y python3-scipy)");
 const [scipyVersion, numpyVersion, pythonVersion] = versions.stdout.trim().split(" ");
+const npmVersion = spawnSync("npm", ["-v"], { encoding: "utf8" }).stdout.trim();
+const analyze = (...args) => ["run", "-s", "analyze", "--", ...args];
+const oneThread = { ...process.env, ANALYZE_THREADS: "1" };
 
-// --- 1. whole process, dose-response ---------------------------------------------------------
+// --- 1. dose-response, whole process ---------------------------------------------------------
 const engineOut = join(OUT, "engine-dose-response.json");
 const scipyOut = join(OUT, "scipy-dose-response.json");
-const engineRuns = [];
-const scipyRuns = [];
-const scipyJacRuns = [];
-// Interleaved runs, so a burst of load on the shared machine hits every side alike.
+const dose = { engine: [], auto: [], single: [], scipy: [], scipyJac: [] };
 for (let r = 0; r < RUNS; r++) {
-  engineRuns.push(timeProcess(process.execPath, [cliBundle, "dose-response", csvPath], engineOut));
-  scipyRuns.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), csvPath], scipyOut));
-  // SciPy again with the analytic Jacobian, to show the comparison does not hinge on finite differences.
-  scipyJacRuns.push(
+  dose.engine.push(timeProcess("npm", analyze("dose-response", csvPath, "--weighting=none"), engineOut));
+  dose.scipy.push(timeProcess("python3", [join(ROOT, "bench/scipy_dose_response.py"), csvPath], scipyOut));
+  dose.auto.push(timeProcess("npm", analyze("dose-response", csvPath), join(OUT, "engine-dose-response-auto.json")));
+  dose.scipyJac.push(
     timeProcess(
       "python3",
       [join(ROOT, "bench/scipy_dose_response.py"), "--analytic-jacobian", csvPath],
       join(OUT, "scipy-dose-response-jac.json"),
     ),
   );
+  dose.single.push(
+    timeProcess(
+      "npm",
+      analyze("dose-response", csvPath, "--weighting=none"),
+      join(OUT, "engine-dose-response-1.json"),
+      oneThread,
+    ),
+  );
   log(
-    `dose-response run ${r + 1}: engine ${fmt(engineRuns[r].wall)} s (CPU ${fmt(engineRuns[r].cpu)} s), SciPy ${fmt(scipyRuns[r].wall)} s (CPU ${fmt(scipyRuns[r].cpu)} s), SciPy with analytic Jacobian ${fmt(scipyJacRuns[r].wall)} s`,
+    `dose-response run ${r + 1}: command ${fmt(dose.engine[r].wall)} s (CPU ${fmt(dose.engine[r].cpu)} s; defaults ${fmt(dose.auto[r].wall)} s; one thread ${fmt(dose.single[r].wall)} s), SciPy ${fmt(dose.scipy[r].wall)} s (CPU ${fmt(dose.scipy[r].cpu)} s), SciPy with Jacobian ${fmt(dose.scipyJac[r].wall)} s`,
   );
 }
 const tsxTime = timeProcess(
   join(ROOT, "node_modules/.bin/tsx"),
-  [join(ROOT, "src/cli/analyze.ts"), "dose-response", csvPath],
+  [join(ROOT, "src/cli/analyze.ts"), "dose-response", csvPath, "--weighting=none"],
   join(OUT, "engine-dose-response-tsx.json"),
+  oneThread,
 ).wall;
 const engineRes = JSON.parse(readFileSync(engineOut, "utf8"));
+const singleRes = readFileSync(join(OUT, "engine-dose-response-1.json"), "utf8");
+const sameOutput = singleRes === readFileSync(engineOut, "utf8");
 const scipyRes = JSON.parse(readFileSync(scipyOut, "utf8"));
+const autoRes = JSON.parse(readFileSync(join(OUT, "engine-dose-response-auto.json"), "utf8"));
 let agree = 0;
 engineRes.forEach((e, k) => {
   const s = scipyRes[k];
-  if (e.ic50 !== null && s.ic50 !== null && Math.abs(e.ic50 - s.ic50) / s.ic50 < 0.005) agree++;
+  const ic50 = e.fit?.ic50 ?? null;
+  if (ic50 !== null && s.ic50 !== null && Math.abs(ic50 - s.ic50) / s.ic50 < 0.005) agree++;
 });
-const doseEngine = median(engineRuns.map((t) => t.wall));
-const doseScipy = median(scipyRuns.map((t) => t.wall));
-const doseScipyJac = median(scipyJacRuns.map((t) => t.wall));
-const doseEngineCpu = median(engineRuns.map((t) => t.cpu));
-const doseScipyCpu = median(scipyRuns.map((t) => t.cpu));
+const outcomes = (res) => {
+  const c = {};
+  for (const e of res) c[e.outcome ?? "error"] = (c[e.outcome ?? "error"] ?? 0) + 1;
+  return Object.entries(c)
+    .map(([k, v]) => `${k} ${v}`)
+    .join(", ");
+};
+const relativeChosen = autoRes.filter((e) => e.weighting?.used === "relative").length;
+const wall = (k) => median(dose[k].map((t) => t.wall));
+const cpu = (k) => median(dose[k].map((t) => t.cpu));
 
-// --- 2. mechanism, fitting loop (each run a fresh process on both sides) ----------------------
-function timedFits(cmd, args) {
-  const p = spawnSync(cmd, args, { cwd: ROOT, encoding: "utf8", maxBuffer: 256 * 1024 * 1024 });
-  if (p.status !== 0) throw new Error(`${cmd} ${args.join(" ")} failed: ${p.stderr}`);
-  return JSON.parse(p.stdout);
-}
-const mechEngineTimes = [];
-const mechScipyTimes = [];
-let engineMech = null;
-let scipyMech = null;
+// --- 2. mechanism, whole process -------------------------------------------------------------
+const mech = { engine: [], auto: [], scipy: [] };
+const mechEngineOut = join(OUT, "engine-mechanism.json");
+const mechScipyOut = join(OUT, "scipy-mechanism.json");
 for (let r = 0; r < RUNS; r++) {
-  engineMech = timedFits(process.execPath, [join(ROOT, "bench/engine-mechanism.mjs"), libBundle, mechPath]);
-  scipyMech = timedFits("python3", [join(ROOT, "bench/scipy_mechanism.py"), mechPath]);
-  mechEngineTimes.push(engineMech.seconds);
-  mechScipyTimes.push(scipyMech.seconds);
-  log(`mechanism run ${r + 1}: engine ${fmt(engineMech.seconds)} s, SciPy ${fmt(scipyMech.seconds)} s`);
+  mech.engine.push(timeProcess("npm", analyze("mechanism", mechPath, "--weighting=none"), mechEngineOut));
+  mech.scipy.push(timeProcess("python3", [join(ROOT, "bench/scipy_mechanism.py"), mechPath], mechScipyOut));
+  mech.auto.push(timeProcess("npm", analyze("mechanism", mechPath), join(OUT, "engine-mechanism-auto.json")));
+  log(
+    `mechanism run ${r + 1}: command ${fmt(mech.engine[r].wall)} s (CPU ${fmt(mech.engine[r].cpu)} s; defaults ${fmt(mech.auto[r].wall)} s), SciPy ${fmt(mech.scipy[r].wall)} s (CPU ${fmt(mech.scipy[r].cpu)} s)`,
+  );
 }
-const sameChoice = engineMech.results.filter((e, k) => e.best === scipyMech.results[k].best).length;
-const notWorse = engineMech.results.filter((e, k) =>
-  models.every((m) => e.rss[m] <= scipyMech.results[k].rss[m] * (1 + 1e-6)),
+const engineMech = JSON.parse(readFileSync(mechEngineOut, "utf8"));
+const scipyMech = JSON.parse(readFileSync(mechScipyOut, "utf8"));
+const sameChoice = engineMech.filter((e, k) => e.best === scipyMech[k].best).length;
+const notWorse = engineMech.filter((e, k) =>
+  models.every((m) => e.models[m].rss <= scipyMech[k].rss[m] * (1 + 1e-6)),
 ).length;
-const mechEngine = median(mechEngineTimes);
-const mechScipy = median(mechScipyTimes);
+const labels = (res) => {
+  const c = {};
+  for (const e of res) c[e.label ?? "error"] = (c[e.label ?? "error"] ?? 0) + 1;
+  return Object.entries(c)
+    .map(([k, v]) => `${k} ${v}`)
+    .join(", ");
+};
+const autoMech = JSON.parse(readFileSync(join(OUT, "engine-mechanism-auto.json"), "utf8"));
+const mWall = (k) => median(mech[k].map((t) => t.wall));
+const mCpu = (k) => median(mech[k].map((t) => t.cpu));
 
-// --- 3. in-process 4PL solvers ----------------------------------------------------------------
+// --- 3. what the judgement costs, in process -------------------------------------------------
+function perItem(fn, items, repeat = 3) {
+  for (const it of items.slice(0, 200)) fn(it); // warm-up
+  const times = [];
+  for (let r = 0; r < repeat; r++) {
+    const t0 = performance.now();
+    for (const it of items) fn(it);
+    times.push((performance.now() - t0) / items.length);
+  }
+  return median(times); // ms per item
+}
+const costCurves = curves.slice(0, N_COST);
+const tFit = perItem((c) => lib.fitLogistic4(c.concentration, c.response), costCurves);
+const tCurve = perItem((c) => lib.analyseCurve(c.concentration, c.response, { weighting: "none" }), costCurves);
+const tCurveAuto = perItem((c) => lib.analyseCurve(c.concentration, c.response), costCurves);
+const costSets = mechSets.slice(0, Math.min(500, N_MECH));
+const bare = { weighting: "none", extendedModels: "none", outliers: "never" };
+const tMechBare = perItem((d) => lib.fitMechanism(d.points, bare), costSets);
+const tMech = perItem((d) => lib.fitMechanism(d.points, { weighting: "none" }), costSets);
+const tMechAuto = perItem((d) => lib.fitMechanism(d.points), costSets);
+const pct = (a, b) => `${a >= b ? "+" : "−"}${Math.abs(100 * (a / b - 1)).toFixed(0)} %`;
+
+// --- 4. start-up -----------------------------------------------------------------------------
+function startup(cmd, args, n = 15) {
+  const t = [];
+  for (let k = 0; k < n; k++) {
+    const t0 = performance.now();
+    const r = spawnSync(cmd, args, { cwd: ROOT, stdio: "ignore" });
+    if (r.status !== 0) throw new Error(`${cmd} ${args.join(" ")} failed`);
+    t.push((performance.now() - t0) / 1000);
+  }
+  return median(t);
+}
+const start = {
+  npm: startup("npm", analyze("--help")),
+  launcher: startup(process.execPath, [join(ROOT, "scripts/analyze.cjs"), "--help"]),
+  node: startup(process.execPath, ["-e", ""]),
+  npmFloor: startup("npm", ["-v"]),
+  tsx: startup(join(ROOT, "node_modules/.bin/tsx"), [join(ROOT, "src/cli/analyze.ts"), "--help"], 5),
+};
+
+// --- 5. in-process 4PL solvers ----------------------------------------------------------------
 const sub = curves.slice(0, N_ML);
 const fourPlWarm = curves.slice(0, 200);
 for (const c of fourPlWarm) lib.fitLogistic4(c.concentration, c.response); // both solvers get a warm-up pass
@@ -199,23 +287,43 @@ const mlAgree = mlFits.filter(
 ).length;
 
 // --- report ----------------------------------------------------------------------------------
-const cpu = cpus()[0]?.model ?? "unknown CPU";
+const cpuName = cpus()[0]?.model ?? "unknown CPU";
+const n = (x) => x.toLocaleString("en-US");
 const lines = [
-  `Measured ${new Date().toISOString().slice(0, 10)} on ${cpus().length} × ${cpu}; Node ${process.versions.node}, Python ${pythonVersion}, SciPy ${scipyVersion}, NumPy ${numpyVersion}; median of ${RUNS} runs.`,
+  `Measured ${new Date().toISOString().slice(0, 10)} on ${cpus().length} × ${cpuName}; Node ${process.versions.node}, npm ${npmVersion}, Python ${pythonVersion}, SciPy ${scipyVersion}, NumPy ${numpyVersion}; median of ${RUNS} runs; load average ${loadBefore} before, ${load()} after.`,
   "",
-  "| task | Inhibitrack engine | SciPy | ratio | goal |",
+  "| task (whole process, wall time) | `npm run -s analyze` | SciPy | ratio | goal |",
   "|---|---:|---:|---:|---:|",
-  `| ${N_CURVES.toLocaleString("en-US")} ten-point dose-response curves, whole process (\`analyze dose-response\` bundled vs \`curve_fit\` loop over the same CSV), wall time | ${fmt(doseEngine)} s | ${fmt(doseScipy)} s | **${(doseScipy / doseEngine).toFixed(1)}×** | ≥ 10× |`,
-  `| the same, CPU time of each process | ${fmt(doseEngineCpu)} s | ${fmt(doseScipyCpu)} s | ${(doseScipyCpu / doseEngineCpu).toFixed(1)}× | — |`,
-  `| the same, SciPy given the analytic Jacobian (\`curve_fit(..., jac=...)\`) | ${fmt(doseEngine)} s | ${fmt(doseScipyJac)} s | ${(doseScipyJac / doseEngine).toFixed(1)}× | — |`,
-  `| ${N_MECH.toLocaleString("en-US")} mechanism data sets × 4 models (fitting loop in a fresh process, \`fitMechanism\` vs \`least_squares\` with analytic Jacobian) | ${fmt(mechEngine)} s | ${fmt(mechScipy)} s | **${(mechScipy / mechEngine).toFixed(1)}×** | ≥ 5× |`,
+  `| ${n(N_CURVES)} ten-point dose-response curves, \`dose-response --weighting=none\` vs \`curve_fit\` loop over the same CSV | ${fmt(wall("engine"))} s | ${fmt(wall("scipy"))} s | **${(wall("scipy") / wall("engine")).toFixed(1)}×** | ≥ 10× |`,
+  `| the same, CPU time of each process | ${fmt(cpu("engine"))} s | ${fmt(cpu("scipy"))} s | ${(cpu("scipy") / cpu("engine")).toFixed(1)}× | — |`,
+  `| the same, SciPy given the analytic Jacobian | ${fmt(wall("engine"))} s | ${fmt(wall("scipyJac"))} s | ${(wall("scipyJac") / wall("engine")).toFixed(1)}× | — |`,
+  `| the same with the command's defaults (weighting auto) | ${fmt(wall("auto"))} s | ${fmt(wall("scipy"))} s | ${(wall("scipy") / wall("auto")).toFixed(1)}× | — |`,
+  `| the same on one thread (\`ANALYZE_THREADS=1\`) | ${fmt(wall("single"))} s | ${fmt(wall("scipy"))} s | ${(wall("scipy") / wall("single")).toFixed(1)}× | — |`,
+  `| ${n(N_MECH)} mechanism data sets, \`mechanism --weighting=none\` on one batch CSV vs \`least_squares\` (4 models, analytic Jacobian) over the same CSV | ${fmt(mWall("engine"))} s | ${fmt(mWall("scipy"))} s | **${(mWall("scipy") / mWall("engine")).toFixed(1)}×** | ≥ 5× |`,
+  `| the same, CPU time of each process | ${fmt(mCpu("engine"))} s | ${fmt(mCpu("scipy"))} s | ${(mCpu("scipy") / mCpu("engine")).toFixed(1)}× | — |`,
+  `| the same with the command's defaults (weighting auto) | ${fmt(mWall("auto"))} s | ${fmt(mWall("scipy"))} s | ${(mWall("scipy") / mWall("auto")).toFixed(1)}× | — |`,
+  "",
+  "| what the judgement costs, in process (per data set) | fit alone | with the judgement | extra | goal |",
+  "|---|---:|---:|---:|---:|",
+  `| dose-response: \`fitLogistic4\` vs \`analyseCurve\` (outcome rules, adequacy, outlier screen), weighting none | ${(1000 * tFit).toFixed(0)} µs | ${(1000 * tCurve).toFixed(0)} µs | ${pct(tCurve, tFit)} | ≤ +30 % |`,
+  `| the same with weighting auto (replicate test; relative fits where chosen) | ${(1000 * tFit).toFixed(0)} µs | ${(1000 * tCurveAuto).toFixed(0)} µs | ${pct(tCurveAuto, tFit)} | — |`,
+  `| mechanism: the four models alone vs \`fitMechanism\` (adequacy, screens, extended models when called for, outlier screen), weighting none | ${(1000 * tMechBare).toFixed(0)} µs | ${(1000 * tMech).toFixed(0)} µs | ${pct(tMech, tMechBare)} | ≤ +30 % |`,
+  `| the same with weighting auto | ${(1000 * tMechBare).toFixed(0)} µs | ${(1000 * tMechAuto).toFixed(0)} µs | ${pct(tMechAuto, tMechBare)} | — |`,
+  "",
+  "| start-up, median of 15 | wall time |",
+  "|---|---:|",
+  `| \`npm run -s analyze -- --help\` | ${ms(start.npm)} |`,
+  `| \`node scripts/analyze.cjs --help\` (the launcher and the prebuilt bundle, without npm) | ${ms(start.launcher)} |`,
+  `| \`node -e ""\` (Node alone) | ${ms(start.node)} |`,
+  `| \`npm -v\` (npm alone) | ${ms(start.npmFloor)} |`,
+  `| \`tsx src/cli/analyze.ts --help\` (what \`npm run analyze\` ran before, median of 5) | ${ms(start.tsx)} |`,
   "",
   "| 4PL solver, in process | fits per second | IC50 within 0.5 % of the engine |",
   "|---|---:|---:|",
-  `| Inhibitrack engine (own Levenberg–Marquardt, analytic Jacobian, with SEs and CI) | ${Math.round(oursPerSecond).toLocaleString("en-US")} | — |`,
-  `| ml-levenberg-marquardt 5.1.0 (defaults, numerical Jacobian, no SEs) | ${Math.round(mlPerSecond).toLocaleString("en-US")} | ${((100 * mlAgree) / N_ML).toFixed(1)} % |`,
-  `| SciPy \`curve_fit\` (from the first table, incl. start-up and CSV) | ${Math.round(N_CURVES / doseScipy).toLocaleString("en-US")} | ${((100 * agree) / N_CURVES).toFixed(1)} % |`,
+  `| Inhibitrack engine (own Levenberg–Marquardt, analytic Jacobian, with SEs and CI) | ${n(Math.round(oursPerSecond))} | — |`,
+  `| ml-levenberg-marquardt 5.1.0 (defaults, numerical Jacobian, no SEs) | ${n(Math.round(mlPerSecond))} | ${((100 * mlAgree) / N_ML).toFixed(1)} % |`,
+  `| SciPy \`curve_fit\` (from the first table, incl. start-up and CSV) | ${n(Math.round(N_CURVES / wall("scipy")))} | ${((100 * agree) / N_CURVES).toFixed(1)} % |`,
   "",
-  `Checks in the same run: the engine's and SciPy's IC50 agree within 0.5 % for ${agree} of ${N_CURVES} curves; the same mechanism is chosen for ${sameChoice} of ${N_MECH} data sets, and the engine's RSS is no worse than SciPy's for every model in ${notWorse} of ${N_MECH}. Through tsx (\`npm run analyze\`, no bundle) the dose-response command took ${fmt(tsxTime)} s.`,
+  `Checks in the same run: outcomes with --weighting=none: ${outcomes(engineRes)}; the fitted 4PL's IC50 agrees with SciPy's within 0.5 % for ${agree} of ${N_CURVES} curves; with the defaults: ${outcomes(autoRes)}, relative weighting chosen for ${relativeChosen}. Two threads and one thread print the same bytes: ${sameOutput ? "yes" : "NO"}. Mechanism: the same standard model is chosen for ${sameChoice} of ${N_MECH} data sets, and the engine's RSS is no worse than SciPy's for every model in ${notWorse} of ${N_MECH}; labels with --weighting=none: ${labels(engineMech)}; with the defaults: ${labels(autoMech)}. Through tsx (no bundle, one thread) the dose-response command took ${fmt(tsxTime)} s.`,
 ];
 process.stdout.write(lines.join("\n") + "\n");

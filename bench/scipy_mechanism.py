@@ -1,14 +1,15 @@
 #!/usr/bin/env python3
-"""The SciPy side of the mechanism benchmark: for each data set, the four inhibition models are
-fitted with scipy.optimize.least_squares (trf, bounds a, b >= 0, analytic Jacobian), then AICc,
-the F-tests against mixed and the same choice rule as the engine. Only the fitting loop is timed
-(after reading the JSON), like the engine's side.
+"""The SciPy side of the mechanism benchmark: reads the same batch CSV that
+`analyze mechanism` reads (compound,substrate,inhibitor,rate), fits the four inhibition models of
+each compound with scipy.optimize.least_squares (trf, bounds a, b >= 0, analytic Jacobian), then
+AICc, the F-test against mixed and the same choice rule as the engine, and prints one JSON array
+(compound, best, rss per model). The benchmark times the whole process, as it does the command.
 
-usage: python3 bench/scipy_mechanism.py FILE.json  -> prints {"seconds": s, "results": [...]}
+usage: python3 bench/scipy_mechanism.py FILE.csv > out.json
 """
+import csv
 import json
 import sys
-import time
 import warnings
 
 import numpy as np
@@ -57,15 +58,17 @@ def fit(model, s, i, y, x0):
 
 
 def main():
-    with open(sys.argv[1]) as fh:
-        datasets = json.load(fh)
+    groups = {}
+    with open(sys.argv[1], newline="") as fh:
+        for row in csv.DictReader(fh):
+            g = groups.setdefault(row["compound"], ([], [], []))
+            g[0].append(float(row["substrate"]))
+            g[1].append(float(row["inhibitor"]))
+            g[2].append(float(row["rate"]))
     warnings.simplefilter("ignore")
-    t0 = time.perf_counter()
     results = []
-    for ds in datasets:
-        s = np.array([p["substrate"] for p in ds["points"]], dtype=float)
-        i = np.array([p["inhibitor"] for p in ds["points"]], dtype=float)
-        y = np.array([p["rate"] for p in ds["points"]], dtype=float)
+    for name, (ss, ii, yy) in groups.items():
+        s, i, y = np.array(ss), np.array(ii), np.array(yy)
         n = len(y)
         k0 = 1.0 / float(np.median(i[i > 0]))
         x0 = np.array([float(np.max(y)), float(np.median(s[s > 0])), k0, k0])
@@ -80,9 +83,8 @@ def main():
             f = max(0.0, (rss[simple] - rss["mixed"]) / (rss["mixed"] / (n - 4)))
             if not stats.f.sf(f, 1, n - 4) < 0.05:
                 best = simple
-        results.append({"id": ds["id"], "best": best, "rss": rss})
-    seconds = time.perf_counter() - t0
-    json.dump({"seconds": seconds, "results": results}, sys.stdout)
+        results.append({"compound": name, "best": best, "rss": rss})
+    sys.stdout.write("[\n" + ",\n".join(json.dumps(r) for r in results) + "\n]\n")
 
 
 if __name__ == "__main__":

@@ -15,7 +15,7 @@
  * documented in docs/science.md. Results are for research use and need review by a qualified
  * scientist.
  */
-import { readFileSync } from "node:fs";
+import { readFileSync, statSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { Worker, isMainThread, parentPort, workerData } from "node:worker_threads";
 import { ENGINE_VERSION, TableInputError, readDoseResponseCsv, readMechanismCsv } from "../lib/kinetics/index";
@@ -197,52 +197,45 @@ function runJobs(work: Jobs, options: CommandOptions, indent: number | undefined
   return work.jobs.map((j) => JSON.stringify(mechanismJobView(j, options), null, indent));
 }
 
-/** Rough cost of a job in fitted points (a mechanism point costs about eight dose-response points). */
-const jobWeight = (work: Jobs, k: number): number =>
-  work.command === "dose-response" ? work.jobs[k]!.x.length : 8 * work.jobs[k]!.points.length;
+/**
+ * Rough cost of a job in microseconds on this machine's cores (measured with bench/kinetics.mjs:
+ * about 5 µs per dose-response point and 25 µs per mechanism point, judgement included).
+ */
+const jobCost = (work: Jobs, k: number): number =>
+  work.command === "dose-response" ? 5 * work.jobs[k]!.x.length : 25 * work.jobs[k]!.points.length;
 
 /**
- * Below this many weighted points a batch runs on the main thread: a worker costs a new V8
- * isolate, the bundle loaded again and its compiler warming up (about 50–80 ms here), which only
- * pays off for batches that take several times that.
+ * A batch expected to take less than this (µs) runs on the main thread alone: a worker costs a
+ * new V8 isolate, the bundle loaded again and its compiler warming up (about 50–100 ms here).
  */
-export const PARALLEL_MIN_WEIGHT = 20_000;
+export const PARALLEL_MIN_COST_US = 250_000;
+/** Files smaller than this are not worth starting workers for before they are read. */
+const PARALLEL_MIN_BYTES = 400_000;
 
-function threadCount(work: Jobs): number {
+/** Threads to use: ANALYZE_THREADS when set (tests, benchmarks), else one per core. */
+function threadsWanted(): number {
   const env = Number(process.env.ANALYZE_THREADS);
-  const cores = Number.isInteger(env) && env > 0 ? env : availableParallelism();
-  if (cores <= 1 || work.jobs.length < 2) return 1;
-  // Workers need the prebuilt bundle (the file itself must be plain JavaScript).
-  if (typeof __filename !== "string" || !__filename.endsWith(".cjs")) return 1;
-  let total = 0;
-  for (let k = 0; k < work.jobs.length; k++) total += jobWeight(work, k);
-  if (total < PARALLEL_MIN_WEIGHT && !(Number.isInteger(env) && env > 1)) return 1;
-  return Math.min(cores, work.jobs.length);
+  if (Number.isInteger(env) && env > 0) return env;
+  return availableParallelism();
 }
 
-/** Contiguous slices of about equal weight, so that concatenating the outputs keeps input order. */
+/** Contiguous slices of about equal cost, so that concatenating the outputs keeps input order. */
 function slices(work: Jobs, parts: number): [number, number][] {
   const n = work.jobs.length;
   let total = 0;
-  for (let k = 0; k < n; k++) total += jobWeight(work, k);
+  for (let k = 0; k < n; k++) total += jobCost(work, k);
   const out: [number, number][] = [];
   let start = 0;
   let acc = 0;
   for (let k = 0; k < n && out.length < parts - 1; k++) {
-    acc += jobWeight(work, k);
+    acc += jobCost(work, k);
     if (acc >= (total * (out.length + 1)) / parts) {
       out.push([start, k + 1]);
       start = k + 1;
     }
   }
   out.push([start, n]);
-  return out.filter(([a, b]) => b > a);
-}
-
-interface WorkerInput {
-  work: Jobs;
-  options: CommandOptions;
-  indent: number | undefined;
+  return out;
 }
 
 function slice(work: Jobs, [a, b]: [number, number]): Jobs {
@@ -251,35 +244,48 @@ function slice(work: Jobs, [a, b]: [number, number]): Jobs {
     : { command: work.command, jobs: work.jobs.slice(a, b) };
 }
 
-/** The jobs' JSON texts in input order, the first slice on this thread and the rest on workers. */
-async function runParallel(work: Jobs, options: CommandOptions, indent: number | undefined): Promise<string[]> {
-  const threads = threadCount(work);
-  if (threads === 1) return runJobs(work, options, indent);
-  const parts = slices(work, threads);
-  const workers = parts.slice(1).map(
-    (part) =>
-      new Promise<string[]>((resolve, reject) => {
-        const input: WorkerInput = { work: slice(work, part), options, indent };
-        const w = new Worker(__filename, { workerData: input });
-        w.once("message", (texts: string[]) => resolve(texts));
+function totalCost(work: Jobs): number {
+  let total = 0;
+  for (let k = 0; k < work.jobs.length; k++) total += jobCost(work, k);
+  return total;
+}
+
+/** What a worker is given: the same argv as the command, and which of `parts` slices is its own. */
+interface WorkerInput {
+  argv: string[];
+  part: number;
+  parts: number;
+}
+
+/**
+ * Workers started before the file is read: each reads and parses the file itself (in parallel
+ * with this thread, which parses it too) and analyses its own slice, so their start-up overlaps
+ * the reading. Slices are cut the same way on every thread, from the same parsed jobs.
+ */
+function startWorkers(argv: string[], parts: number): { results: Promise<string[] | null>[]; stop: () => void } {
+  const workers = Array.from(
+    { length: parts - 1 },
+    (_, k) => new Worker(__filename, { workerData: { argv, part: k + 1, parts } satisfies WorkerInput }),
+  );
+  const results = workers.map(
+    (w) =>
+      new Promise<string[] | null>((resolve, reject) => {
+        w.once("message", (texts: string[] | null) => resolve(texts));
         w.once("error", reject);
-        w.once("exit", (code) => {
-          if (code !== 0) reject(new Error(`analysis worker stopped with code ${code}`));
-        });
+        w.once("exit", (code) => (code === 0 ? resolve(null) : reject(new Error(`analysis worker stopped (${code})`))));
       }),
   );
-  const first = runJobs(slice(work, parts[0]!), options, indent);
-  const rest = await Promise.all(workers);
-  return first.concat(...rest);
+  // A worker that is not needed (a small batch, bad input) is stopped without a word.
+  for (const r of results) r.catch(() => undefined);
+  return { results, stop: () => workers.forEach((w) => void w.terminate()) };
 }
 
 // ---------------------------------------------------------------- the command
 
+type Prepared = { usage: string } | { work: Jobs; options: CommandOptions; batch: boolean; file: string };
+
 /** Parses argv (without node and script) and reads the file: the work to do, or the usage text. */
-function prepare(
-  argv: readonly string[],
-  readFile: (path: string) => string,
-): { usage: string } | { work: Jobs; options: CommandOptions; batch: boolean; file: string } {
+function prepare(argv: readonly string[], readFile: (path: string) => string): Prepared {
   const [command, file, ...rest] = argv;
   if (command === undefined || command === "--help" || command === "-h" || command === "help") return { usage: USAGE };
   if (command !== "mechanism" && command !== "dose-response")
@@ -302,9 +308,8 @@ function prepare(
   }
 }
 
-/** Runs the command on argv (without node and script) and returns stdout; throws on bad input. */
-export async function runAnalyze(argv: readonly string[], readFile: (path: string) => string): Promise<string> {
-  const p = prepare(argv, readFile);
+/** The output of a prepared command; `threads` > 1 when workers were started and will share the batch. */
+async function output(p: Prepared, threads: number, workers: Promise<string[] | null>[]): Promise<string> {
   if ("usage" in p) return p.usage;
   if (!p.batch) {
     try {
@@ -315,23 +320,75 @@ export async function runAnalyze(argv: readonly string[], readFile: (path: strin
       throw e;
     }
   }
-  const texts = await runParallel(p.work, p.options, undefined);
-  return "[\n" + texts.join(",\n") + "\n]\n";
+  const forced = Number(process.env.ANALYZE_THREADS) > 1;
+  if (threads > 1 && (forced || totalCost(p.work) >= PARALLEL_MIN_COST_US)) {
+    const own = runJobs(slice(p.work, slices(p.work, threads)[0]!), p.options, undefined);
+    const rest = await Promise.all(workers);
+    if (rest.every((r) => r !== null)) return "[\n" + own.concat(...rest).join(",\n") + "\n]\n";
+  }
+  return "[\n" + runJobs(p.work, p.options, undefined).join(",\n") + "\n]\n";
+}
+
+/** Runs the command on argv (without node and script) and returns stdout; throws on bad input. */
+export async function runAnalyze(argv: readonly string[], readFile: (path: string) => string): Promise<string> {
+  return output(prepare(argv, readFile), 1, []);
 }
 
 async function main(): Promise<void> {
+  const argv = process.argv.slice(2);
+  let workers: ReturnType<typeof startWorkers> = { results: [], stop: () => undefined };
+  let threads = 1;
+  // Workers need the prebuilt bundle: this file must be plain JavaScript to be loaded by one.
+  const bundled = typeof __filename === "string" && __filename.endsWith(".cjs");
+  const file = argv[1];
+  if (bundled && file && (argv[0] === "dose-response" || argv[0] === "mechanism") && threadsWanted() > 1) {
+    let size = 0;
+    try {
+      size = statSync(file).size;
+    } catch {
+      // unreadable: prepare() says so
+    }
+    if (size >= PARALLEL_MIN_BYTES || Number(process.env.ANALYZE_THREADS) > 1) {
+      threads = threadsWanted();
+      workers = startWorkers(argv, threads);
+    }
+  }
   try {
-    process.stdout.write(await runAnalyze(process.argv.slice(2), (p) => readFileSync(p, "utf8")));
+    process.stdout.write(
+      await output(
+        prepare(argv, (p) => readFileSync(p, "utf8")),
+        threads,
+        workers.results,
+      ),
+    );
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
     process.stderr.write(`error: ${message.replace(/\s*\n\s*/g, " ")}\n`);
     // Bad input and usage errors exit 2; an unexpected failure exits 1.
     process.exitCode = e instanceof UsageError || e instanceof RangeError ? 2 : 1;
+  } finally {
+    // Workers still parsing a file that turned out small or bad are not waited for.
+    workers.stop();
   }
 }
 
-if (isMainThread) void main();
-else {
-  const input = workerData as WorkerInput;
-  parentPort!.postMessage(runJobs(input.work, input.options, input.indent));
+/** A worker: the same file parsed the same way, its own slice analysed. */
+function workerMain(input: WorkerInput): void {
+  let texts: string[] | null = null;
+  try {
+    const p = prepare(input.argv, (f) => readFileSync(f, "utf8"));
+    if (!("usage" in p) && p.batch) {
+      const forced = Number(process.env.ANALYZE_THREADS) > 1;
+      if (forced || totalCost(p.work) >= PARALLEL_MIN_COST_US) {
+        const part = slices(p.work, input.parts)[input.part]!;
+        texts = runJobs(slice(p.work, part), p.options, undefined);
+      }
+    }
+  } catch {
+    texts = null; // the main thread reports bad input
+  }
+  parentPort!.postMessage(texts);
 }
+
+if (isMainThread) void main();
+else workerMain(workerData as WorkerInput);
