@@ -127,6 +127,17 @@ describe("mechanism choice on exact data (common practice: the generating model 
     });
   }
 
+  it("exact data are adequate, need no model beyond the four and carry no flags", () => {
+    for (const model of INHIBITION_MODELS) {
+      const r = fitMechanism(exactMatrix(model, 10, model === "mixed" ? 40 : 10));
+      expect(r.models[model].adequacy.adequate).toBe(true);
+      expect(r.alternatives).toHaveLength(0);
+      expect(r.flags).toEqual([]);
+      expect(r.recommended).toMatchObject({ model, family: "standard", label: "clear" });
+      expect(r.weightingChoice).toMatchObject({ requested: "none", used: "none", test: null });
+    }
+  });
+
   it("rows with substrate 0 are accepted and do not change the parameters", () => {
     const plain = fitMechanism(exactMatrix("competitive"));
     const zeros = fitMechanism(exactMatrix("competitive", 10, 10, true));

@@ -16,7 +16,7 @@
  *    them (the one with the lowest RSS has the largest p). Otherwise that best simpler model is
  *    kept. The F-test at the a = 0 or b = 0 boundary is approximate (nesting on a boundary).
  * 4. Label "ambiguous" when any other model's AICc is less than 2 above the chosen one's (or
- *    below it), or when mixed is chosen with an F-test p of CLEAR_F_ALPHA (0.01) or more, else
+ *    below it), or when mixed is chosen with an F-test p of CLEAR_F_ALPHA (0.001) or more, else
  *    "clear" (a p just under 0.05 is one false "mixed" call in twenty from a simpler truth).
  * Ties (equal AICc, as when the data show no inhibition) resolve in the order competitive,
  * uncompetitive, noncompetitive, mixed.

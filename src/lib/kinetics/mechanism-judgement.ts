@@ -77,11 +77,12 @@ export const TIGHT_BINDING_RATIO = 10;
 /** Nested-model preference: the simpler model stays unless the F-test rejects it at this level. */
 export const NESTED_F_ALPHA = 0.05;
 /**
- * A recommendation that needs a more complex model to beat a simpler nested one is "clear" only
- * when the F-test rejects the simpler model at this level (else "ambiguous"): at 0.05 one
- * mechanism study in twenty from a simpler truth would be called clearly wrong.
+ * A call that needs a more complex model to beat a simpler nested one is "clear" only when the
+ * F-test rejects the simpler model at this level (else "ambiguous"). Measured on 2000 invented
+ * matrices from the simpler models (testdata/synthetic.ts): at 0.01, 6 were called "mixed, clear";
+ * at 0.001, none were; true mixed matrices stay clear in 90 % (95 % at 0.01).
  */
-export const CLEAR_F_ALPHA = 0.01;
+export const CLEAR_F_ALPHA = 0.001;
 
 /** What the judgement needs from the standard fit of one model. */
 export interface StandardModelView {
