@@ -390,7 +390,7 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   }
 
   // --- sentences ---
-  for (const a of alternatives) a.sentence = sentence(a, input, recommended?.model === a.model, byModel, fTest);
+  for (const a of alternatives) a.sentence = sentence(a, input, recommended, byModel, fTest);
 
   // --- label and flags ---
   let label: MechanismLabel = input.label;
@@ -467,7 +467,7 @@ function quotedKi(kic: number | null, kiu: number | null): number | null {
 function sentence(
   a: ExtendedModelFit,
   input: JudgementInput,
-  isRecommended: boolean,
+  recommended: MechanismRecommendation | null,
   byModel: Map<CandidateModel, Candidate>,
   fTest: (s: Candidate, c: Candidate) => { p: number },
 ): string {
@@ -475,24 +475,35 @@ function sentence(
   const stdKi = quotedKi(chosen.kic, chosen.kiu);
   const ki = quotedKi(a.kic.value, a.kiu.value);
   const self = byModel.get(a.model)!;
-  const nestedStd = byModel.get(a.mechanism)!;
-  const fp = a.family === "tight-binding" ? null : fTest(nestedStd, self).p;
-  const adequacyNote = a.adequacy.adequate ? "" : " It is itself inadequate (" + a.adequacy.reasons.join("; ") + ").";
-  if (a.family === "partial") {
-    const left = a.residualActivity;
-    const levels = left !== null ? `about ${num(100 * (1 - Math.min(1, Math.max(0, left))))} %` : "below 100 %";
-    if (isRecommended)
-      return `Inhibition levels off at ${levels} (at S = Km): a partial inhibitor whose enzyme–substrate–inhibitor complex still turns over (β ${num(a.beta?.value)}); Ki ${num(ki, 3)} from this model; Ki from the four standard models would be misleading (the ${input.best} fit gives ${num(stdKi, 3)}).`;
-    return `Partial inhibition (${a.model}, levelling off at ${levels}) does not fit better than ${a.mechanism} enough to prefer it (F-test p ${num(fp)}): inhibition appears to go to completion.${adequacyNote}`;
-  }
-  if (a.family === "substrate-inhibition") {
-    if (isRecommended)
+  const fp = a.family === "tight-binding" ? null : fTest(byModel.get(a.mechanism)!, self).p;
+  if (recommended?.model === a.model) {
+    if (a.family === "partial")
+      return `Inhibition levels off at ${levelsOff(a)} (at S = Km): a partial inhibitor whose enzyme–substrate–inhibitor complex still turns over (β ${num(a.beta?.value)}); Ki ${num(ki, 3)} from this model; Ki from the four standard models would be misleading (the ${input.best} fit gives ${num(stdKi, 3)}).`;
+    if (a.family === "substrate-inhibition")
       return `Rates fall at high substrate (Ksi about ${num(a.ksi?.value)}): the enzyme is substrate-inhibited; allowing for it the inhibitor is ${a.mechanism} with Ki ${num(ki, 3)}, where the four standard models call it ${input.best}.`;
-    return `Substrate inhibition (${a.model}, Ksi ${num(a.ksi?.value)}) does not fit better than ${a.mechanism} enough to prefer it (F-test p ${num(fp)}).${adequacyNote}`;
-  }
-  if (isRecommended)
     return `Ki is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${num(input.enzymeConc)}): a tight binder that depletes the free inhibitor; allowing for that the inhibitor is ${a.mechanism} with Ki ${num(ki, 3)}, where the four standard models call it ${input.best} with Ki ${num(stdKi, 3)}.`;
-  return `The depletion-aware ${a.mechanism} fit (Ki ${num(ki, 3)} at [E] ${num(input.enzymeConc)}) is not preferred (ΔAICc ${num(a.deltaAicc)}).${adequacyNote}`;
+  }
+  const what =
+    a.family === "partial"
+      ? `Partial inhibition (${a.model}, levelling off at ${levelsOff(a)})`
+      : a.family === "substrate-inhibition"
+        ? `Substrate inhibition (${a.model}, ${a.ksi?.value ? `Ksi ${num(a.ksi.value)}` : "no finite Ksi"})`
+        : `The depletion-aware ${a.mechanism} fit (Ki ${num(ki, 3)} at [E] ${num(input.enzymeConc)})`;
+  if (!a.adequacy.adequate) return `${what} is itself inadequate (${a.adequacy.reasons.join("; ")}).`;
+  if (fp !== null && !(fp < NESTED_F_ALPHA)) {
+    const meaning =
+      a.family === "partial" ? ": inhibition appears to go to completion" : ": no substrate inhibition is evident";
+    return `${what} does not fit better than ${a.mechanism} enough to prefer it (F-test p ${num(fp)})${meaning}.`;
+  }
+  const better = fp !== null ? ` fits better than ${a.mechanism} (F-test p ${num(fp)}), but` : "";
+  const other = recommended ? `${recommended.model} is preferred` : "no model is adequate";
+  return `${what}${better} is not the recommendation: ${other} (ΔAICc of this model ${num(a.deltaAicc)}).`;
+}
+
+/** "about 60 %": the most inhibition a partial model allows at S = Km. */
+function levelsOff(a: ExtendedModelFit): string {
+  const left = a.residualActivity;
+  return left !== null ? `about ${num(100 * (1 - Math.min(1, Math.max(0, left))))} %` : "below 100 %";
 }
 
 /** Every extended model name, for consumers that enumerate them. */
