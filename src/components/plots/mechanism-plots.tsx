@@ -2,6 +2,7 @@
 import { useMemo } from "react";
 import { inhibitedRate, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { Plot, baseConfig, baseLayout } from "./plot";
+import { clickedKey, overlayTraces, type PlotMarks, type PlotWell } from "./marks";
 
 export type MechanismModelView = {
   vmax: number | null;
@@ -17,57 +18,112 @@ function levels(points: [number, number, number][]) {
   return [...new Set(points.map((p) => p[1]))].sort((a, b) => a - b);
 }
 
-/** Initial rate against [S] for each [I], with the chosen model's global-fit curves. */
+/** The curve of `model` with `fit`'s constants at inhibitor concentration i, on the grid of [S]. */
+function modelCurve(model: InhibitionModel, fit: MechanismModelView, i: number, grid: number[]): number[] | null {
+  if (fit.vmax === null || fit.kmUm === null) return null;
+  return grid.map((s) =>
+    inhibitedRate(model, s, i, { vmax: fit.vmax!, km: fit.kmUm!, kic: fit.kicUm, kiu: fit.kiuUm }),
+  );
+}
+
+/**
+ * Initial rate against [S] for each [I], with the chosen model's global-fit curves. With
+ * `onPointClick` every well is clickable (`wells` gives their keys, in the order of `points`);
+ * `masked` wells are drawn as open crosses, left out of the fit; `reference` draws a second fit
+ * dashed (the stored one while a preview is shown).
+ */
 export function RateVsSubstratePlot({
   points,
   model,
   fit,
   rateUnit,
+  wells,
+  masked = [],
+  marks = {},
+  reference = null,
+  title,
+  onPointClick,
 }: {
   points: [number, number, number][];
   model: InhibitionModel;
   fit: MechanismModelView;
   rateUnit: string;
+  wells?: PlotWell[];
+  masked?: (PlotWell & { i: number })[];
+  marks?: PlotMarks;
+  reference?: { model: InhibitionModel; fit: MechanismModelView; label: string } | null;
+  title?: string;
+  onPointClick?: (key: string) => void;
 }) {
   const data = useMemo(() => {
-    const sMax = Math.max(...points.map((p) => p[0])) * 1.05;
+    const sMax = Math.max(...points.map((p) => p[0]), ...masked.map((p) => p.x)) * 1.05;
     const grid = Array.from({ length: 100 }, (_, k) => (k / 99) * sMax);
-    return levels(points).flatMap((i, k) => {
+    const keyed = wells && wells.length === points.length ? wells : null;
+    const allLevels = [...new Set([...points.map((p) => p[1]), ...masked.map((p) => p.i)])].sort((a, b) => a - b);
+    const series = allLevels.flatMap((i, k) => {
       const color = palette[k % palette.length];
-      const pts = points.filter((p) => p[1] === i);
+      const idx = points.flatMap((p, j) => (p[1] === i ? [j] : []));
       const out: object[] = [
         {
-          x: pts.map((p) => p[0]),
-          y: pts.map((p) => p[2]),
+          x: idx.map((j) => points[j]![0]),
+          y: idx.map((j) => points[j]![2]),
+          ...(keyed ? { customdata: idx.map((j) => keyed[j]!.key), text: idx.map((j) => keyed[j]!.label ?? "") } : {}),
           mode: "markers",
-          marker: { color, size: 6 },
+          marker: { color, size: 7 },
           name: `[I] = ${i} µM`,
           legendgroup: String(i),
+          hovertemplate: keyed
+            ? `%{text}<br>[S] %{x:.3g} µM · %{y:.4g} ${rateUnit}<extra>click to exclude</extra>`
+            : `[S] %{x:.3g} µM · %{y:.4g} ${rateUnit}<extra>[I] = ${i} µM</extra>`,
         },
       ];
-      if (fit.vmax !== null && fit.kmUm !== null) {
+      const curve = modelCurve(model, fit, i, grid);
+      if (curve)
         out.push({
           x: grid,
-          y: grid.map((s) =>
-            inhibitedRate(model, s, i, { vmax: fit.vmax!, km: fit.kmUm!, kic: fit.kicUm, kiu: fit.kiuUm }),
-          ),
+          y: curve,
           mode: "lines",
           line: { color, width: 1.5 },
           showlegend: false,
           legendgroup: String(i),
           hoverinfo: "skip",
         });
-      }
+      const ref = reference ? modelCurve(reference.model, reference.fit, i, grid) : null;
+      if (ref)
+        out.push({
+          x: grid,
+          y: ref,
+          mode: "lines",
+          line: { color, width: 1, dash: "dash" },
+          name: reference!.label,
+          showlegend: k === 0,
+          legendgroup: "reference",
+          hoverinfo: "skip",
+        });
       return out;
     });
-  }, [points, model, fit]);
+    if (masked.length)
+      series.push({
+        x: masked.map((p) => p.x),
+        y: masked.map((p) => p.y),
+        customdata: masked.map((p) => p.key),
+        text: masked.map((p) => p.label ?? ""),
+        mode: "markers",
+        marker: { color: "#b42318", size: 9, symbol: "x-open" },
+        name: "excluded (left out of the fit)",
+        hovertemplate: `excluded · %{text}<br>[S] %{x:.3g} µM · %{y:.4g} ${rateUnit}<extra>click to restore</extra>`,
+      });
+    series.push(...overlayTraces([...(wells ?? []), ...masked], marks));
+    return series;
+  }, [points, model, fit, rateUnit, wells, masked, marks, reference]);
   return (
     <Plot
       data={data as never}
       layout={{
         ...baseLayout,
         height: 320,
-        title: { text: `Rate vs [S], ${model} fit`, font: { size: 12 } },
+        hovermode: "closest",
+        title: { text: title ?? `Rate vs [S], ${model} fit`, font: { size: 12 } },
         xaxis: { ...axis, title: { text: "[S] (µM)" } },
         yaxis: { ...axis, title: { text: `Initial rate (${rateUnit})` } },
         legend: { font: { size: 10 } },
@@ -75,6 +131,14 @@ export function RateVsSubstratePlot({
       config={baseConfig}
       style={{ width: "100%" }}
       useResizeHandler
+      onClick={
+        onPointClick
+          ? (e) => {
+              const key = clickedKey(e);
+              if (key) onPointClick(key);
+            }
+          : undefined
+      }
     />
   );
 }

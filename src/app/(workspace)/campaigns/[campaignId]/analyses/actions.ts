@@ -17,6 +17,7 @@ import { plateMapFromWells } from "@/lib/plates";
 import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
 import { INHIBITION_MODELS } from "@/lib/kinetics";
 import { campaignKmUm } from "@/lib/units";
+import { ANALYSIS_WEIGHTINGS, DEFAULT_ANALYSIS_WEIGHTING } from "@/lib/analysis/settings";
 
 const optPos = z.preprocess(
   (v) => (v === "" || v === undefined ? undefined : v),
@@ -41,7 +42,8 @@ const createSchema = z.object({
   substrateUm: optPos,
   fixTopPct: optNum,
   fixBottomPct: optNum,
-  weighting: z.enum(["none", "relative"]).default("none"),
+  weighting: z.enum(ANALYSIS_WEIGHTINGS).default(DEFAULT_ANALYSIS_WEIGHTING),
+  robust: z.enum(["on", ""]).optional(),
 });
 
 export const createExperimentAction = formAction(createSchema, async (f) => {
@@ -63,7 +65,7 @@ export const createExperimentAction = formAction(createSchema, async (f) => {
       ...(f.kind === "dose-response"
         ? { substrateUm: f.substrateUm ?? null, fixTopPct: f.fixTopPct ?? null, fixBottomPct: f.fixBottomPct ?? null }
         : {}),
-      ...(f.kind === "mechanism" ? { weighting: f.weighting } : {}),
+      ...(f.kind !== "single-dose" ? { weighting: f.weighting, robust: f.robust === "on" } : {}),
     },
   });
   revalidatePath(`/campaigns/${f.campaignId}/analyses`);

@@ -15,11 +15,12 @@ import { AnalysisRunner } from "../_components/analysis-runner";
 import { Flags, kindLabel, AnalysisStatusChip } from "../_components/labels";
 import { startAnalysisAction } from "../actions";
 import { formatAlpha } from "@/lib/analysis/alpha";
-import { isFittedDoseResponse } from "@/lib/analysis/detail";
+import { isCalledDoseResponse, isFittedDoseResponse } from "@/lib/analysis/detail";
 
 export const metadata = { title: "Experiment" };
 
 const pct = (x: number | null) => (x === null ? "—" : `${x.toFixed(1)} %`);
+const outcomeShort = { inactive: "inactive", activator: "activator", "not-determined": "not determined" } as const;
 
 export default async function ExperimentPage({
   params,
@@ -125,8 +126,18 @@ export default async function ExperimentPage({
                       <Link href={`${base}/${r.compoundId}`}>{r.compoundId}</Link>
                     </td>
                     <td className="num text-right font-medium">
-                      {r.ic50Qualifier ?? ""}
-                      {formatConcentration(r.ic50Um)}
+                      {isCalledDoseResponse(r.detail) ? (
+                        <span className="font-normal text-warn" title={r.detail.reason}>
+                          {outcomeShort[r.detail.outcome]}
+                          {r.detail.maxInhibitionPct !== null ? ` (max ${r.detail.maxInhibitionPct.toFixed(0)} %)` : ""}
+                          {r.ic50Um !== null ? ` ${r.ic50Qualifier ?? ""}${formatConcentration(r.ic50Um)}` : ""}
+                        </span>
+                      ) : (
+                        <>
+                          {r.ic50Qualifier ?? ""}
+                          {formatConcentration(r.ic50Um)}
+                        </>
+                      )}
                     </td>
                     <td className="num text-right text-ink-soft">{formatConcentrationRange(r.ic50LoUm, r.ic50HiUm)}</td>
                     <td className="num text-right">{r.hill === null ? "—" : r.hill.toFixed(2)}</td>
@@ -172,6 +183,8 @@ export default async function ExperimentPage({
                         {r.mechanism ?? "—"}{" "}
                         {r.mechanismLabel === "ambiguous" ? (
                           <span className="chip bg-warn-soft text-warn">ambiguous</span>
+                        ) : r.mechanismLabel === "inadequate" ? (
+                          <span className="chip bg-fail-soft text-fail">inadequate</span>
                         ) : null}
                       </>
                     )}

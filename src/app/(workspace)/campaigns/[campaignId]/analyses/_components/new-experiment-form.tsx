@@ -81,14 +81,21 @@ export function NewExperimentForm({
             </label>
           </>
         ) : null}
-        {kind === "mechanism" ? (
-          <label>
-            <span className="field-label">Weighting</span>
-            <select className="input" name="weighting" defaultValue="none">
-              <option value="none">none (ordinary least squares)</option>
-              <option value="relative">relative (residual / rate)</option>
-            </select>
-          </label>
+        {kind !== "single-dose" ? (
+          <>
+            <label>
+              <span className="field-label">Weighting</span>
+              <select className="input" name="weighting" defaultValue="auto">
+                <option value="auto">auto: relative when replicate SD grows with the signal</option>
+                <option value="none">none (ordinary least squares)</option>
+                <option value="relative">relative (1/Ŷ², SD ∝ signal)</option>
+              </select>
+            </label>
+            <label className="flex items-center gap-2 self-end pb-1.5 text-sm">
+              <input type="checkbox" name="robust" value="on" />
+              Report the fit without proposed outliers (robust, ROUT Q = 1 %)
+            </label>
+          </>
         ) : null}
       </div>
       <div>

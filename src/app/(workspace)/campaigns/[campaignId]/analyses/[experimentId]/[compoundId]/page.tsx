@@ -3,29 +3,52 @@ import { notFound } from "next/navigation";
 import { pageCampaign } from "@/server/auth/page-guard";
 import { AppError } from "@/server/errors";
 import {
+  analysisHistory,
   chosenModel,
   compoundResultDetail,
+  currentInputs,
+  experimentRunList,
   getAnalysis,
   getExperiment,
-  maskedPoints,
+  type Analysis,
   type ExperimentResult,
 } from "@/server/services/analyses";
+import { compoundMaskedWells } from "@/server/services/plates";
 import { can } from "@/lib/roles";
-import { campaignKmUm, formatConcentration, formatConcentrationRange } from "@/lib/units";
-import { INHIBITION_MODELS } from "@/lib/kinetics/inhibition-models";
-import { isFittedDoseResponse, isFittedMechanism } from "@/lib/analysis/detail";
-import { headlineKi } from "@/lib/analysis/headline-ki";
-import { DoseResponsePlot } from "@/components/plots/dose-response-plot";
-import { RateVsSubstratePlot, DoubleReciprocalPlot, ResidualPlot } from "@/components/plots/mechanism-plots";
+import { campaignKmUm } from "@/lib/units";
+import { ResearchUseNote } from "@/components/ui/caution";
 import { Flags, kindLabel } from "../../_components/labels";
 import { OverrideForm, PlannerForm } from "../../_components/result-forms";
-import { overrideMechanismAction, planMechanismPlateAction } from "../../actions";
-import { formatAlpha } from "@/lib/analysis/alpha";
+import { AnalysisRunner } from "../../_components/analysis-runner";
+import { DoseResponseCuration, type DoseResponseWell } from "../../_components/dose-response-curation";
+import { MechanismCuration, type MechanismWell } from "../../_components/mechanism-curation";
+import {
+  overrideMechanismAction,
+  planMechanismPlateAction,
+  saveCurationAction,
+  startAnalysisAction,
+} from "../../actions";
 
 export const metadata = { title: "Compound result" };
 
-const fixed = (x: number | null, digits: number) => (x === null ? "—" : x.toFixed(digits));
-const precise = (x: number | null, digits: number) => (x === null ? "—" : x.toPrecision(digits));
+type AnalysisInputs = Analysis["inputs"];
+type Mask = AnalysisInputs["masks"][number];
+const keyOf = (runId: string, well: string) => `${runId}|${well}`;
+
+/**
+ * The options the pipeline (services/analyses/run.ts) passes the engine for these inputs, so the
+ * browser's preview computes what the next analysis will store.
+ */
+function engineOptions(inputs: AnalysisInputs) {
+  const s = inputs.settings;
+  const weighting = s.resolved.weighting ?? s.weighting ?? "none";
+  const robust = s.resolved.robust ?? s.robust ?? false;
+  const enzymeUm = s.resolved.enzymeNm !== null ? s.resolved.enzymeNm / 1000 : null;
+  return {
+    doseResponse: { fixTopPct: s.fixTopPct ?? null, fixBottomPct: s.fixBottomPct ?? null, enzymeUm, weighting, robust },
+    mechanism: { weighting, enzymeUm, robust },
+  };
+}
 
 export default async function CompoundResultPage({
   params,
@@ -40,10 +63,37 @@ export default async function CompoundResultPage({
   };
   const experiment = await getExperiment(campaignId, experimentId).catch(notFoundOnApp);
   const r = await compoundResultDetail(experimentId, decodeURIComponent(compoundId)).catch(notFoundOnApp);
-  const current = await getAnalysis(campaignId, r.analysisId).catch(notFoundOnApp);
-  const masked = r.kind === "dose-response" ? await maskedPoints(current.inputs, r.compoundId) : [];
+  const [current, pending, runs, history] = await Promise.all([
+    getAnalysis(campaignId, r.analysisId).catch(notFoundOnApp),
+    currentInputs(campaign, experiment),
+    experimentRunList(experimentId),
+    analysisHistory(experimentId, 1),
+  ]);
   const base = `/campaigns/${campaignId}/analyses/${experimentId}`;
   const kmUm = campaignKmUm(campaign);
+  const mayEdit = can(user.globalRole, role, "plate:write");
+  const runLabel = new Map(runs.map((x) => [x.id, x.fileName]));
+  // Wells left out by the stored analysis, and wells masked now (what the next analysis leaves out).
+  const analysisMasks = new Map(current.inputs.masks.map((m) => [keyOf(m.runId, m.well), m]));
+  const openMasks = new Map(pending.inputs.masks.map((m) => [keyOf(m.runId, m.well), m]));
+  const union: Mask[] = [...new Map([...analysisMasks, ...openMasks]).values()];
+  const maskedRows = r.kind === "single-dose" ? [] : await compoundMaskedWells(union, r.compoundId);
+  const well = (runId: string, w: string, inAnalysis: boolean) => {
+    const key = keyOf(runId, w);
+    return {
+      key,
+      runId,
+      well: w,
+      runLabel: runLabel.get(runId) ?? runId.slice(0, 8),
+      inAnalysis,
+      savedMasked: openMasks.has(key),
+      reason: openMasks.get(key)?.reason ?? analysisMasks.get(key)?.reason ?? null,
+    };
+  };
+  const options = engineOptions(pending.inputs);
+  const latest = history[0] ?? null;
+  const upToDate = current.inputHash === pending.hash;
+  const outOfDate = !upToDate || (latest !== null && latest.status !== "done" && latest.status !== "failed");
 
   return (
     <div className="flex flex-col gap-5">
@@ -53,12 +103,59 @@ export default async function CompoundResultPage({
           / {kindLabel[experiment.kind]}
         </p>
         <h1>{r.compoundId}</h1>
-        <div className="mt-1">
-          <Flags flags={r.flags} />
-        </div>
+        {r.flags.length ? (
+          <div className="mt-1">
+            <Flags flags={r.flags} />
+          </div>
+        ) : null}
+        <ResearchUseNote className="mt-1" />
       </div>
-      {r.kind === "dose-response" ? <DoseResponseSection r={r} masked={masked} /> : null}
-      {r.kind === "mechanism" ? <MechanismSection r={r} /> : null}
+      {outOfDate ? (
+        <AnalysisRunner
+          action={startAnalysisAction}
+          campaignId={campaignId}
+          experimentId={experimentId}
+          mayRun={can(user.globalRole, role, "analysis:run")}
+          latest={
+            latest ? { id: latest.id, status: latest.status, progress: latest.progress, error: latest.error } : null
+          }
+          upToDate={upToDate}
+        />
+      ) : null}
+      {r.kind === "dose-response" ? (
+        <DoseResponseCuration
+          campaignId={campaignId}
+          experimentId={experimentId}
+          compoundId={r.compoundId}
+          wells={doseResponseWells(r, maskedRows, well)}
+          stored={{
+            ic50Um: r.ic50Um,
+            ic50LoUm: r.ic50LoUm,
+            ic50HiUm: r.ic50HiUm,
+            ic50Qualifier: r.ic50Qualifier === ">" || r.ic50Qualifier === "<" ? r.ic50Qualifier : null,
+            hill: r.hill,
+            nPoints: r.nPoints,
+            flags: r.flags,
+            detail: r.detail,
+          }}
+          options={options.doseResponse}
+          mayEdit={mayEdit}
+          action={saveCurationAction}
+        />
+      ) : null}
+      {r.kind === "mechanism" ? (
+        <MechanismCuration
+          campaignId={campaignId}
+          experimentId={experimentId}
+          compoundId={r.compoundId}
+          wells={mechanismWells(r, maskedRows, well)}
+          stored={{ detail: r.detail, chosen: chosenModel(r), flags: r.flags }}
+          override={r.override ? { model: r.override.model, reason: r.override.reason } : null}
+          options={options.mechanism}
+          mayEdit={mayEdit}
+          action={saveCurationAction}
+        />
+      ) : null}
       {r.kind === "mechanism" && can(user.globalRole, role, "analysis:override") ? (
         <section>
           <h3 className="mb-2">Override the model choice</h3>
@@ -84,202 +181,88 @@ export default async function CompoundResultPage({
           />
         </section>
       ) : null}
-      <p className="text-2xs text-ink-muted">
+      <p className="text-2xs text-ink-muted" data-testid="provenance">
         Analysis {r.analysisId.slice(0, 8)} · engine {current.engineVersion} · input hash{" "}
-        {current.inputHash.slice(0, 16)}… · {current.inputs.runs.length} accepted runs · {current.inputs.masks.length}{" "}
-        masked wells
+        <span className="font-mono" data-testid="input-hash" title={current.inputHash}>
+          {current.inputHash.slice(0, 16)}…
+        </span>{" "}
+        · {current.inputs.runs.length} accepted runs ·{" "}
+        <span data-testid="masked-count">{current.inputs.masks.length}</span> masked wells
+        {runs.length ? (
+          <>
+            {" "}
+            · runs:{" "}
+            {runs.map((x, k) => (
+              <span key={x.id}>
+                {k ? ", " : ""}
+                <Link href={`/campaigns/${campaignId}/plates/runs/${x.id}`}>{x.fileName}</Link>
+              </span>
+            ))}{" "}
+            (mask history on each run&rsquo;s page)
+          </>
+        ) : null}
       </p>
     </div>
   );
 }
 
+type WellOf = (
+  runId: string,
+  well: string,
+  inAnalysis: boolean,
+) => Omit<DoseResponseWell, "concentrationUm" | "inhibitionPct">;
 type Result<K extends ExperimentResult["kind"]> = Extract<ExperimentResult, { kind: K }>;
 
-function DoseResponseSection({ r, masked }: { r: Result<"dose-response">; masked: [number, number][] }) {
-  const d = isFittedDoseResponse(r.detail) ? r.detail : null;
-  const morrison = d?.morrison ?? null;
-  return (
-    <section className="grid gap-4 lg:grid-cols-[2fr_1fr]">
-      <div className="card p-2">
-        <DoseResponsePlot points={r.detail.points.map((p) => [p[0], p[1]])} masked={masked} fit={d?.fit ?? null} />
-      </div>
-      <div className="flex flex-col gap-3">
-        <table className="table-dense card">
-          <tbody>
-            <tr>
-              <td className="text-ink-muted">IC50</td>
-              <td className="num text-right font-semibold">
-                {r.ic50Qualifier ?? ""}
-                {formatConcentration(r.ic50Um)}
-              </td>
-            </tr>
-            <tr>
-              <td className="text-ink-muted">95 % CI (t on log10 IC50)</td>
-              <td className="num text-right">{formatConcentrationRange(r.ic50LoUm, r.ic50HiUm)}</td>
-            </tr>
-            <tr>
-              <td className="text-ink-muted">Hill slope (dimensionless)</td>
-              <td className="num text-right">{r.hill === null ? "—" : r.hill.toFixed(2)}</td>
-            </tr>
-            <tr>
-              <td className="text-ink-muted">Top / bottom (% inhibition)</td>
-              <td className="num text-right">
-                {d?.fit.topPct?.toFixed(1) ?? "—"} / {d?.fit.bottomPct?.toFixed(1) ?? "—"}
-              </td>
-            </tr>
-            <tr>
-              <td className="text-ink-muted">R²</td>
-              <td className="num text-right">{d?.fit.rSquared?.toFixed(3) ?? "—"}</td>
-            </tr>
-            <tr>
-              <td className="text-ink-muted">Tested range</td>
-              <td className="num text-right">
-                {formatConcentration(d?.testedRangeUm[0])} – {formatConcentration(d?.testedRangeUm[1])}
-              </td>
-            </tr>
-            <tr>
-              <td className="text-ink-muted">Wells in the fit</td>
-              <td className="num text-right">{r.nPoints}</td>
-            </tr>
-          </tbody>
-        </table>
-        {morrison ? (
-          <div className="card p-3 text-sm">
-            <p className="mb-1 font-semibold">Tight binding: Morrison fit</p>
-            {"error" in morrison ? (
-              <p className="text-fail">{morrison.error}</p>
-            ) : (
-              <p className="num text-ink-soft">
-                K′ (apparent Ki) {formatConcentration(morrison.kAppUm)} (95 % CI{" "}
-                {formatConcentration(morrison.kAppCi95Um[0])} – {formatConcentration(morrison.kAppCi95Um[1])}) at [E] ={" "}
-                {formatConcentration(morrison.enzymeUm)}; IC50 = K′ + [E]/2 = {formatConcentration(morrison.ic50Um)}.
-              </p>
-            )}
-          </div>
-        ) : null}
-      </div>
-    </section>
+/** The wells of a dose-response result: those in the stored fit and the masked ones. */
+function doseResponseWells(
+  r: Result<"dose-response">,
+  masked: Awaited<ReturnType<typeof compoundMaskedWells>>,
+  well: WellOf,
+): DoseResponseWell[] {
+  const inFit = r.detail.points.map(([x, y, runId, w]) => ({
+    ...well(runId, w, true),
+    concentrationUm: x,
+    inhibitionPct: y,
+  }));
+  const seen = new Set(inFit.map((w) => w.key));
+  const out = masked.flatMap((m) =>
+    m.concentrationUm === null || m.inhibitionPct === null || seen.has(keyOf(m.runId, m.well))
+      ? []
+      : [{ ...well(m.runId, m.well, false), concentrationUm: m.concentrationUm, inhibitionPct: m.inhibitionPct }],
   );
+  return [...inFit, ...out];
 }
 
-function MechanismSection({ r }: { r: Result<"mechanism"> }) {
+/** The wells of a mechanism result: those in the stored fit and the masked ones. */
+function mechanismWells(
+  r: Result<"mechanism">,
+  masked: Awaited<ReturnType<typeof compoundMaskedWells>>,
+  well: WellOf,
+): MechanismWell[] {
   const d = r.detail;
-  if (!isFittedMechanism(d)) {
-    return (
-      <section className="card px-4 py-3 text-sm">
-        <p className="text-xs font-medium text-ink-muted">No mechanism fit</p>
-        <p>{"reason" in d ? d.reason : d.error}</p>
-      </section>
-    );
-  }
-  const chosen = chosenModel(r) ?? d.best;
-  const fit = d.models[chosen];
-  const headline = headlineKi(chosen, fit);
-  const pts = d.points.flatMap((p): [number, number, number][] => (p[2] === null ? [] : [[p[0], p[1], p[2]]]));
-  const unit = "signal/s";
-  const cp = d.chengPrusoff;
-  return (
-    <>
-      <section className="card flex flex-wrap gap-6 px-4 py-3 text-sm">
-        <div>
-          <p className="text-xs font-medium text-ink-muted">Mechanism</p>
-          <p className="text-lg font-semibold">
-            {chosen} {r.override ? <span className="chip bg-info-soft text-info">override</span> : null}{" "}
-            {!r.override && r.mechanismLabel === "ambiguous" ? (
-              <span className="chip bg-warn-soft text-warn">ambiguous</span>
-            ) : null}
-          </p>
-          {r.override ? (
-            <p className="text-xs text-ink-muted">
-              Fitted choice: {r.mechanism}. Override reason: {r.override.reason}
-            </p>
-          ) : null}
-        </div>
-        <div>
-          <p className="text-xs font-medium text-ink-muted">Ki</p>
-          <p className="num text-lg font-semibold">{formatConcentration(headline.kiUm)}</p>
-          <p className="num text-xs text-ink-muted">95 % CI {formatConcentrationRange(...headline.ci95)}</p>
-        </div>
-        <div>
-          <p className="text-xs font-medium text-ink-muted">α = Kiu/Kic</p>
-          <p className="num text-lg font-semibold">{formatAlpha(fit.alpha, chosen)}</p>
-        </div>
-        <div>
-          <p className="text-xs font-medium text-ink-muted">Vmax · Km</p>
-          <p className="num">
-            {fit.vmax?.toPrecision(4)} {unit} · {formatConcentration(fit.kmUm)}
-          </p>
-        </div>
-        {cp ? (
-          <div className="max-w-sm">
-            <p className="text-xs font-medium text-ink-muted">Cheng–Prusoff cross-check</p>
-            {"note" in cp ? (
-              <p className="text-xs text-ink-muted">{cp.note}</p>
-            ) : (
-              <p className="num text-xs">
-                predicted IC50 {formatConcentration(cp.predictedIc50Um)} at [S] {formatConcentration(cp.substrateUm)} vs
-                measured {formatConcentration(cp.measuredIc50Um)} (ratio {cp.ratio.toPrecision(3)})
-              </p>
-            )}
-          </div>
-        ) : null}
-      </section>
-      <section className="grid gap-4 xl:grid-cols-2">
-        <div className="card p-2">
-          <RateVsSubstratePlot points={pts} model={chosen} fit={fit} rateUnit={unit} />
-        </div>
-        <div className="card p-2">
-          <DoubleReciprocalPlot points={pts} model={chosen} fit={fit} rateUnit={unit} />
-        </div>
-        <div className="card p-2 xl:col-span-2">
-          <ResidualPlot points={pts} model={chosen} fit={fit} rateUnit={unit} />
-        </div>
-      </section>
-      <section>
-        <h3 className="mb-2">Model comparison (global fits, {d.points.length} wells)</h3>
-        <table className="table-dense card">
-          <thead>
-            <tr>
-              <th>Model</th>
-              <th className="text-right">Vmax ({unit})</th>
-              <th className="text-right">Km</th>
-              <th className="text-right">Kic</th>
-              <th className="text-right">Kiu</th>
-              <th className="text-right">RSS</th>
-              <th className="text-right">AICc</th>
-              <th className="text-right">ΔAICc</th>
-              <th className="text-right">Akaike weight</th>
-              <th className="text-right">F-test p vs mixed</th>
-            </tr>
-          </thead>
-          <tbody>
-            {INHIBITION_MODELS.map((m) => {
-              const s = d.models[m];
-              return (
-                <tr key={m} className={m === chosen ? "bg-accent-soft/50 font-medium" : ""}>
-                  <td>
-                    {m}
-                    {m === d.best ? " (fitted choice)" : ""}
-                  </td>
-                  <td className="num text-right">{s.vmax?.toPrecision(4) ?? "—"}</td>
-                  <td className="num text-right">{formatConcentration(s.kmUm)}</td>
-                  <td className="num text-right">{s.kicUm === null ? "—" : formatConcentration(s.kicUm)}</td>
-                  <td className="num text-right">{s.kiuUm === null ? "—" : formatConcentration(s.kiuUm)}</td>
-                  <td className="num text-right">{precise(s.rss, 4)}</td>
-                  <td className="num text-right">{fixed(s.aicc, 2)}</td>
-                  <td className="num text-right">{fixed(s.deltaAicc, 2)}</td>
-                  <td className="num text-right">{fixed(s.akaikeWeight, 3)}</td>
-                  <td className="num text-right">{precise(s.fTestVsMixedP, 3)}</td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
-        <p className="mt-1 text-2xs text-ink-muted">
-          Choice: lowest AICc; mixed only when the extra-sum-of-squares F-test against the best nested model gives p
-          &lt; 0.05. &ldquo;Ambiguous&rdquo; when another model lies within ΔAICc 2.
-        </p>
-      </section>
-    </>
+  const inFit: MechanismWell[] =
+    "models" in d
+      ? d.points.flatMap(([s, i, v, runId, w]) =>
+          v === null ? [] : [{ ...well(runId, w, true), substrateUm: s, inhibitorUm: i, rate: v }],
+        )
+      : d.points.map((p) => ({
+          ...well(p.runId, p.well, true),
+          substrateUm: p.substrate,
+          inhibitorUm: p.inhibitor,
+          rate: p.rate,
+        }));
+  const seen = new Set(inFit.map((w) => w.key));
+  const out = masked.flatMap((m) =>
+    m.substrateUm === null || m.rate === null || seen.has(keyOf(m.runId, m.well))
+      ? []
+      : [
+          {
+            ...well(m.runId, m.well, false),
+            substrateUm: m.substrateUm,
+            inhibitorUm: m.concentrationUm ?? 0,
+            rate: m.rate,
+          },
+        ],
   );
+  return [...inFit, ...out];
 }
