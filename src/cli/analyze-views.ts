@@ -5,10 +5,9 @@
  * in docs/science.md. A compound that cannot be fitted becomes `{"compound", "error"}`.
  */
 import {
-  analyseDoseResponseCompound,
+  analyseDoseResponseSeries,
   analyseMechanismCompound,
   type CompoundResult,
-  type DoseResponsePoint,
   type DoseResponseScale,
   type MechanismInputPoint,
 } from "../lib/analysis/compute";
@@ -61,23 +60,22 @@ const messageOf = (e: unknown): string => (e instanceof Error ? e.message : Stri
 
 type Fit = DoseResponseFittedDetail["fit"];
 
-function fitView(f: Fit | null) {
+/** The 4PL as fitted; `full` adds what the compound's own fields already say (for the other fit). */
+function fitView(f: Fit | null, full = false) {
   if (!f) return null;
-  return {
+  const own = {
     ic50: f.ic50Um,
+    ic50Ci95: f.ic50Ci95Um,
     log10Ic50: f.log10Ic50,
     log10Ic50Se: f.log10Ic50Se,
-    ic50Ci95: f.ic50Ci95Um,
-    hill: f.hill,
     hillSe: f.hillSe,
     direction: f.direction,
-    top: f.topPct,
-    bottom: f.bottomPct,
     rss: f.rss,
     rSquared: f.rSquared,
     dof: f.dof,
     converged: f.converged,
   };
+  return full ? { ...own, hill: f.hill, top: f.topPct, bottom: f.bottomPct } : own;
 }
 
 function doseOutliersView(o: DoseResponseCalledDetail["outliers"] | undefined) {
@@ -93,7 +91,7 @@ function doseOutliersView(o: DoseResponseCalledDetail["outliers"] | undefined) {
     })),
     reported: o.reported,
     other: o.other
-      ? { basis: o.other.basis, outcome: o.other.outcome, reason: o.other.reason, fit: fitView(o.other.fit) }
+      ? { basis: o.other.basis, outcome: o.other.outcome, reason: o.other.reason, fit: fitView(o.other.fit, true) }
       : null,
   };
 }
@@ -139,16 +137,11 @@ export function doseResponseView(compound: string, r: CompoundResult) {
 }
 
 export function doseResponseJobView(job: DoseJob, o: ViewOptions) {
-  // The well of a point is its file line, so outliers and errors can name it.
-  const pts: DoseResponsePoint[] = job.x.map((c, k) => ({
-    concentrationUm: c,
-    inhibitionPct: job.y[k]!,
-    runId: "",
-    well: String(job.lines[k]),
-  }));
   let r: CompoundResult;
   try {
-    r = analyseDoseResponseCompound(job.compound, pts, {
+    // The well of a point is its file line, so outliers can name it.
+    r = analyseDoseResponseSeries(job.compound, job.x, job.y, (k) => ["", String(job.lines[k])], {
+      omitPoints: true,
       weighting: o.weighting,
       robust: o.robust,
       enzymeUm: o.enzyme,

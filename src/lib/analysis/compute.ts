@@ -235,13 +235,6 @@ function adequacyDetail(a: CurveJudgement["adequacy"] | MechanismModelFit["adequ
   };
 }
 
-const pointTuple = (p: DoseResponsePoint): [number, number, string, string] => [
-  p.concentrationUm,
-  roundFinite(p.inhibitionPct),
-  p.runId,
-  p.well,
-];
-
 /** [lowest, highest] concentration above 0 (null when there is none). */
 function testedRange(x: readonly number[]): [number, number] | null {
   let lo = Infinity;
@@ -256,7 +249,9 @@ function testedRange(x: readonly number[]): [number, number] | null {
 
 function outliersDetail(
   c: CurveAnalysis,
-  pts: readonly DoseResponsePoint[],
+  x: readonly number[],
+  y: readonly number[],
+  where: (k: number) => readonly [string, string],
   q: number,
 ): DoseResponseCalledDetail["outliers"] {
   if (c.outliers.length === 0) return null;
@@ -264,12 +259,12 @@ function outliersDetail(
   return {
     q,
     proposed: c.outliers.map((o) => {
-      const p = pts[o.index]!;
+      const [runId, well] = where(o.index);
       return {
-        runId: p.runId,
-        well: p.well,
-        concentrationUm: p.concentrationUm,
-        inhibitionPct: roundFinite(p.inhibitionPct),
+        runId,
+        well,
+        concentrationUm: x[o.index]!,
+        inhibitionPct: roundFinite(y[o.index]!),
         residual: round(c.robustScale ? o.residual / c.robustScale : null),
         p: round(o.p),
       };
@@ -296,8 +291,27 @@ export function analyseDoseResponseCompound(
   pts: readonly DoseResponsePoint[],
   opts: DoseResponseOptions = {},
 ): CompoundResult {
-  const x = pts.map((p) => p.concentrationUm);
-  const y = pts.map((p) => p.inhibitionPct);
+  return analyseDoseResponseSeries(
+    compoundId,
+    pts.map((p) => p.concentrationUm),
+    pts.map((p) => p.inhibitionPct),
+    (k) => [pts[k]!.runId, pts[k]!.well],
+    opts,
+  );
+}
+
+/**
+ * analyseDoseResponseCompound on arrays: concentrations `x` µM, % inhibition `y`, and where
+ * point k was read (run id, well). `omitPoints` leaves the detail's point list empty, for the
+ * command, which does not print it (a batch of 10⁴ curves would build 10⁵ small arrays for nothing).
+ */
+export function analyseDoseResponseSeries(
+  compoundId: string,
+  x: readonly number[],
+  y: readonly number[],
+  where: (k: number) => readonly [string, string],
+  opts: DoseResponseOptions & { omitPoints?: boolean } = {},
+): CompoundResult {
   const q = OUTLIER_Q;
   const requested = opts.weighting ?? DEFAULT_ANALYSIS_WEIGHTING;
   const c = analyseCurve(x, y, {
@@ -315,8 +329,13 @@ export function analyseDoseResponseCompound(
   };
   const rangeUm = testedRange(x);
   const maxInhibitionPct = round(c.maxInhibitionPct ?? null);
-  const outliers = outliersDetail(c, pts, q);
-  const points = pts.map(pointTuple);
+  const outliers = outliersDetail(c, x, y, where, q);
+  const points: [number, number, string, string][] = [];
+  if (!opts.omitPoints)
+    for (let k = 0; k < x.length; k++) {
+      const [runId, well] = where(k);
+      points.push([x[k]!, roundFinite(y[k]!), runId, well]);
+    }
 
   if (c.outcome !== "fitted" || !c.fit || !rangeUm) {
     const tooFew = c.flags.includes("too-few-points");
@@ -340,7 +359,7 @@ export function analyseDoseResponseCompound(
     if (c.ic50Bracket) detail.ic50BracketUm = c.ic50Bracket;
     return {
       compoundId,
-      nPoints: pts.length,
+      nPoints: x.length,
       ic50Um: bound.ic50,
       ic50LoUm: null,
       ic50HiUm: null,
@@ -355,16 +374,10 @@ export function analyseDoseResponseCompound(
   const flags: string[] = [...c.flags];
   const s = ic50Summary(fit.ic50, fit.flags, rangeUm);
   if (fit.bottom !== null && Math.abs(fit.bottom) > 20 && opts.response !== "signal") flags.push("baseline-offset");
-  const morrison = tightBindingCheck(
-    fit,
-    c.usedIndices.map((k) => x[k]!),
-    c.usedIndices.map((k) => y[k]!),
-    opts,
-    flags,
-  );
+  const morrison = tightBindingCheck(fit, c.usedIndices, x, y, opts, flags);
   return {
     compoundId,
-    nPoints: pts.length,
+    nPoints: x.length,
     ic50Um: round(s.ic50),
     ic50LoUm: s.qualifier ? null : round(fit.ic50Ci95[0]),
     ic50HiUm: s.qualifier ? null : round(fit.ic50Ci95[1]),
@@ -393,8 +406,9 @@ export function analyseDoseResponseCompound(
  */
 function tightBindingCheck(
   fit: Logistic4Fit,
-  x: readonly number[],
-  y: readonly number[],
+  used: readonly number[],
+  xAll: readonly number[],
+  yAll: readonly number[],
   opts: DoseResponseOptions,
   flags: string[],
 ): DoseResponseFittedDetail["morrison"] {
@@ -405,9 +419,11 @@ function tightBindingCheck(
   flags.push("tight-binding-suspected");
   if (opts.response === "signal")
     return { error: "the Morrison fit needs % inhibition or % activity, not a raw signal" };
-  const v = y.map((p) => (opts.response === "activity-pct" ? p / 100 : 1 - p / 100));
+  // The points of the reported fit (without the outliers when robust left them out).
+  const x = used.map((k) => xAll[k]!);
+  const v = used.map((k) => (opts.response === "activity-pct" ? yAll[k]! / 100 : 1 - yAll[k]! / 100));
   try {
-    const m = fitMorrison([...x], v, e, { fixedV0: 1 });
+    const m = fitMorrison(x, v, e, { fixedV0: 1 });
     return {
       enzymeUm: e,
       kAppUm: round(m.kApp),
