@@ -514,6 +514,11 @@ function kiMoved(before: number | null, after: number | null): boolean {
   return Math.abs(Math.log(after / before)) > Math.LN2;
 }
 
+/** "slope of log SD on log mean 0.98 ± 0.43 over 18 replicate groups, p 0.018" */
+function slopeText(test: WeightingChoice): string {
+  return `slope of log SD on log mean ${test.slope!.toFixed(2)} ± ${test.slopeSe!.toFixed(2)} over ${test.groups} replicate groups, p ${test.p!.toPrecision(2)}`;
+}
+
 function num3(x: number | null): string {
   return x === null || !Number.isFinite(x) ? "—" : String(Number(x.toPrecision(3)));
 }
@@ -555,7 +560,10 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
       requested,
       used: test.weighting,
       basis: test.weighting === "relative" ? "replicate mean" : null,
-      reason: test.reason,
+      reason:
+        test.weighting === "relative"
+          ? `SD grows with the rate (${slopeText(test)}): relative weighting, each rate divided by the mean of its replicate group`
+          : test.reason,
       test,
     };
   } else {
@@ -578,13 +586,19 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
     if (test.weighting === "relative") {
       weightingChoice.test = test;
       reweighted = groupMeanWeighted(d);
-      const refit = fitStandard(reweighted);
-      const same = refit.best === best;
+      let refit: StandardFit | null = null;
+      try {
+        refit = fitStandard(reweighted);
+      } catch {
+        reweighted = null; // without the S = 0 rows too few remain to refit: keep the flag only
+      }
+      const same = refit === null || refit.best === best;
+      const evidence = `Scatter grows with the rate (${slopeText(test)})`;
       flags.push({
         code: same ? "noise-grows-with-rate" : "weighting-sensitive",
         message: same
-          ? `Scatter grows with the rate (${test.reason}); relative weighting (weighting "auto") gives the same call.`
-          : `Scatter grows with the rate (${test.reason}); with relative weighting the call is ${refit.best}, not ${best}: use weighting "auto".`,
+          ? `${evidence}; relative weighting (weighting "auto") ${refit ? "gives the same call" : "is advised"}.`
+          : `${evidence}; with relative weighting the call is ${refit!.best}, not ${best}: use weighting "auto".`,
       });
       if (!same) fragile.push("weighting");
     }

@@ -188,7 +188,8 @@ describe("proportional noise (invented: competitive Ki 2, CV 10 %, triplicates)"
     for (const r of run(gen, { weighting: "auto" })) {
       expect(r.weighting).toBe("relative");
       expect(r.weightingChoice).toMatchObject({ requested: "auto", used: "relative", basis: "replicate mean" });
-      expect(r.weightingChoice.reason).toMatch(/SD grows with the signal/);
+      expect(r.weightingChoice.reason).toMatch(/^SD grows with the rate \(slope of log SD on log mean \d\.\d\d ± /);
+      expect(r.weightingChoice.reason).toMatch(/divided by the mean of its replicate group$/);
       expectNoClearWrongCall(r, "competitive");
       if (r.recommended?.model === "competitive") right++;
     }
