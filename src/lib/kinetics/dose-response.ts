@@ -38,6 +38,7 @@ import {
   fitLogistic4,
   logistic4Fitted,
   logistic4Problem,
+  logistic4Start,
   logistic4Theta,
   type Logistic4Fit,
   type Logistic4Flag,
@@ -134,8 +135,10 @@ export const PARTIAL_BELOW_PCT = 80;
 /** Screen: the outlier search runs when the ordinary fit has a residual beyond this many RSDRs. */
 export const OUTLIER_SCREEN_T = 3;
 const DOSE_EFFECT_ALPHA = 0.05;
-/** At most this many leave-one-out fits seed the robust search (longer series use every k-th point). */
-const MAX_LEAVE_ONE_OUT = 48;
+/** Leave-one-out subsets fitted for the robust search (the best by their grid start). */
+const LEAVE_OUT_FITS = 2;
+/** A leave-one-out start is fitted only when dropping one point could cut the RSS below this fraction. */
+const LEAVE_OUT_GAIN = 0.5;
 
 interface Settings {
   weighting: Weighting;
@@ -152,6 +155,8 @@ interface Judged {
   residuals: number[] | null;
   /** Residual multipliers of a relative fit (null when unweighted). */
   factors: Float64Array | null;
+  /** Σ(y − ŷ)², unweighted, of the fit. */
+  plainRss: number;
 }
 
 /**
@@ -167,16 +172,17 @@ export function analyseCurve(
 ): CurveAnalysis {
   const n = x.length;
   if (y.length !== n) throw new RangeError(`analyseCurve: ${n} concentrations but ${y.length} responses`);
-  const xs: number[] = new Array<number>(n);
-  const ys: number[] = new Array<number>(n);
+  // Filled by push: packed arrays (new Array(n) makes holey ones, measurably slower in the fit).
+  const xs: number[] = [];
+  const ys: number[] = [];
   for (let i = 0; i < n; i++) {
     const xi = x[i]!;
     const yi = y[i]!;
     if (!Number.isFinite(xi) || xi < 0)
       throw new RangeError(`analyseCurve: concentration ${i + 1} must be a finite number ≥ 0 (got ${xi})`);
     if (!Number.isFinite(yi)) throw new RangeError(`analyseCurve: response ${i + 1} must be finite (got ${yi})`);
-    xs[i] = xi;
-    ys[i] = yi;
+    xs.push(xi);
+    ys.push(yi);
   }
   if (options.keys && options.keys.length !== n)
     throw new RangeError(`analyseCurve: ${options.keys.length} keys for ${n} points`);
@@ -319,8 +325,8 @@ function outlierSearch(
   if (!theta) return null;
   let problem = logistic4Problem(x, y, s);
   if (core.factors) problem = scaleRows(problem, core.factors);
-  const loo = leaveOneOut ? bestLeaveOneOut(x, y, s) : null;
-  const found = findOutliers(problem, theta, { q, tol: 1e-6, starts: loo ? [loo] : [] });
+  const loo = leaveOneOut ? bestLeaveOneOut(x, y, s, core.plainRss) : null;
+  const found = findOutliers(problem, theta, { q, tol: 1e-4, starts: loo ? [loo] : [] });
   return {
     robustScale: found.robustScale,
     outliers: found.outlierIndices.map((i) => ({
@@ -334,20 +340,21 @@ function outlierSearch(
 }
 
 /**
- * Parameters of the leave-one-out fit with the smallest residual sum of squares, as a second start
- * of the robust fit (the deletion diagnostic: the point whose removal improves the fit most). A
- * single wild well can drag the ordinary fit — and a Cauchy fit started there — into a curve that
- * passes through it; the fit without it starts in the right basin.
+ * A second start for the robust fit: the leave-one-out fit with the smallest residual sum of
+ * squares (the deletion diagnostic: the point whose removal improves the fit most). A single wild
+ * well can drag the ordinary fit — and a Cauchy fit started there — into a curve that passes
+ * through it; the fit without it starts in the right basin. Every subset is first scored by its
+ * quick grid start alone (cheap); only the LEAVE_OUT_FITS best are fitted, and only when the best
+ * grid already leaves less than LEAVE_OUT_GAIN of the all-points RSS (`allRss`, unweighted): with
+ * no point whose removal changes the fit that much, no start without one is needed. (Seeded
+ * invented curves: with a ±90 % well the ratio was below 0.45 in 99 % of 300; clean curves went
+ * below 0.5 in about 3 %.)
  */
-function bestLeaveOneOut(x: number[], y: number[], s: Settings): number[] | null {
+function bestLeaveOneOut(x: number[], y: number[], s: Settings, allRss: number): number[] | null {
   const n = x.length;
-  const step = Math.max(1, Math.ceil(n / MAX_LEAVE_ONE_OUT));
   const xs: number[] = [];
   const ys: number[] = [];
-  const opts = fitOptions(s);
-  let best: number[] | null = null;
-  let bestRss = Infinity;
-  for (let leave = 0; leave < n; leave += step) {
+  const subset = (leave: number) => {
     xs.length = 0;
     ys.length = 0;
     for (let i = 0; i < n; i++) {
@@ -355,6 +362,20 @@ function bestLeaveOneOut(x: number[], y: number[], s: Settings): number[] | null
       xs.push(x[i]!);
       ys.push(y[i]!);
     }
+  };
+  const scored: { leave: number; rss: number }[] = [];
+  const grid = { quick: true, fixedTop: s.fixedTop, fixedBottom: s.fixedBottom };
+  for (let leave = 0; leave < n; leave++) {
+    subset(leave);
+    scored.push({ leave, rss: logistic4Start(xs, ys, grid).rss });
+  }
+  scored.sort((a, b) => a.rss - b.rss || a.leave - b.leave);
+  if (!(scored[0]!.rss < LEAVE_OUT_GAIN * allRss)) return null;
+  const opts = fitOptions(s);
+  let best: number[] | null = null;
+  let bestRss = Infinity;
+  for (const { leave } of scored.slice(0, LEAVE_OUT_FITS)) {
+    subset(leave);
     try {
       const f = fitLogistic4(xs, ys, opts);
       const theta = f.converged ? logistic4Theta(f, s) : null;
@@ -390,7 +411,7 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
     flags: [],
     usedIndices: idx,
   };
-  const judged: Judged = { judgement: out, fit: null, residuals: null, factors: null };
+  const judged: Judged = { judgement: out, fit: null, residuals: null, factors: null, plainRss: NaN };
   const groups = doseGroups(x, y, s.response === "activity-pct");
   if (percent) out.maxInhibitionPct = groups.maxMean;
   if (n < MIN_DOSE_RESPONSE_POINTS || groups.x.length < MIN_DOSE_RESPONSE_CONCENTRATIONS) {
@@ -412,7 +433,13 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
     for (let i = 0; i < n; i++) fitted[i] = logistic4Fitted(fit, x[i]!)!;
     const factors = fit.weighting === "relative" ? relativeWeightFactors(fitted) : null;
     const r = new Array<number>(n);
-    for (let i = 0; i < n; i++) r[i] = (y[i]! - fitted[i]!) * (factors ? factors[i]! : 1);
+    let plainRss = 0;
+    for (let i = 0; i < n; i++) {
+      const d = y[i]! - fitted[i]!;
+      plainRss += d * d;
+      r[i] = d * (factors ? factors[i]! : 1);
+    }
+    judged.plainRss = plainRss;
     judged.fit = fit;
     judged.residuals = r;
     judged.factors = factors;
@@ -517,7 +544,7 @@ interface DoseGroups {
   mean: number[];
   count: number[];
   /** Group of each point. */
-  of: Int32Array;
+  of: number[];
   top: number;
   lowestPositive: number;
   maxMean: number;
@@ -529,7 +556,7 @@ function doseGroups(x: number[], y: number[], activity: boolean): DoseGroups {
   const gx: number[] = [];
   const mean: number[] = [];
   const count: number[] = [];
-  const of = new Int32Array(x.length);
+  const of: number[] = new Array<number>(x.length);
   for (let i = 0; i < x.length; i++) {
     const xi = x[i]!;
     let g = 0;

@@ -37,6 +37,7 @@ export {
   logistic4,
   logistic4Fitted,
   logistic4Problem,
+  logistic4Start,
   logistic4Theta,
   type Logistic4Fit,
   type Logistic4Flag,

@@ -216,6 +216,41 @@ export function logistic4Theta(
   return theta;
 }
 
+/**
+ * The grid start of the 4PL for (x, y) without the solver: the best point of a grid over
+ * log10 IC50 (tested range ± 1 decade) and |h| ∈ {0.5, 1, 2} (`quick`: |h| = 1 only), with Top and
+ * Bottom solved linearly at each (variable projection). Returns the parameters in
+ * logistic4Problem's order and their residual sum of squares: a cheap way to compare many subsets
+ * of a series before fitting any.
+ */
+export function logistic4Start(
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  options: Pick<Logistic4Options, "fixedTop" | "fixedBottom"> & { quick?: boolean } = {},
+): { theta: number[]; rss: number } {
+  const { fixedTop, fixedBottom, quick } = options;
+  const lx: number[] = [];
+  const yy: number[] = [];
+  for (let i = 0; i < x.length; i++) {
+    lx.push(x[i]! > 0 ? Math.log10(x[i]!) : -Infinity);
+    yy.push(y[i]!);
+  }
+  const bothFree = fixedTop === undefined && fixedBottom === undefined;
+  const hs = quick
+    ? bothFree
+      ? GRID_H_QUICK_FREE
+      : GRID_H_QUICK_FIXED
+    : bothFree
+      ? GRID_H_FULL_FREE
+      : GRID_H_FULL_FIXED;
+  const s = gridStart(x, lx, yy, fixedTop, fixedBottom, hs);
+  const theta: number[] = [];
+  if (fixedBottom === undefined) theta.push(s.bottom);
+  if (fixedTop === undefined) theta.push(s.top);
+  theta.push(s.l, s.h);
+  return { theta, rss: s.rss };
+}
+
 interface Start {
   bottom: number;
   top: number;
