@@ -122,7 +122,7 @@ export default async function ExperimentPage({
                 const fit = isFittedDoseResponse(r.detail) ? r.detail.fit : undefined;
                 return (
                   <tr key={r.compoundId}>
-                    <td>
+                    <td className="whitespace-nowrap">
                       <Link href={`${base}/${r.compoundId}`}>{r.compoundId}</Link>
                     </td>
                     <td className="num text-right font-medium">
@@ -139,7 +139,9 @@ export default async function ExperimentPage({
                         </>
                       )}
                     </td>
-                    <td className="num text-right text-ink-soft">{formatConcentrationRange(r.ic50LoUm, r.ic50HiUm)}</td>
+                    <td className="num whitespace-nowrap text-right text-ink-soft">
+                      {formatConcentrationRange(r.ic50LoUm, r.ic50HiUm)}
+                    </td>
                     <td className="num text-right">{r.hill === null ? "—" : r.hill.toFixed(2)}</td>
                     <td className="num text-right">{fit?.topPct == null ? "—" : fit.topPct.toFixed(1)}</td>
                     <td className="num text-right">{fit?.bottomPct == null ? "—" : fit.bottomPct.toFixed(1)}</td>
@@ -170,7 +172,7 @@ export default async function ExperimentPage({
             <tbody>
               {rows.map((r) => (
                 <tr key={r.compoundId}>
-                  <td>
+                  <td className="whitespace-nowrap">
                     <Link href={`${base}/${r.compoundId}`}>{r.compoundId}</Link>
                   </td>
                   <td>

@@ -29,7 +29,8 @@ export type CurationWell = {
 /** A change not yet saved: the well's wanted state and why. */
 export type CurationEdit = { masked: boolean; reason: string };
 
-export const PROPOSAL_REASON = "proposed outlier (ROUT, Q = 1 %), accepted after review";
+/** The reason an accepted outlier proposal starts with (the scientist may edit it before saving). */
+export const proposalReason = (qPct: string) => `proposed outlier (ROUT, Q = ${qPct} %), accepted after review`;
 
 export function useCuration<W extends CurationWell>(wells: readonly W[]) {
   const [stored, setEdits] = useState<ReadonlyMap<string, CurationEdit>>(new Map());

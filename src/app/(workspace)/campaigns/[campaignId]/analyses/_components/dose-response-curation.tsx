@@ -5,8 +5,9 @@ import { analyseDoseResponseCompound } from "@/lib/analysis/compute";
 import { parseResultDetail, type DoseResponseDetail } from "@/lib/analysis/detail";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { DoseResponsePlot, type PlotWell } from "@/components/plots/dose-response-plot";
-import { CurationPanel, PROPOSAL_REASON, useCuration, type CurationWell } from "./curation";
-import { LackOfFitShort, RunsShort, WeightingShort, WeightingText, formatP } from "./figures";
+import { CurationPanel, proposalReason, useCuration, type CurationWell } from "./curation";
+import { LackOfFitShort, RunsShort, WeightingShort, WeightingText, formatP, qText } from "./figures";
+import { OUTLIER_Q } from "@/lib/analysis/settings";
 import { Flags } from "./labels";
 
 export type DoseResponseWell = CurationWell & { concentrationUm: number; inhibitionPct: number };
@@ -31,6 +32,8 @@ function partsOf(d: DoseResponseDetail) {
   return {
     outcome: "outcome" in d && d.outcome ? d.outcome : "fit" in d ? "fitted" : ("too-few-points" as const),
     reason: "reason" in d ? d.reason : null,
+    maxActivationPct: "maxActivationPct" in d ? (d.maxActivationPct ?? null) : null,
+    ic50BracketUm: "ic50BracketUm" in d ? (d.ic50BracketUm ?? null) : null,
     fit,
     maxInhibitionPct: "maxInhibitionPct" in d ? (d.maxInhibitionPct ?? null) : null,
     testedRangeUm: "testedRangeUm" in d ? d.testedRangeUm : null,
@@ -56,6 +59,17 @@ function OutcomeCell({ v }: { v: DoseResponseView }) {
     <span className={bad ? "font-medium text-warn" : ""}>
       {outcomeText[p.outcome]}
       {p.reason ? <span className="block text-xs font-normal text-ink-soft">{p.reason}</span> : null}
+      {p.maxActivationPct !== null ? (
+        <span className="block text-xs font-normal text-ink-soft">
+          largest rise above vehicle: {p.maxActivationPct.toFixed(1)} % activity
+        </span>
+      ) : null}
+      {p.ic50BracketUm ? (
+        <span className="block text-xs font-normal text-ink-soft">
+          IC50 lies between the tested {formatConcentration(p.ic50BracketUm[0])} and{" "}
+          {formatConcentration(p.ic50BracketUm[1])}
+        </span>
+      ) : null}
     </span>
   );
 }
@@ -104,7 +118,7 @@ function figures(v: DoseResponseView) {
         : p.outliers
           ? p.outliers.proposed.length === 0
             ? "none"
-            : `${p.outliers.proposed.length} (Q = ${(p.outliers.q * 100).toPrecision(2)} %)${p.outliers.reported === "without-outliers" ? ", left out" : ""}`
+            : `${p.outliers.proposed.length} (Q = ${qText(p.outliers.q)} %)${p.outliers.reported === "without-outliers" ? ", left out" : ""}`
           : "—",
     wells: String(v.nPoints),
     range: p.testedRangeUm
@@ -189,7 +203,7 @@ export function DoseResponseCuration({
     const w = c.byKey.get(keyOf(o.runId, o.well));
     return w && !c.isOut(w) ? [{ w, o }] : [];
   });
-  const qPct = ((shownParts?.outliers?.q ?? 0.01) * 100).toPrecision(2);
+  const qPct = qText(shownParts?.outliers?.q ?? OUTLIER_Q);
   const proposalLabel = `proposed: outlier (ROUT, Q = ${qPct} %)`;
   const unsaved = c.edits.size > 0;
   const previewLabel = unsaved ? "Preview, not saved" : "Saved masks, not yet analysed";
@@ -257,7 +271,7 @@ export function DoseResponseCuration({
                       <button
                         type="button"
                         className="btn-quiet py-0.5"
-                        onClick={() => c.toggle(w.key, PROPOSAL_REASON)}
+                        onClick={() => c.toggle(w.key, proposalReason(qPct))}
                       >
                         Exclude {w.well}
                       </button>

@@ -12,6 +12,9 @@ export function formatP(p: number | null | undefined): string {
   return p.toPrecision(2);
 }
 
+/** A false-discovery rate as a percentage without trailing zeros: 0.01 → "1". */
+export const qText = (q: number) => String(Number((q * 100).toPrecision(2)));
+
 /** p below the adequacy threshold (0.01, kinetics/adequacy.ts) is shown as a failure. */
 const fails = (p: number | null | undefined) => p !== null && p !== undefined && p < 0.01;
 

@@ -9,8 +9,9 @@ import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { DoubleReciprocalPlot, RateVsSubstratePlot, ResidualPlot } from "@/components/plots/mechanism-plots";
 import type { PlotWell } from "@/components/plots/marks";
-import { CurationPanel, PROPOSAL_REASON, useCuration, type CurationWell } from "./curation";
-import { AdequacyVerdict, LackOfFitText, RunsText, WeightingText, formatP } from "./figures";
+import { CurationPanel, proposalReason, useCuration, type CurationWell } from "./curation";
+import { AdequacyVerdict, LackOfFitText, RunsText, WeightingText, formatP, qText } from "./figures";
+import { OUTLIER_Q } from "@/lib/analysis/settings";
 import { Flags } from "./labels";
 import { AlternativeModels, ModelComparison, constantText } from "./mechanism-tables";
 
@@ -194,7 +195,7 @@ export function MechanismCuration({
     const w = c.byKey.get(`${o.runId}|${o.well}`);
     return w && !c.isOut(w) ? [{ w, o }] : [];
   });
-  const qPct = ((shownFit?.outliers?.q ?? 0.01) * 100).toPrecision(2);
+  const qPct = qText(shownFit?.outliers?.q ?? OUTLIER_Q);
   const proposalLabel = `proposed: outlier (ROUT, Q = ${qPct} %)`;
   const unsaved = c.edits.size > 0;
   const previewLabel = unsaved ? "Preview, not saved" : "Saved masks, not yet analysed";
@@ -271,6 +272,15 @@ export function MechanismCuration({
                 <span className="chip mr-1 bg-warn-soft text-warn">{proposalLabel}</span>
                 robust fit of the {shownFit?.outliers?.model ?? "chosen"} model; nothing is dropped until a person
                 excludes it
+                {shownFit?.outliers?.callWithout ? (
+                  <span className="block">
+                    Without them the call would be {shownFit.outliers.callWithout}
+                    {shownFit.outliers.kiWithoutUm !== null
+                      ? `, Ki ${formatConcentration(shownFit.outliers.kiWithoutUm)}`
+                      : ""}
+                    .
+                  </span>
+                ) : null}
               </p>
               <ul className="flex flex-col gap-1">
                 {proposed.map(({ w, o }) => (
@@ -286,7 +296,7 @@ export function MechanismCuration({
                       <button
                         type="button"
                         className="btn-quiet py-0.5"
-                        onClick={() => c.toggle(w.key, PROPOSAL_REASON)}
+                        onClick={() => c.toggle(w.key, proposalReason(qPct))}
                       >
                         Exclude {w.well}
                       </button>
