@@ -72,7 +72,7 @@ const doseCsv =
 
 /** The invented difficult dose-response cases as % inhibition, one compound each. */
 const difficultDoseCsv =
-  "compound,concentration,response\n" +
+  "compound,concentration,response (% inhibition)\n" +
   DOSE_CASES.flatMap((c, k) =>
     doseSeries(c, 7100 + k).map((p) => `${c.id},${p.concentrationUm},${p.inhibitionPct}`),
   ).join("\n") +
@@ -132,8 +132,16 @@ describe("analyze mechanism (isdals inhibitor data, Ekstrøm & Sørensen; expect
     expect(out.best).toBe("competitive");
   });
 
-  it("weighting auto (the default) says what it chose and why", () => {
-    const out = ok(run(["mechanism", csv("isdals-auto.csv", mechanismCsv)])) as { weighting: Record<string, string> };
+  it("weighting: none by default (the published fit), auto says what it chose and why", () => {
+    const plain = ok(run(["mechanism", csv("isdals-default.csv", mechanismCsv)])) as {
+      weighting: Record<string, string>;
+      models: { competitive: { kic: number } };
+    };
+    expect(plain.weighting.used).toBe("none");
+    expect(plain.models.competitive.kic).toBeCloseTo(34.845, 2);
+    const out = ok(run(["mechanism", csv("isdals-auto.csv", mechanismCsv), "--weighting=auto"])) as {
+      weighting: Record<string, string>;
+    };
     expect(out.weighting.chosen).toBe("auto");
     expect(["none", "relative"]).toContain(out.weighting.used);
     expect(out.weighting.reason).toMatch(/replicate groups/);
@@ -347,7 +355,10 @@ describe("analyze: bad input → one stderr line with line and column, exit 2, n
     expectBadInput(run(["dose-response", ok, "--enzyme=-1"]), /--enzyme needs a positive number/);
     expectBadInput(run(["dose-response", ok, "--enzyme"]), /--enzyme needs a value/);
     expectBadInput(run(["dose-response", ok, "--robust=yes"]), /--robust takes no value/);
-    expectBadInput(run(["dose-response", ok, "--response=ratio"]), /--response must be inhibition, activity or signal/);
+    expectBadInput(
+      run(["dose-response", ok, "--response=ratio"]),
+      /--response must be auto, inhibition, activity or signal/,
+    );
     expectBadInput(run(["mechanism", csv("m.csv", mechanismCsv), "--fix-top=100"]), /unknown option "--fix-top=100"/);
   });
 

@@ -34,7 +34,7 @@ import {
 const USAGE = `Inhibitrack analyze (${ENGINE_VERSION})
 
 usage:
-  analyze dose-response FILE.csv [--response=inhibition|activity|signal] [--fix-top=N]
+  analyze dose-response FILE.csv [--response=auto|inhibition|activity|signal] [--fix-top=N]
                                  [--fix-bottom=N] [--enzyme=CONC] [--weighting=auto|none|relative]
                                  [--robust]
       columns compound, concentration, response. Per compound: outcome (fitted, inactive,
@@ -47,11 +47,14 @@ usage:
       JSON array, one object per compound, with a compound column).
 
 options:
-  --response=…   dose-response: what the response column holds: % inhibition (default), % activity
-                 (100 = vehicle), or a raw signal.
+  --response=…   dose-response: what the response column holds: % inhibition, % activity
+                 (100 = vehicle), or a raw signal. auto (default) reads the column's unit:
+                 "response (% inhibition)" or "response (%)" is % inhibition, "response (% activity)"
+                 is % activity, anything else (no unit, OD, RFU…) a raw signal.
   --enzyme=CONC  total enzyme concentration in the unit of the concentrations: tight-binding check
                  (Morrison).
-  --weighting=…  auto (default: relative when the replicates' SD grows with the signal), none, or
+  --weighting=…  none (default: ordinary least squares, as the published reference fits), auto
+                 (relative when the replicates' SD grows with the signal; the app's default), or
                  relative.
   --robust       report the fit without the outliers a robust fit finds (they are proposed either
                  way).
@@ -104,20 +107,45 @@ function parseOptions(command: Command, args: readonly string[]): CommandOptions
       throw new UsageError(`--${name} needs a ${positive ? "positive " : ""}number (got ${JSON.stringify(v)})`);
     return x;
   };
-  const weighting = raw.weighting ?? "auto";
+  // The command defaults to ordinary least squares so that a published data set gives its
+  // published fit; `auto` (the app's default for new experiments) decides from the replicates.
+  const weighting = raw.weighting ?? "none";
   if (weighting === true || !(ANALYSIS_WEIGHTINGS as readonly string[]).includes(weighting))
     throw new UsageError(`--weighting must be auto, none or relative (got ${JSON.stringify(weighting)})`);
-  const response = raw.response ?? "inhibition";
-  if (response === true || !(response in RESPONSES))
-    throw new UsageError(`--response must be inhibition, activity or signal (got ${JSON.stringify(response)})`);
+  const response = raw.response ?? "auto";
+  if (response === true || !(response === "auto" || response in RESPONSES))
+    throw new UsageError(`--response must be auto, inhibition, activity or signal (got ${JSON.stringify(response)})`);
   return {
     weighting: weighting as AnalysisWeighting,
     robust: raw.robust === true,
     enzyme: number("enzyme", true),
     fixTop: number("fix-top", false),
     fixBottom: number("fix-bottom", false),
-    response: RESPONSES[response]!,
+    // "auto" is resolved from the file's header in prepare(); signal until then.
+    response: RESPONSES[response === "auto" ? "signal" : response]!,
   };
+}
+
+/**
+ * What the response column holds, from its unit in the header: "(% inhibition)" or "(%)" is
+ * % inhibition, "(% activity)" % activity, anything else a raw signal (a plain "response" header,
+ * OD, RFU…), so a curve in instrument units is never judged against % thresholds.
+ */
+export function responseFromHeader(text: string): DoseResponseScale {
+  const first =
+    text
+      .replace(/^\uFEFF/, "")
+      .split(/\r?\n/)
+      .find((l) => l.trim() !== "") ?? "";
+  for (const cell of first.split(/[,;\t]/)) {
+    const m = /^\s*"?\s*response\s*(?:[([]\s*([^)\]]*?)\s*[)\]])?\s*"?\s*$/i.exec(cell);
+    if (!m) continue;
+    const unit = (m[1] ?? "").toLowerCase();
+    if (/activ/.test(unit)) return "activity-pct";
+    if (/inhib/.test(unit) || unit === "%") return "inhibition-pct";
+    return "signal";
+  }
+  return "signal";
 }
 
 // ---------------------------------------------------------------- reading the file into jobs
@@ -299,7 +327,11 @@ function prepare(argv: readonly string[], readFile: (path: string) => string): P
     throw new UsageError(`cannot read ${file}: ${(e as Error).message}`);
   }
   try {
-    if (command === "dose-response") return { work: { command, jobs: doseJobs(text) }, options, batch: true, file };
+    if (command === "dose-response") {
+      const auto = !rest.some((a) => a.startsWith("--response=")) || rest.includes("--response=auto");
+      const resolved = auto ? { ...options, response: responseFromHeader(text) } : options;
+      return { work: { command, jobs: doseJobs(text) }, options: resolved, batch: true, file };
+    }
     const jobs = mechanismJobs(text);
     return { work: { command, jobs }, options, batch: jobs[0]?.compound !== null, file };
   } catch (e) {
