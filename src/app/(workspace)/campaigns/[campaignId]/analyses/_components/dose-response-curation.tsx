@@ -195,7 +195,7 @@ export function DoseResponseCuration({
     key: w.key,
     x: w.concentrationUm,
     y: w.inhibitionPct,
-    label: `${w.well} · ${w.runLabel}`,
+    label: `${w.well} · ${w.runLabel}${w.savedMasked && w.reason ? ` · masked: ${w.reason}` : ""}`,
   });
   const inPlot = c.included.map(asPlot);
   const outPlot = c.excluded.map(asPlot);

@@ -56,6 +56,7 @@ function Headline({
           {chosen} {override ? <span className="chip bg-info-soft text-info">override</span> : null}{" "}
           {!override && d.label === "ambiguous" ? <span className="chip bg-warn-soft text-warn">ambiguous</span> : null}
           {d.label === "inadequate" ? <span className="chip bg-fail-soft text-fail">inadequate</span> : null}
+          {!override && d.label === "clear" ? <span className="chip bg-pass-soft text-pass">clear</span> : null}
         </p>
         {override ? (
           <p className="text-xs text-ink-muted">
@@ -184,7 +185,7 @@ export function MechanismCuration({
     x: w.substrateUm,
     y: w.rate,
     i: w.inhibitorUm,
-    label: `${w.well} · ${w.runLabel} · [I] ${formatConcentration(w.inhibitorUm)}`,
+    label: `${w.well} · ${w.runLabel} · [I] ${formatConcentration(w.inhibitorUm)}${w.savedMasked && w.reason ? ` · masked: ${w.reason}` : ""}`,
   });
   const describe = (w: MechanismWell) =>
     `${w.well} · ${w.runLabel} · [S] ${formatConcentration(w.substrateUm)} · [I] ${formatConcentration(w.inhibitorUm)} · ${w.rate.toPrecision(4)} ${RATE_UNIT}`;
