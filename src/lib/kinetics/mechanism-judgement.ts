@@ -26,8 +26,7 @@
  *    "ambiguous" when another adequate candidate, other than a nested extension it was preferred to,
  *    is within ΔAICc 2.
  */
-import { extraSumOfSquaresFTest } from "./model-selection";
-import { aicc } from "./model-selection";
+import { aicc, extraSumOfSquaresFTest, type FTestResult } from "./model-selection";
 import { INHIBITION_MODELS, MODEL_PARAMETER_COUNT, type InhibitionModel } from "./inhibition-models";
 import {
   EXTENDED_MODELS,
@@ -45,6 +44,7 @@ import {
   type ExtendedModelFit,
   type MechanismAdequacy,
   type MechanismData,
+  type RawExtendedFit,
   type ScoreTest,
 } from "./mechanism-models";
 
@@ -99,6 +99,8 @@ export interface StandardModelView {
   aicc: number;
   converged: boolean;
   adequacy: MechanismAdequacy;
+  /** The standard fit's F-test against mixed (same floored RSS and df as here), reused. */
+  fTestVsMixed: FTestResult | null;
 }
 
 export interface JudgementInput {
@@ -311,9 +313,17 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   // --- extended fits ---
   const alternatives: ExtendedModelFit[] = [];
   for (const { family } of screens.fitted) {
+    // The three constrained members first; the mixed member starts from their solutions.
+    const fitted: RawExtendedFit[] = [];
     for (const model of familyModels(family)) {
       const base = models[modelMechanism(model)];
-      const raw = fitExtendedModel(model, d, base, { enzymeConc: e ?? undefined, sMax: input.sMax, iRef: input.iRef });
+      const raw = fitExtendedModel(model, d, base, {
+        enzymeConc: e ?? undefined,
+        sMax: input.sMax,
+        iRef: input.iRef,
+        ...(modelMechanism(model) === "mixed" ? { nested: fitted } : {}),
+      });
+      fitted.push(raw);
       const p = extendedParameterCount(model);
       const adequacy = mechanismAdequacy(input.ctx, d, raw.residuals, p, input.rssFloor);
       alternatives.push(summariseExtended(raw, n, e, aicc(effRss(raw.rss), n, p), adequacy));
@@ -344,8 +354,21 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   for (const a of alternatives) a.deltaAicc = a.aicc - minAicc;
 
   const byModel = new Map(candidates.map((c) => [c.model, c]));
-  const fTest = (simple: Candidate, complex: Candidate) =>
-    extraSumOfSquaresFTest(simple.rss, n - simple.nParams, complex.rss, n - complex.nParams);
+  // F-tests asked for more than once (and the four models' against mixed, already computed) are kept.
+  const fCache = new Map<string, FTestResult>();
+  const fTest = (simple: Candidate, complex: Candidate): FTestResult => {
+    if (complex.model === "mixed" && simple.model !== "mixed") {
+      const known = models[simple.model as InhibitionModel]?.fTestVsMixed;
+      if (known) return known;
+    }
+    const key = `${simple.model}<${complex.model}`;
+    let r = fCache.get(key);
+    if (!r) {
+      r = extraSumOfSquaresFTest(simple.rss, n - simple.nParams, complex.rss, n - complex.nParams);
+      fCache.set(key, r);
+    }
+    return r;
+  };
   const eligible = candidates.filter((c) => c.eligible);
   let current: Candidate | null = null;
   for (const c of eligible) if (current === null || c.aicc < current.aicc) current = c;

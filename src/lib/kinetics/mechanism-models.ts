@@ -316,15 +316,16 @@ export interface RawExtendedFit {
 /**
  * Least-squares fit of an extended model to `d` (enzyme concentration `e` for the tight-binding
  * family, same unit as the inhibitor): from `base` with the extra term at 0, and from each of the
- * best two grid starts whose projected RSS is already below that solution (a different basin);
- * the lowest RSS wins. On data without the extra effect the grid starts lose and one solve is
- * done, which keeps the cost of the extended families near that of the standard fits.
+ * best two grid starts whose projected RSS is already below that solution (a different basin) —
+ * or, given `nested` fits of simpler members of the family, from each of their solutions; the
+ * lowest RSS wins. On data without the extra effect the grid starts lose and one solve is done,
+ * which keeps the cost of the extended families near that of the standard fits.
  */
 export function fitExtendedModel(
   model: ExtendedModel,
   d: MechanismData,
   base: StandardStart,
-  options: { enzymeConc?: number; sMax: number; iRef: number },
+  options: { enzymeConc?: number; sMax: number; iRef: number; nested?: readonly RawExtendedFit[] },
 ): RawExtendedFit {
   const e = options.enzymeConc ?? 0;
   if (DEFS[model].family === "tight-binding" && !(e > 0))
@@ -334,7 +335,14 @@ export function fitExtendedModel(
   let best: ReturnType<typeof levenbergMarquardt> | null = null;
   const first = levenbergMarquardt(problem, baseStart);
   if (Number.isFinite(first.rss)) best = { ...first, theta: Float64Array.from(first.theta) };
-  for (const start of gridStarts(model, d, base, e, options.sMax, options.iRef)) {
+  // A model with fitted nested members starts from their solutions instead of a grid: LM never
+  // raises RSS, so it ends at or below every one of them (as mixed does among the four).
+  const starts = options.nested
+    ? options.nested
+        .filter((f) => Number.isFinite(f.rss))
+        .map((f) => ({ rss: f.rss, theta: fromSlots(model, toSlots(f.model, f.theta)) }))
+    : gridStarts(model, d, base, e, options.sMax, options.iRef);
+  for (const start of starts) {
     if (best !== null && !(start.rss < best.rss)) continue;
     const res = levenbergMarquardt(problem, start.theta);
     if (Number.isFinite(res.rss) && (best === null || res.rss < best.rss))
@@ -407,8 +415,12 @@ export function adequacyContext(d: MechanismData, order: "series" | "substrate" 
   const n = d.n;
   const idx = new Array<number>(n);
   for (let k = 0; k < n; k++) idx[k] = k;
-  if (order === "series") idx.sort((x, y) => d.i[x]! - d.i[y]! || d.s[x]! - d.s[y]! || x - y);
-  else idx.sort((x, y) => d.s[x]! - d.s[y]! || d.i[x]! - d.i[y]! || x - y);
+  const [major, minor] = order === "series" ? [d.i, d.s] : [d.s, d.i];
+  // Plates are usually read out already in this order: sort only when they are not.
+  let sorted = true;
+  for (let k = 1; k < n && sorted; k++)
+    sorted = major[k - 1]! < major[k]! || (major[k - 1] === major[k] && minor[k - 1]! <= minor[k]!);
+  if (!sorted) idx.sort((x, y) => major[x]! - major[y]! || minor[x]! - minor[y]! || x - y);
   let weighted = false;
   for (let k = 0; k < n; k++) if (d.w[k] !== 1) weighted = true;
   // Replicates sit next to each other in either order: walk the runs of equal (S, I).
