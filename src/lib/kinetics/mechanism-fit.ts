@@ -659,6 +659,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
     enzymeConc: options.enzymeConc ?? null,
     extendedModels: options.extendedModels ?? "auto",
     fragile,
+    unequalScatter: weightingChoice.test?.weighting === "relative" && requested === "none",
   });
 
   // --- outliers: ROUT on the recommended model (the chosen one when none is adequate), on the

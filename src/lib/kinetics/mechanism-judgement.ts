@@ -8,8 +8,9 @@
  *    labels the call "inadequate", never "clear".
  * 2. Extended families are fitted only when called for (common practice; the screens are cheap):
  *    - substrate inhibition when rates fall at the top of the uninhibited series (the top mean is
- *      more than 2 SE below the peak) or the score screen for a Haldane term is positive (p < 0.01);
- *    - partial inhibition when the score screen for ESI turnover is positive (p < 0.01);
+ *      more than 2 SE below the peak) or the score screen for a Haldane term is positive
+ *      (p < SCREEN_ALPHA, 0.001);
+ *    - partial inhibition when the score screen for ESI turnover is positive (p < 0.001);
  *    - tight binding when the enzyme concentration is given and the chosen model's smallest
  *      inhibition constant is below 10·[E] (Copeland 2005 [from memory]; science.md: IC50 < ~10·E);
  *    - all of them (tight binding only with [E]) when the chosen model is inadequate.
@@ -23,8 +24,9 @@
  *    the four is recommended (the four's constants would mislead) or when nothing is adequate;
  *    otherwise the four-model label, with "clear" lowered to "ambiguous" when a caller's check
  *    (weighting, outliers) shows the call is fragile. The recommendation has its own label:
- *    "ambiguous" when another adequate candidate, other than a nested extension it was preferred to,
- *    is within ΔAICc 2.
+ *    "ambiguous" when another adequate candidate is within ΔAICc 2, when a simpler nested candidate
+ *    is rejected only at p ≥ CLEAR_F_ALPHA, when a substrate-inhibition or partial model is
+ *    preferred although the standard choice passed its adequacy checks, or when the call is fragile.
  */
 import { aicc, extraSumOfSquaresFTest, type FTestResult } from "./model-selection";
 import { INHIBITION_MODELS, MODEL_PARAMETER_COUNT, type InhibitionModel } from "./inhibition-models";
@@ -70,8 +72,14 @@ export interface MechanismFlag {
   message: string;
 }
 
-/** p below which a score screen calls for an extended fit (the adequacy level, 0.01). */
-export const SCREEN_ALPHA = 0.01;
+/**
+ * p below which a score screen calls for an extended fit. Each screen run at 0.01 sent about 1 % of
+ * clean matrices to the extended fits and a model outside the four won there almost every time
+ * (the screen and the F-test measure the same thing); at 0.001 every difficult invented case in
+ * mechanism-judgement.test.ts is still caught (their p are 1e-5 and below) and clean matrices
+ * labelled inadequate fall from about 2 % to 1 %.
+ */
+export const SCREEN_ALPHA = 0.001;
 /** Tight binding is considered when the smallest Ki is below this multiple of [E] (common practice). */
 export const TIGHT_BINDING_RATIO = 10;
 /** Nested-model preference: the simpler model stays unless the F-test rejects it at this level. */
@@ -119,6 +127,11 @@ export interface JudgementInput {
   extendedModels: "auto" | "all" | "none";
   /** Findings of the caller's checks that make the standard call fragile (weighting, outliers). */
   fragile: string[];
+  /**
+   * The replicates show scatter growing with the rate while the fit is unweighted: the screens and
+   * F-tests then overweight the largest rates, so nothing outside the four is recommended as clear.
+   */
+  unequalScatter?: boolean;
 }
 
 export interface MechanismScreens {
@@ -401,11 +414,15 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
     const family = alt ? alt.family : "standard";
     const mechanism = alt ? alt.mechanism : (rec.model as InhibitionModel);
     const std = alt ? null : models[rec.model as InhibitionModel];
+    // A model outside the four is clearly needed only when the standard choice fails its own
+    // adequacy checks (or, for tight binding, when [E] puts Ki in range: physics, not a test).
+    const doubtful =
+      alt !== undefined && ((alt.family !== "tight-binding" && !inadequate) || input.unequalScatter === true);
     recommended = {
       model: rec.model,
       family,
       mechanism,
-      label: rival || weakly || input.fragile.length ? "ambiguous" : "clear",
+      label: rival || weakly || doubtful || input.fragile.length ? "ambiguous" : "clear",
       kic: alt ? alt.kic : { value: std!.kic, se: std!.se.kic, ci95: std!.ci95.kic },
       kiu: alt ? alt.kiu : { value: std!.kiu, se: std!.se.kiu, ci95: std!.ci95.kiu },
       reason: recommendationReason(rec, rival ?? null, weakly ?? null, tbNear, simplified),
