@@ -49,10 +49,12 @@ def main():
     groups = {}
     with open(path, newline="") as fh:
         reader = csv.DictReader(fh)
+        # The response column may carry its unit, e.g. "response (% inhibition)".
+        response = next(h for h in reader.fieldnames if h.strip().lower().startswith("response"))
         for row in reader:
             groups.setdefault(row["compound"], ([], []))
             groups[row["compound"]][0].append(float(row["concentration"]))
-            groups[row["compound"]][1].append(float(row["response"]))
+            groups[row["compound"]][1].append(float(row[response]))
     tq = {}
     out = []
     warnings.simplefilter("ignore")

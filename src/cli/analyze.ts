@@ -7,7 +7,8 @@
  *   npm run -s analyze -- mechanism FILE.csv [options]
  *
  * `npm run analyze` runs this file prebuilt (scripts/analyze.cjs, an esbuild bundle), and large
- * batches are split over worker threads (one per core) with the output in input order. JSON on
+ * batches can be split over worker threads (one per core but one, see threadsWanted) with the
+ * output in input order, byte for byte as on one thread. JSON on
  * stdout. A file that cannot be read — unreadable, a missing column, a cell that is not a number,
  * a negative concentration, an unknown option — prints one line on stderr naming the line and
  * column, exits with code 2 and prints nothing on stdout. A compound that cannot be fitted gets
@@ -240,11 +241,17 @@ export const PARALLEL_MIN_COST_US = 250_000;
 /** Files smaller than this are not worth starting workers for before they are read. */
 const PARALLEL_MIN_BYTES = 400_000;
 
-/** Threads to use: ANALYZE_THREADS when set (tests, benchmarks), else one per core. */
+/**
+ * Threads to use: ANALYZE_THREADS when set (tests, benchmarks), else one per core but one. A
+ * single thread already keeps a second core busy with V8's background compiler and garbage
+ * collector (1.05 s of CPU in 0.72 s for 10⁴ curves here), and on this 2-core machine a second
+ * analysis thread made the command slower, not faster: 0.90 s instead of 0.72 s for 10⁴ curves,
+ * 3.2 s instead of 2.0 s for 4·10⁴ (docs/benchmarks.md). Not measured on more cores.
+ */
 function threadsWanted(): number {
   const env = Number(process.env.ANALYZE_THREADS);
   if (Number.isInteger(env) && env > 0) return env;
-  return availableParallelism();
+  return Math.max(1, Math.min(8, availableParallelism() - 1));
 }
 
 /** Contiguous slices of about equal cost, so that concatenating the outputs keeps input order. */
@@ -280,6 +287,7 @@ function totalCost(work: Jobs): number {
 
 /** What a worker is given: the same argv as the command, and which of `parts` slices is its own. */
 interface WorkerInput {
+  analyzeWorker: true;
   argv: string[];
   part: number;
   parts: number;
@@ -293,7 +301,8 @@ interface WorkerInput {
 function startWorkers(argv: string[], parts: number): { results: Promise<string[] | null>[]; stop: () => void } {
   const workers = Array.from(
     { length: parts - 1 },
-    (_, k) => new Worker(__filename, { workerData: { argv, part: k + 1, parts } satisfies WorkerInput }),
+    (_, k) =>
+      new Worker(__filename, { workerData: { analyzeWorker: true, argv, part: k + 1, parts } satisfies WorkerInput }),
   );
   const results = workers.map(
     (w) =>
@@ -422,5 +431,13 @@ function workerMain(input: WorkerInput): void {
   parentPort!.postMessage(texts);
 }
 
-if (isMainThread) void main();
-else workerMain(workerData as WorkerInput);
+/**
+ * Run as the command (the launcher scripts/analyze.cjs, the bundle itself, or this file under
+ * tsx), not when a test imports one of its functions.
+ */
+const isEntry = /(^|[\\/])analyze\.(ts|cjs)$/.test(process.argv[1] ?? "");
+
+const asWorker = workerData as Partial<WorkerInput> | null;
+if (isMainThread) {
+  if (isEntry) void main();
+} else if (asWorker?.analyzeWorker === true) workerMain(asWorker as WorkerInput);
