@@ -244,9 +244,9 @@ const PARALLEL_MIN_BYTES = 400_000;
 /**
  * Threads to use: ANALYZE_THREADS when set (tests, benchmarks), else one per core but one. A
  * single thread already keeps a second core busy with V8's background compiler and garbage
- * collector (1.05 s of CPU in 0.72 s for 10⁴ curves here), and on this 2-core machine a second
- * analysis thread made the command slower, not faster: 0.90 s instead of 0.72 s for 10⁴ curves,
- * 3.2 s instead of 2.0 s for 4·10⁴ (docs/benchmarks.md). Not measured on more cores.
+ * collector (1.05 s of CPU in 0.74 s for 10⁴ curves here), and on this 2-core machine a second
+ * analysis thread did not pay: 0.91 s instead of 0.74 s for 10⁴ curves, 1.85 s instead of 1.95 s
+ * for 4·10⁴, with 0.5–1 s more CPU (docs/benchmarks.md). Not measured on more cores.
  */
 function threadsWanted(): number {
   const env = Number(process.env.ANALYZE_THREADS);
