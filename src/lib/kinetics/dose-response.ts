@@ -205,17 +205,13 @@ export function analyseCurve(
   else if (keys === null)
     weighting = { used: "none", chosen: "auto", reason: "no replicate wells to judge the scatter by: unweighted" };
   else {
-    const choice = chooseWeighting(keys, ys);
+    const choice = autoWeighting(xs, ys, keys, response, options, q);
     weighting = { used: choice.weighting, chosen: "auto", reason: choice.reason };
     if (choice.slope !== undefined) weighting.slope = choice.slope;
     if (choice.p !== undefined) weighting.p = choice.p;
   }
-  const settings: Settings = { weighting: weighting.used, response };
-  if (options.fixedTop !== undefined) settings.fixedTop = options.fixedTop;
-  if (options.fixedBottom !== undefined) settings.fixedBottom = options.fixedBottom;
-
-  const all: number[] = new Array<number>(n);
-  for (let i = 0; i < n; i++) all[i] = i;
+  const settings = curveSettings(weighting.used, response, options);
+  const all = indices(n);
   const core = judge(xs, ys, keys, all, settings);
   const base = { weighting, outliers: [] as CurveOutlier[], robustScale: null as number | null };
   const c = core.judgement;
@@ -257,6 +253,51 @@ export function analyseCurve(
     c.reason = `${c.reason}; without ${wells} the curve is ${then}`;
   }
   return assemble(c, base, "all-points", { ...without, basis: "outliers-excluded" });
+}
+
+function indices(n: number): number[] {
+  const all: number[] = new Array<number>(n);
+  for (let i = 0; i < n; i++) all[i] = i;
+  return all;
+}
+
+function curveSettings(weighting: Weighting, response: Settings["response"], options: AnalyseCurveOptions): Settings {
+  const settings: Settings = { weighting, response };
+  if (options.fixedTop !== undefined) settings.fixedTop = options.fixedTop;
+  if (options.fixedBottom !== undefined) settings.fixedBottom = options.fixedBottom;
+  return settings;
+}
+
+/**
+ * Weighting "auto": the replicate-SD trend (weighting.ts), but one wild well inflates its group's
+ * SD and can fake that trend — after which relative weighting shrinks its residual and hides it.
+ * So a choice of relative is checked once more without the wells an unweighted outlier search
+ * (ROUT, leave-one-out starts) proposes; if the trend goes with them, the curve stays unweighted.
+ */
+function autoWeighting(
+  xs: number[],
+  ys: number[],
+  keys: readonly string[],
+  response: Settings["response"],
+  options: AnalyseCurveOptions,
+  q: number,
+): ReturnType<typeof chooseWeighting> {
+  const choice = chooseWeighting(keys, ys);
+  if (choice.weighting !== "relative") return choice;
+  const plain = curveSettings("none", response, options);
+  const pre = judge(xs, ys, keys, indices(xs.length), plain);
+  if (!pre.fit || !pre.residuals) return choice;
+  const search = outlierSearch(xs, ys, pre, plain, q, true);
+  if (!search || search.outliers.length === 0) return choice;
+  const out = new Set(search.outliers.map((o) => o.index));
+  const keep = (_: unknown, i: number) => !out.has(i);
+  const again = chooseWeighting(keys.filter(keep), ys.filter(keep));
+  if (again.weighting === "relative") return choice;
+  const wells = out.size === 1 ? "the well" : `the ${out.size} wells`;
+  return {
+    ...again,
+    reason: `${again.reason}, judged without ${wells} an unweighted outlier search proposes (with ${out.size === 1 ? "it" : "them"}: ${choice.reason})`,
+  };
 }
 
 /** The result object, written out field by field (one fixed shape: measurably faster than spreads). */

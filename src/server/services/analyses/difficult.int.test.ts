@@ -159,17 +159,14 @@ const hitRowsOf = async (ids: string[]) =>
 
 describe("dose-response plate with difficult compounds (invented)", () => {
   it("inactive, weak and activator get no IC50 and say why; partial and tight binder are flagged; the wild well is proposed", async () => {
-    // Unweighted: with weighting "auto" the wild well (one duplicate of a top-concentration pair)
-    // tips the replicate-SD trend to relative weighting on this plate, and then it is no longer
-    // proposed — a known limitation of choosing the weighting before looking for outliers.
-    const { rows, analysis } = await analysed("Difficult DR", "dose-response", [runs.dose!], { weighting: "none" });
+    const { rows, analysis } = await analysed("Difficult DR", "dose-response", [runs.dose!]);
     const by = new Map(rows.map((r) => [r.compoundId, r]));
     const get = (id: string) => {
       const r = by.get(doseIds.get(id)!)!;
       if (r.kind !== "dose-response") throw new Error("expected a dose-response result");
       return r;
     };
-    expect(analysis.inputs.settings.resolved).toMatchObject({ weighting: "none", robust: false, enzymeNm: 10 });
+    expect(analysis.inputs.settings.resolved).toMatchObject({ weighting: "auto", robust: false, enzymeNm: 10 });
 
     for (const id of ["inactive", "weak"]) {
       const r = get(id);
@@ -211,10 +208,7 @@ describe("dose-response plate with difficult compounds (invented)", () => {
   });
 
   it("robust on (a setting, in the provenance) reports the IC50 without the wild well, within 2-fold", async () => {
-    const { rows, analysis } = await analysed("Difficult DR robust", "dose-response", [runs.dose!], {
-      robust: true,
-      weighting: "none",
-    });
+    const { rows, analysis } = await analysed("Difficult DR robust", "dose-response", [runs.dose!], { robust: true });
     expect(analysis.inputs.settings.resolved).toMatchObject({ robust: true });
     const r = rows.find((x) => x.compoundId === doseIds.get("wild-well"))!;
     expect(r.flags).toContain("outliers-excluded");
