@@ -11,6 +11,7 @@ import {
   type CompoundResult,
 } from "@/lib/analysis/compute";
 import { isFittedMechanism } from "@/lib/analysis/detail";
+import { engineOptionsFrom } from "@/lib/analysis/settings";
 import { refreshHitRows } from "../hits";
 import { chengPrusoffCheck, measuredIc50s } from "./cheng-prusoff";
 
@@ -56,20 +57,9 @@ async function compute(
   readings: AnalysisReading[],
 ): Promise<CompoundResult[]> {
   if (inputs.kind === "single-dose") return analyseSingleDose(readings, hitRuleOf(inputs)).results;
-  const s = inputs.settings;
-  // Inputs recorded before weighting and robust were resolved: unweighted unless set, not robust.
-  const weighting = s.resolved.weighting ?? s.weighting ?? "none";
-  const robust = s.resolved.robust ?? s.robust ?? false;
-  const enzymeUm = s.resolved.enzymeNm !== null ? s.resolved.enzymeNm / 1000 : null;
-  if (inputs.kind === "dose-response")
-    return analyseDoseResponse(readings, {
-      fixTopPct: s.fixTopPct ?? null,
-      fixBottomPct: s.fixBottomPct ?? null,
-      enzymeUm,
-      weighting,
-      robust,
-    });
-  const results = analyseMechanism(readings, { weighting, enzymeUm, robust });
+  const options = engineOptionsFrom(inputs.settings);
+  if (inputs.kind === "dose-response") return analyseDoseResponse(readings, options.doseResponse);
+  const results = analyseMechanism(readings, options.mechanism);
   const measured = await measuredIc50s(
     campaignId,
     results.map((r) => r.compoundId),

@@ -2,6 +2,7 @@
 import { useActionState, useCallback, useEffect, useMemo, useRef, useState } from "react";
 import type { ActionState } from "@/server/action";
 import { FormMessage } from "@/components/forms/form-bits";
+import { formatP } from "./figures";
 
 /**
  * Curation of one result's wells on its page: a click on a point leaves it out of the fit (or
@@ -218,5 +219,40 @@ export function CurationPanel<W extends CurationWell>({
       ) : null}
       <FormMessage state={state} />
     </div>
+  );
+}
+
+/** The proposed outliers of a result, each with its figures and a one-click exclusion (with the proposal's reason). */
+export function OutlierProposals<W extends CurationWell>({
+  proposed,
+  describe,
+  residualNote,
+  mayEdit,
+  onExclude,
+}: {
+  proposed: { w: W; o: { residual: number | null; p: number | null } }[];
+  describe: (w: W) => string;
+  residualNote: string;
+  mayEdit: boolean;
+  onExclude: (w: W) => void;
+}) {
+  return (
+    <ul className="flex flex-col gap-1">
+      {proposed.map(({ w, o }) => (
+        <li key={w.key} className="flex flex-wrap items-center gap-x-2 gap-y-1">
+          <span className="num">{describe(w)}</span>
+          {o.residual !== null ? (
+            <span className="num text-xs text-ink-muted">
+              standardised residual {o.residual.toFixed(1)} ({residualNote}){o.p !== null ? `, p ${formatP(o.p)}` : ""}
+            </span>
+          ) : null}
+          {mayEdit ? (
+            <button type="button" className="btn-quiet py-0.5" onClick={() => onExclude(w)}>
+              Exclude {w.well}
+            </button>
+          ) : null}
+        </li>
+      ))}
+    </ul>
   );
 }

@@ -5,8 +5,8 @@ import { analyseDoseResponseCompound } from "@/lib/analysis/compute";
 import { parseResultDetail, type DoseResponseDetail } from "@/lib/analysis/detail";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { DoseResponsePlot, type PlotWell } from "@/components/plots/dose-response-plot";
-import { CurationPanel, proposalReason, useCuration, type CurationWell } from "./curation";
-import { LackOfFitShort, RunsShort, WeightingShort, WeightingText, formatP, qText } from "./figures";
+import { CurationPanel, OutlierProposals, proposalReason, useCuration, type CurationWell } from "./curation";
+import { LackOfFitShort, RunsShort, WeightingShort, WeightingText, qText } from "./figures";
 import { OUTLIER_Q } from "@/lib/analysis/settings";
 import { Flags } from "./labels";
 
@@ -257,28 +257,13 @@ export function DoseResponseCuration({
                 <span className="chip mr-1 bg-warn-soft text-warn">{proposalLabel}</span>
                 robust fit; nothing is dropped until a person excludes it
               </p>
-              <ul className="flex flex-col gap-1">
-                {proposed.map(({ w, o }) => (
-                  <li key={w.key} className="flex flex-wrap items-center gap-x-2 gap-y-1">
-                    <span className="num">{describe(w)}</span>
-                    {o.residual !== null ? (
-                      <span className="num text-xs text-ink-muted">
-                        standardised residual {o.residual.toFixed(1)} (residual / robust SD, dimensionless)
-                        {o.p !== null ? `, p ${formatP(o.p)}` : ""}
-                      </span>
-                    ) : null}
-                    {mayEdit ? (
-                      <button
-                        type="button"
-                        className="btn-quiet py-0.5"
-                        onClick={() => c.toggle(w.key, proposalReason(qPct))}
-                      >
-                        Exclude {w.well}
-                      </button>
-                    ) : null}
-                  </li>
-                ))}
-              </ul>
+              <OutlierProposals
+                proposed={proposed}
+                describe={describe}
+                residualNote="residual / robust SD, dimensionless"
+                mayEdit={mayEdit}
+                onExclude={(w) => c.toggle(w.key, proposalReason(qPct))}
+              />
             </div>
           ) : null}
         </div>

@@ -9,8 +9,8 @@ import type { InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { DoubleReciprocalPlot, RateVsSubstratePlot, ResidualPlot } from "@/components/plots/mechanism-plots";
 import type { PlotWell } from "@/components/plots/marks";
-import { CurationPanel, proposalReason, useCuration, type CurationWell } from "./curation";
-import { AdequacyVerdict, LackOfFitText, RunsText, WeightingText, formatP, qText } from "./figures";
+import { CurationPanel, OutlierProposals, proposalReason, useCuration, type CurationWell } from "./curation";
+import { AdequacyVerdict, LackOfFitText, RunsText, WeightingText, qText } from "./figures";
 import { OUTLIER_Q } from "@/lib/analysis/settings";
 import { Flags } from "./labels";
 import { AlternativeModels, ModelComparison, constantText } from "./mechanism-tables";
@@ -283,28 +283,13 @@ export function MechanismCuration({
                   </span>
                 ) : null}
               </p>
-              <ul className="flex flex-col gap-1">
-                {proposed.map(({ w, o }) => (
-                  <li key={w.key} className="flex flex-wrap items-center gap-x-2 gap-y-1">
-                    <span className="num">{describe(w)}</span>
-                    {o.residual !== null ? (
-                      <span className="num text-xs text-ink-muted">
-                        standardised residual {o.residual.toFixed(1)} (dimensionless)
-                        {o.p !== null ? `, p ${formatP(o.p)}` : ""}
-                      </span>
-                    ) : null}
-                    {mayEdit ? (
-                      <button
-                        type="button"
-                        className="btn-quiet py-0.5"
-                        onClick={() => c.toggle(w.key, proposalReason(qPct))}
-                      >
-                        Exclude {w.well}
-                      </button>
-                    ) : null}
-                  </li>
-                ))}
-              </ul>
+              <OutlierProposals
+                proposed={proposed}
+                describe={describe}
+                residualNote="dimensionless"
+                mayEdit={mayEdit}
+                onExclude={(w) => c.toggle(w.key, proposalReason(qPct))}
+              />
             </div>
           ) : null}
         </div>

@@ -1,3 +1,4 @@
+import { engineOptionsFrom } from "@/lib/analysis/settings";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { pageCampaign } from "@/server/auth/page-guard";
@@ -39,17 +40,6 @@ const keyOf = (runId: string, well: string) => `${runId}|${well}`;
  * The options the pipeline (services/analyses/run.ts) passes the engine for these inputs, so the
  * browser's preview computes what the next analysis will store.
  */
-function engineOptions(inputs: AnalysisInputs) {
-  const s = inputs.settings;
-  const weighting = s.resolved.weighting ?? s.weighting ?? "none";
-  const robust = s.resolved.robust ?? s.robust ?? false;
-  const enzymeUm = s.resolved.enzymeNm !== null ? s.resolved.enzymeNm / 1000 : null;
-  return {
-    doseResponse: { fixTopPct: s.fixTopPct ?? null, fixBottomPct: s.fixBottomPct ?? null, enzymeUm, weighting, robust },
-    mechanism: { weighting, enzymeUm, robust },
-  };
-}
-
 export default async function CompoundResultPage({
   params,
 }: {
@@ -90,7 +80,7 @@ export default async function CompoundResultPage({
       reason: openMasks.get(key)?.reason ?? analysisMasks.get(key)?.reason ?? null,
     };
   };
-  const options = engineOptions(pending.inputs);
+  const options = engineOptionsFrom(pending.inputs.settings);
   const latest = history[0] ?? null;
   const upToDate = current.inputHash === pending.hash;
   const outOfDate = !upToDate || (latest !== null && latest.status !== "done" && latest.status !== "failed");
