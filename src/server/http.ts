@@ -3,6 +3,7 @@ import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { AppError, isNextControlFlow, toPublicError } from "./errors";
 import { requireSameOrigin } from "./auth/guard";
+import { readBodyCapped } from "./multipart";
 
 type Ctx<P> = { params: Promise<P> };
 
@@ -24,10 +25,15 @@ export function route<P = Record<string, never>>(fn: (req: Request, params: P) =
   };
 }
 
+/** JSON bodies are forms and settings, never files; the largest is a 1,000,000-character molfile (chosen here). */
+export const MAX_JSON_BYTES = 2 * 1024 * 1024;
+
+/** Reads a JSON body with its byte cap enforced while it streams (Content-Length may be absent or wrong). */
 export async function parseJson<S extends z.ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
+  const bytes = await readBodyCapped(req, MAX_JSON_BYTES, "The request body");
   let raw: unknown;
   try {
-    raw = await req.json();
+    raw = JSON.parse(new TextDecoder().decode(bytes));
   } catch {
     throw new AppError("bad_request", "The request body must be JSON.");
   }
