@@ -84,6 +84,22 @@ export interface KineticExport extends ExportBase {
 
 export type ReaderExport = EndpointExport | KineticExport;
 
+/**
+ * Largest magnitude accepted as a reading or a read time. Readers report counts, RFU or OD far
+ * below this (a 32-bit counter stops near 4.3e9; common practice, from memory), and with readings
+ * bounded here the means, SDs, spans and rates of 1536 wells stay finite, so QC and % inhibition
+ * never meet Infinity or NaN. A value such as 1e308 parses as a finite double but overflows as
+ * soon as it is squared or subtracted from its negative, so it is refused at parse.
+ */
+export const MAX_READING_MAGNITUDE = 1e12;
+/** Read times in seconds: about 115 days, far beyond any kinetic read (chosen here). */
+export const MAX_TIME_S = 1e7;
+
+function outOfRange(raw: string, v: number, max: number, what: string): string | undefined {
+  if (Number.isFinite(v) && Math.abs(v) <= max) return undefined;
+  return `${raw.trim().length > 40 ? quoteCell(raw.trim()) : raw.trim()} is not a finite ${what} (the accepted range is ±${max.toExponential(0).replace("+", "")})`;
+}
+
 export type ReaderExportResult =
   { readonly ok: true; readonly export: ReaderExport } | { readonly ok: false; readonly issues: PlateIssue[] };
 
@@ -311,6 +327,11 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
       issues.at(row, h.value, name, `${quoteCell(rawValue.trim())} is not a number`);
       continue;
     }
+    const valueRange = outOfRange(rawValue, value, MAX_READING_MAGNITUDE, "reading");
+    if (valueRange) {
+      issues.at(row, h.value, name, valueRange);
+      continue;
+    }
     if (found.row > maxRow) maxRow = found.row;
     if (found.column > maxCol) maxCol = found.column;
     if (!time) {
@@ -333,6 +354,11 @@ function parseLong(rows: TableRow[], h: LongHeader, ctx: Ctx, options: ParseExpo
     }
     if (t < 0) {
       issues.at(row, time.col, name, `time ${t} is negative`);
+      continue;
+    }
+    const timeRange = outOfRange(rawTime, t * time.unitSeconds, MAX_TIME_S, "read time in seconds");
+    if (timeRange) {
+      issues.at(row, time.col, name, `time ${timeRange}`);
       continue;
     }
     const timeS = time.unitSeconds === 1 ? t : Math.round(t * time.unitSeconds * 1e9) / 1e9;
@@ -564,6 +590,11 @@ function parseGrids(rows: TableRow[], ctx: Ctx, options: ParseExportOptions): Re
         const v = parseNumber(raw, ctx.decimalComma);
         if (v === undefined) {
           issues.at(row, col, well, `${quoteCell(raw.trim())} is not a number`);
+          continue;
+        }
+        const range = outOfRange(raw, v, MAX_READING_MAGNITUDE, "reading");
+        if (range) {
+          issues.at(row, col, well, range);
           continue;
         }
         const idx = rr * d.columns + c;

@@ -4,6 +4,8 @@
 // and SciPy itself (python3 on the machine) for Z′ and CVs of a fixture plate. The fixture files
 // are INVENTED data (fixtures/plates/README.md); their "truth" is the simulator's input, used
 // only as a consistency check, not as a reference.
+// The non-finite and range checks at the end are common practice (IEEE 754 doubles: NaN compares
+// false with every threshold); their plates are invented.
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import { describe, expect, it } from "vitest";
@@ -183,4 +185,69 @@ describe("fixture plates (INVENTED data)", () => {
     expect(qc.full!.cvApplies).toBe(false); // no-enzyme rate ≈ 0
     expect(qc.signalUnit).toBe("signal units/s");
   });
+});
+
+describe("non-finite figures never pass QC", () => {
+  const well = (w: string, role: QcInputWell["role"], signal: number): QcInputWell => ({
+    well: w,
+    role,
+    signal,
+    isEdge: false,
+    masked: false,
+  });
+  const opts = { readout: "endpoint", direction: "falls", minZPrime: 0.5, maxCvPct: 20 } as const;
+
+  it("controls whose SD overflows (±1e308 readings, if one ever got past the parser) fail with the reason", () => {
+    const wells = [
+      well("A1", "neutral", 1e308),
+      well("A2", "neutral", -1e308),
+      well("B1", "full", 100),
+      well("B2", "full", 101),
+      well("C1", "sample", 500),
+    ];
+    const { qc, inhibitionPct } = computeRunQc(wells, opts);
+    expect(qc.verdict).toBe("fail");
+    expect(qc.reasons.some((r) => r.includes("not a finite number"))).toBe(true);
+    for (const x of [qc.zPrime, qc.signalToBackground, qc.signalWindow, qc.cvNeutralPct, qc.cvFullPct])
+      expect(x === null || Number.isFinite(x)).toBe(true);
+    for (const v of inhibitionPct.values()) expect(v === null || Number.isFinite(v)).toBe(true);
+  });
+
+  it("a NaN signal in a control fails QC instead of comparing false with the thresholds", () => {
+    const wells = [
+      well("A1", "neutral", NaN),
+      well("A2", "neutral", 1000),
+      well("B1", "full", 100),
+      well("B2", "full", 101),
+    ];
+    const { qc } = computeRunQc(wells, opts);
+    expect(qc.verdict).toBe("fail");
+    expect(qc.reasons[0]).toBe("1 well has a signal that is not a finite number (A1), so the plate cannot pass QC");
+  });
+});
+
+describe("readings outside a reader's range are refused at parse with file, line and well", () => {
+  const plate = (value: string) => {
+    const rows = ["well,value"];
+    for (let r = 0; r < 8; r++)
+      for (let c = 1; c <= 12; c++) rows.push(`${"ABCDEFGH"[r]}${c},${r === 2 && c === 7 ? value : 100}`);
+    return rows.join("\n");
+  };
+  for (const v of ["1e308", "-1.5e300", "2e12"]) {
+    it(v, () => {
+      const r = parseReaderExportText(plate(v), "p.csv", { format: 96 });
+      expect(r.ok).toBe(false);
+      if (r.ok) return;
+      expect(r.issues[0]!.text).toBe(
+        `p.csv line 32, well C7: ${v} is not a finite reading (the accepted range is ±1e12)`,
+      );
+    });
+  }
+  for (const v of ["NaN", "Infinity", "inf"]) {
+    it(`${v} is not a number`, () => {
+      const r = parseReaderExportText(plate(v), "p.csv", { format: 96 });
+      expect(r.ok).toBe(false);
+      if (!r.ok) expect(r.issues[0]!.text).toBe(`p.csv line 32, well C7: "${v}" is not a number`);
+    });
+  }
 });

@@ -229,7 +229,8 @@ function medianOf(xs: number[]): number {
 }
 
 function edgeCheck(wells: readonly QcInputWell[]): EdgeCheck | null {
-  const pick = (role: WellRole) => wells.filter((w) => w.role === role && !w.masked && w.signal !== null);
+  const pick = (role: WellRole) =>
+    wells.filter((w) => w.role === role && !w.masked && w.signal !== null && Number.isFinite(w.signal));
   const neutral = pick("neutral");
   const try_ = (basis: EdgeCheck["basis"], list: QcInputWell[]): EdgeCheck | null => {
     const outer = list.filter((w) => w.isEdge).map((w) => w.signal!);
@@ -262,11 +263,23 @@ export function computeRunQc(
   wells: readonly QcInputWell[],
   o: QcOptions,
 ): { qc: RunQc; inhibitionPct: Map<string, number | null> } {
+  const reasons: string[] = [];
+  // NaN or ±Infinity signals (a rate over a zero time span, an overflow) are left out of every
+  // figure and fail the plate with their wells named.
+  const nonFinite = wells.filter((w) => w.signal !== null && !w.masked && !Number.isFinite(w.signal));
+  if (nonFinite.length > 0)
+    reasons.push(
+      `${nonFinite.length} well${nonFinite.length > 1 ? "s have a signal" : " has a signal"} that is not a finite number (${nonFinite
+        .slice(0, 5)
+        .map((w) => w.well)
+        .join(", ")}${nonFinite.length > 5 ? ", …" : ""}), so the plate cannot pass QC`,
+    );
   const live = (role: WellRole) =>
-    wells.filter((w) => w.role === role && !w.masked && w.signal !== null).map((w) => w.signal!);
+    wells
+      .filter((w) => w.role === role && !w.masked && w.signal !== null && Number.isFinite(w.signal))
+      .map((w) => w.signal!);
   const neutralValues = live("neutral");
   const fullValues = live("full");
-  const reasons: string[] = [];
   const warnings: string[] = [];
   let neutral: ControlFigures | null = null;
   let full: ControlFigures | null = null;
@@ -328,15 +341,38 @@ export function computeRunQc(
       `${nonLinearWells} wells have a curved progress curve; their initial rate uses the early linear window only`,
     );
 
-  const inhibitionPct = new Map<string, number | null>();
-  const canNormalise = neutral !== null && full !== null && neutral.mean !== full.mean;
-  for (const w of wells) {
-    inhibitionPct.set(
-      w.well,
-      canNormalise && w.role !== "empty" && w.signal !== null
-        ? percentInhibition(w.signal, neutral!.mean, full!.mean)
-        : null,
+  // A figure that is NaN or ±Infinity (readings that overflow, a degenerate SD) compares false
+  // with every threshold, so without this check it would pass QC silently: it fails with its
+  // reason and is stored as null.
+  const finite = (label: string, x: number | null): number | null => {
+    if (x === null || Number.isFinite(x)) return x;
+    reasons.push(
+      `${label} is not a finite number (${String(x)}), so the plate cannot pass QC; check the control readings`,
     );
+    return null;
+  };
+  zPrime = finite("Z′", zPrime);
+  robustZPrime = finite("robust Z′", robustZPrime);
+  signalToBackground = finite("S/B", signalToBackground);
+  signalWindow = finite("the signal window", signalWindow);
+  const cvNeutralPct = finite("CV of the neutral controls", neutral?.cvPct ?? null);
+  const cvFullPct = finite("CV of the full-inhibition controls", full?.cvPct ?? null);
+  for (const [label, f] of [
+    ["neutral", neutral],
+    ["full-inhibition", full],
+  ] as const)
+    if (f && (!Number.isFinite(f.mean) || (f.sd !== null && !Number.isFinite(f.sd))))
+      reasons.push(`the ${label} controls' mean or SD is not a finite number, so the plate cannot pass QC`);
+
+  const inhibitionPct = new Map<string, number | null>();
+  const canNormalise =
+    neutral !== null && full !== null && neutral.mean !== full.mean && Number.isFinite(neutral.mean - full.mean);
+  for (const w of wells) {
+    const pct =
+      canNormalise && w.role !== "empty" && w.signal !== null && Number.isFinite(w.signal)
+        ? percentInhibition(w.signal, neutral!.mean, full!.mean)
+        : null;
+    inhibitionPct.set(w.well, pct !== null && Number.isFinite(pct) ? pct : null);
   }
   const qc: RunQc = {
     readout: o.readout,
@@ -347,8 +383,8 @@ export function computeRunQc(
     robustZPrime,
     signalToBackground,
     signalWindow,
-    cvNeutralPct: neutral?.cvPct ?? null,
-    cvFullPct: full?.cvPct ?? null,
+    cvNeutralPct,
+    cvFullPct,
     direction: { expected: o.direction, observed, ok: directionOk },
     edge,
     thresholds: { minZPrime: o.minZPrime, maxCvPct: o.maxCvPct },
