@@ -562,6 +562,48 @@ function slopeText(test: WeightingChoice): string {
   return `slope of log SD on log mean ${test.slope!.toFixed(2)} ± ${test.slopeSe!.toFixed(2)} over ${test.groups} replicate groups, p ${test.p!.toPrecision(2)}`;
 }
 
+/**
+ * Weighting "auto" for a matrix: the replicate-SD trend (weighting.ts). One wild well inflates its
+ * replicate group's SD and can fake that trend, after which relative weighting shrinks its residual
+ * and hides it. So a choice of relative is checked once more without the rows an unweighted ROUT
+ * search on the standard choice proposes; if the trend goes with them, the matrix stays unweighted
+ * and those rows are left to the outlier step (the rule analyseCurve applies to a curve). The
+ * unweighted fit is returned when it was made, so that it is not made twice.
+ */
+function autoWeighting(
+  plain: Data,
+  q: number,
+): { choice: WeightingChoice; reason: string; plainFit: StandardFit | null } {
+  const choice = chooseWeighting(adequacyContext(plain).replicates);
+  const relativeReason = (t: WeightingChoice) =>
+    `SD grows with the rate (${slopeText(t)}): relative weighting, each rate divided by the mean of its replicate group`;
+  if (choice.weighting !== "relative") return { choice, reason: choice.reason, plainFit: null };
+  let plainFit: StandardFit;
+  try {
+    plainFit = fitStandard(plain);
+  } catch {
+    return { choice, reason: relativeReason(choice), plainFit: null }; // the weighted fit reports the data problem
+  }
+  const best = plainFit.best;
+  const rout = findOutliers(makeProblem(best, plain), Array.from(plainFit.raw[best].theta), { q });
+  if (rout.outlierIndices.length === 0) return { choice, reason: relativeReason(choice), plainFit };
+  const again = chooseWeighting(adequacyContext(without(plain, new Set(rout.outlierIndices))).replicates);
+  const rows = rout.outlierIndices.map((k) => plain.rowIndex[k]! + 1);
+  const which = rows.length === 1 ? `row ${rows[0]}` : `rows ${rows.join(", ")}`;
+  if (again.weighting === "relative")
+    return {
+      choice,
+      reason: `${relativeReason(choice)}; the trend holds without ${which}, which an unweighted outlier search proposes`,
+      plainFit,
+    };
+  const it = rows.length === 1 ? "it" : "them";
+  return {
+    choice: again,
+    reason: `${again.reason}, judged without ${which}, which an unweighted outlier search proposes (with ${it}: ${slopeText(choice)}, which alone would choose relative weighting)`,
+    plainFit,
+  };
+}
+
 function num3(x: number | null): string {
   return x === null || !Number.isFinite(x) ? "—" : String(Number(x.toPrecision(3)));
 }
@@ -595,19 +637,18 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
   // --- weighting ---
   let d: Data;
   let weightingChoice: MechanismWeightingChoice;
+  let plainFit: StandardFit | null = null;
   if (requested === "auto") {
     const plain = prepare(points, "none");
-    const test = chooseWeighting(adequacyContext(plain).replicates);
-    d = test.weighting === "relative" ? groupMeanWeighted(plain) : plain;
+    const auto = autoWeighting(plain, options.outlierQ ?? DEFAULT_OUTLIER_Q);
+    plainFit = auto.plainFit;
+    d = auto.choice.weighting === "relative" ? groupMeanWeighted(plain) : plain;
     weightingChoice = {
       requested,
-      used: test.weighting,
-      basis: test.weighting === "relative" ? "replicate mean" : null,
-      reason:
-        test.weighting === "relative"
-          ? `SD grows with the rate (${slopeText(test)}): relative weighting, each rate divided by the mean of its replicate group`
-          : test.reason,
-      test,
+      used: auto.choice.weighting,
+      basis: auto.choice.weighting === "relative" ? "replicate mean" : null,
+      reason: auto.reason,
+      test: auto.choice,
     };
   } else {
     d = prepare(points, requested);
@@ -619,7 +660,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
       test: null,
     };
   }
-  const fit = fitStandard(d);
+  const fit = weightingChoice.used === "none" && plainFit ? plainFit : fitStandard(d);
   const { best, models } = fit;
 
   // --- does the call depend on the weighting? (cheap test; refit only when noise grows with rate) ---
