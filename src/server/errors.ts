@@ -39,6 +39,37 @@ export function zodDetails(e: ZodError): ErrorDetail[] {
   return e.issues.map((i) => ({ field: i.path.join(".") || undefined, message: i.message }));
 }
 
+/**
+ * Postgres refusals that bad input causes (SQLSTATE class 22 "data exception" and 54000
+ * "program limit exceeded"), each with the sentence the user sees. The edge (route() and
+ * formAction()) should refuse such input first; this is the last net, so that a value that slips
+ * through gives a 400 and not a 500. Codes from the PostgreSQL manual, appendix A "PostgreSQL
+ * Error Codes".
+ */
+const inputRefusals: Record<string, string> = {
+  "22P02": "A value has the wrong form (for example an id that is not a UUID, or text where a number belongs).",
+  "22021": "A value contains bytes that are not valid text in UTF-8.",
+  "22P05": "A value contains a character that cannot be stored (such as a NUL character).",
+  "22008": "A date or time is out of range.",
+  "22007": "A date or time has the wrong form.",
+  "22003": "A number is out of range.",
+  "22001": "A value is too long.",
+  "22023": "A value is not valid here.",
+  "2201X": "A page or row number is out of range.",
+  "2201W": "A limit is out of range.",
+  "54000": "A value is too large to be processed.",
+};
+
+/** The SQLSTATE of a Postgres error, also when it is wrapped (Drizzle's DrizzleQueryError keeps it as `cause`). */
+export function pgErrorCode(e: unknown): string | null {
+  for (let cur: unknown = e, depth = 0; cur && depth < 5; depth++) {
+    const c = cur as { code?: unknown; severity?: unknown; cause?: unknown };
+    if (typeof c.code === "string" && /^[0-9A-Z]{5}$/.test(c.code) && c.severity !== undefined) return c.code;
+    cur = c.cause;
+  }
+  return null;
+}
+
 /** Turns anything thrown into what the user may see, logging what they may not. */
 export function toPublicError(e: unknown): {
   status: number;
@@ -60,6 +91,12 @@ export function toPublicError(e: unknown): {
         details,
       },
     };
+  }
+  const pg = pgErrorCode(e);
+  if (pg && inputRefusals[pg]) {
+    // Logged: the edge validation should have refused this input before it reached Postgres.
+    console.warn(`[inhibitrack] input refused by Postgres (${pg}); the edge validation let it through`);
+    return { status: 400, body: { error: `${inputRefusals[pg]} Please check the request.`, code: "bad_request" } };
   }
   console.error("[inhibitrack] unexpected error", e);
   return { status: 500, body: { error: errorCodes.internal.message, code: "internal" } };

@@ -3,12 +3,15 @@ import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { AppError, isNextControlFlow, toPublicError } from "./errors";
 import { requireSameOrigin } from "./auth/guard";
+import { checkJson, checkParams, checkQuery } from "./edge-input";
 import { readBodyCapped } from "./multipart";
 
 type Ctx<P> = { params: Promise<P> };
 
 /**
- * Every route handler goes through here: a mutating request is checked for its origin, then the
+ * Every route handler goes through here: a mutating request is checked for its origin, the path
+ * parameters (decoded once, by Next's router) and the query string pass the edge rules
+ * (src/server/edge-input.ts: UUIDs, registry ids, no NUL, bounded numbers and dates), then the
  * handler runs (it calls the guard first), and anything thrown becomes a JSON error with the
  * right status — never a stack trace.
  */
@@ -16,7 +19,10 @@ export function route<P = Record<string, never>>(fn: (req: Request, params: P) =
   return async (req: Request, ctx: Ctx<P>): Promise<Response> => {
     try {
       if (!["GET", "HEAD", "OPTIONS"].includes(req.method)) await requireSameOrigin(req);
-      return await fn(req, ctx ? await ctx.params : ({} as P));
+      const params = ctx ? await ctx.params : ({} as P);
+      checkParams((params ?? {}) as Record<string, unknown>);
+      checkQuery(req.url);
+      return await fn(req, params);
     } catch (e) {
       if (isNextControlFlow(e)) throw e;
       const { status, body } = toPublicError(e);
@@ -37,6 +43,7 @@ export async function parseJson<S extends z.ZodType>(req: Request, schema: S): P
   } catch {
     throw new AppError("bad_request", "The request body must be JSON.");
   }
+  checkJson(raw);
   return schema.parse(raw);
 }
 
