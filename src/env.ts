@@ -22,8 +22,35 @@ const schema = z.object({
   RESEND_API_KEY: z.string().optional(),
   RESEND_BASE_URL: z.string().url().optional(),
   MAIL_FROM: z.string().default("Inhibitrack <no-reply@inhibitrack.invalid>"),
-  /** Secret for signed links (digest opt-out). Defaults to a fixed value outside production mode. */
+  /**
+   * Secret for signed links (digest opt-out). Required in production mode; elsewhere a random one
+   * is made once per installation and kept in .local/link-secret.
+   */
   LINK_SIGNING_SECRET: z.string().min(16).optional(),
+  /**
+   * Comma-separated addresses or CIDR ranges of the reverse proxies in front of the app. Only a
+   * request whose peer is one of them has its X-Forwarded-For read (the right-most hop that is not
+   * a listed proxy); otherwise the peer's own address counts. Empty: no proxy is trusted.
+   */
+  TRUSTED_PROXIES: z
+    .string()
+    .default("")
+    .transform((v) =>
+      v
+        .split(",")
+        .map((s) => s.trim())
+        .filter(Boolean),
+    )
+    .pipe(
+      z.array(
+        z
+          .string()
+          .regex(
+            /^(?:\d{1,3}(?:\.\d{1,3}){3}(?:\/\d{1,2})?|[0-9a-fA-F:]*:[0-9a-fA-F:.]*(?:\/\d{1,3})?)$/,
+            "TRUSTED_PROXIES must list IP addresses or CIDR ranges, separated by commas",
+          ),
+      ),
+    ),
   REGISTRY_PREFIX: z
     .string()
     .regex(REGISTRY_PREFIX_RE, "REGISTRY_PREFIX must look like INH-")

@@ -5,16 +5,12 @@ import { signInSchema, resetRequestSchema, resetSchema, acceptInviteSchema } fro
 import { checkCredentials, requestPasswordReset, resetPassword, acceptInvitation } from "@/server/services/accounts";
 import { clientAddress } from "@/server/auth/guard";
 import { startSession, endCurrentSession } from "@/server/auth/session";
-
-/** Only a local path may be a post-sign-in destination (no open redirect). */
-function safeNext(next: string | undefined): string {
-  return next && next.startsWith("/") && !next.startsWith("//") && !next.startsWith("/\\") ? next : "/campaigns";
-}
+import { safeNextPath } from "@/server/auth/redirect";
 
 export const signInAction = formAction(signInSchema, async ({ email, password, next }) => {
   const userId = await checkCredentials(email, password, await clientAddress());
   await startSession(userId);
-  redirect(safeNext(next));
+  redirect(safeNextPath(next));
 });
 
 export async function signOutAction(): Promise<void> {
@@ -32,13 +28,13 @@ export const requestResetAction = formAction(resetRequestSchema, async ({ email 
 });
 
 export const resetPasswordAction = formAction(resetSchema, async ({ token, password }) => {
-  const userId = await resetPassword(token, password);
+  const userId = await resetPassword(token, password, await clientAddress());
   await startSession(userId);
   redirect("/campaigns");
 });
 
 export const acceptInviteAction = formAction(acceptInviteSchema, async ({ token, name, password }) => {
-  const userId = await acceptInvitation(token, { name, password });
+  const userId = await acceptInvitation(token, { name, password }, await clientAddress());
   await startSession(userId);
   redirect("/campaigns");
 });

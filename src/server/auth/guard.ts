@@ -6,6 +6,8 @@ import { campaigns, memberships } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import { can, type Capability, type CampaignRole } from "@/lib/roles";
 import { getCurrentSession, type SessionUser } from "./session";
+import { proxyMatcher, resolveClientAddress } from "./client-address";
+import { env } from "@/env";
 
 /**
  * The one guard module. Every server action and route handler calls one of these before it
@@ -91,8 +93,10 @@ export async function requireSameOrigin(req?: Request): Promise<void> {
   }
 }
 
-/** The client's address for throttling: the first hop a proxy recorded, else "local". */
+const isTrustedProxy = proxyMatcher(env.TRUSTED_PROXIES);
+
+/** The client's address for throttling (see resolveClientAddress: TRUSTED_PROXIES decides whose X-Forwarded-For counts). */
 export async function clientAddress(req?: Request): Promise<string> {
   const h = req ? req.headers : await headers();
-  return h.get("x-forwarded-for")?.split(",")[0]?.trim() || h.get("x-real-ip") || "local";
+  return resolveClientAddress(h, isTrustedProxy);
 }

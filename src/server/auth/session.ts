@@ -1,6 +1,10 @@
 import "server-only";
+import crypto from "node:crypto";
 import { cache } from "react";
 import { cookies } from "next/headers";
+import { and, eq, ne } from "drizzle-orm";
+import { db } from "@/server/db/client";
+import { sessions } from "@/server/db/schema";
 import { lucia } from "./lucia";
 import type { GlobalRole } from "@/lib/roles";
 
@@ -9,17 +13,33 @@ export type CurrentSession = { user: SessionUser; sessionId: string } | { user: 
 
 export const SESSION_COOKIE = lucia.sessionCookieName;
 
+/**
+ * The cookie carries a random token; the database stores only its SHA-256 (hex) as the session
+ * id, so reading the sessions table yields no usable cookie (lucia's current session guidance).
+ * 32 random bytes: far beyond guessing, and fast to hash on every request.
+ */
+export function sessionIdOf(token: string): string {
+  return crypto.createHash("sha256").update(token).digest("hex");
+}
+
+const newSessionToken = () => crypto.randomBytes(32).toString("base64url");
+
+/** Validates a cookie token: the session (whose id is the token's hash) and its user, or nulls. */
+export function validateSessionToken(token: string) {
+  return lucia.validateSession(sessionIdOf(token));
+}
+
 /** The signed-in user of this request, validated once per request. */
 export const getCurrentSession = cache(async (): Promise<CurrentSession> => {
   const jar = await cookies();
-  const id = jar.get(lucia.sessionCookieName)?.value ?? null;
-  if (!id) return { user: null, sessionId: null };
-  const { session, user } = await lucia.validateSession(id);
+  const token = jar.get(lucia.sessionCookieName)?.value ?? null;
+  if (!token) return { user: null, sessionId: null };
+  const { session, user } = await validateSessionToken(token);
   try {
     // Renew on use; Server Components cannot set cookies, so this only succeeds in actions
     // and route handlers (the proxy extends the cookie on page loads).
     if (session?.fresh) {
-      const c = lucia.createSessionCookie(session.id);
+      const c = lucia.createSessionCookie(token);
       jar.set(c.name, c.value, c.attributes);
     }
     if (!session) {
@@ -34,9 +54,15 @@ export const getCurrentSession = cache(async (): Promise<CurrentSession> => {
   };
 });
 
+/** A new session row (id = SHA-256 of the token); returns the token, the cookie's value. */
+async function newSession(userId: string): Promise<string> {
+  const token = newSessionToken();
+  await lucia.createSession(userId, {}, { sessionId: sessionIdOf(token) });
+  return token;
+}
+
 export async function startSession(userId: string): Promise<void> {
-  const session = await lucia.createSession(userId, {});
-  const c = lucia.createSessionCookie(session.id);
+  const c = lucia.createSessionCookie(await newSession(userId));
   (await cookies()).set(c.name, c.value, c.attributes);
 }
 
@@ -47,12 +73,21 @@ export async function endCurrentSession(): Promise<void> {
   (await cookies()).set(c.name, c.value, c.attributes);
 }
 
-/** Ends every session of a user (password change, removal from a team). */
+/** Ends every session of a user (password reset, removal from a team). */
 export async function endAllSessions(userId: string): Promise<void> {
   await lucia.invalidateUserSessions(userId);
 }
 
-/** Test and seed helper: a session id for a user without going through cookies. */
+/** Ends every session of a user but one (a password change keeps the session that made it). */
+export async function endOtherSessions(userId: string, keepSessionId: string | null): Promise<void> {
+  if (!keepSessionId) return endAllSessions(userId);
+  await db.delete(sessions).where(and(eq(sessions.userId, userId), ne(sessions.id, keepSessionId)));
+}
+
+/**
+ * Test and seed helper: a new session for a user without going through cookies. Returns the
+ * token, i.e. the cookie's value (validate it with validateSessionToken).
+ */
 export async function createSessionId(userId: string): Promise<string> {
-  return (await lucia.createSession(userId, {})).id;
+  return newSession(userId);
 }

@@ -5,8 +5,8 @@ import { db } from "@/server/db/client";
 import { users, passwordResets, invitations, memberships, campaigns } from "@/server/db/schema";
 import { hashPassword, verifyPassword } from "@/server/auth/password";
 import { newToken, hashToken } from "@/server/auth/tokens";
-import { endAllSessions } from "@/server/auth/session";
-import { countAttempt } from "./throttle";
+import { endAllSessions, endOtherSessions } from "@/server/auth/session";
+import { beginAttempt, countAttempt } from "./throttle";
 import { audit } from "./audit";
 import { sendMail } from "@/server/mail/client";
 import { AppError } from "@/server/errors";
@@ -22,16 +22,19 @@ const findByEmail = (email: string) =>
 
 /**
  * Checks an e-mail and password. The answer, the time taken and the throttling are the same
- * whether or not the account exists.
+ * whether or not the account exists. Only failures count (see throttle.ts): the account's streak
+ * from this address, the account's streak from anywhere, and this address's failures.
  */
 export async function checkCredentials(email: string, password: string, address: string): Promise<string> {
-  await countAttempt([
+  const attempt = await beginAttempt([
+    { kind: "signin:account-address", key: `${email}|${address}` },
     { kind: "signin:account", key: email },
     { kind: "signin:address", key: address },
   ]);
   const user = await findByEmail(email);
   const ok = await verifyPassword(user?.passwordHash, password);
   if (!user || !ok) throw new AppError("unauthorized", "That e-mail and password do not match an account.");
+  await attempt.succeeded();
   return user.id;
 }
 
@@ -60,26 +63,32 @@ export async function requestPasswordReset(email: string, address: string): Prom
   });
 }
 
-/** Single-use, expiring; ends every session of the user. Returns the user id. */
-export async function resetPassword(token: string, password: string): Promise<string> {
+const invalidResetLink = () =>
+  new AppError("bad_request", "This reset link is not valid: it was used already or has expired. Ask for a new one.");
+
+/**
+ * Single-use, expiring; spends every outstanding reset link of the user and ends every session of
+ * the user. Returns the user id. A link that is not valid is refused before argon2 runs, and such
+ * failures count against the address.
+ */
+export async function resetPassword(token: string, password: string, address: string): Promise<string> {
+  const attempt = await beginAttempt([{ kind: "password:address", key: address }]);
+  const tokenHash = hashToken(token);
+  const live = and(
+    eq(passwordResets.tokenHash, tokenHash),
+    isNull(passwordResets.usedAt),
+    gt(passwordResets.expiresAt, new Date()),
+  );
+  if (!(await db.query.passwordResets.findFirst({ where: live }))) throw invalidResetLink();
   const passwordHash = await hashPassword(password);
   const userId = await db.transaction(async (tx) => {
     const [row] = await tx
       .update(passwordResets)
       .set({ usedAt: new Date() })
-      .where(
-        and(
-          eq(passwordResets.tokenHash, hashToken(token)),
-          isNull(passwordResets.usedAt),
-          gt(passwordResets.expiresAt, new Date()),
-        ),
-      )
+      .where(live)
       .returning({ userId: passwordResets.userId });
-    if (!row)
-      throw new AppError(
-        "bad_request",
-        "This reset link is not valid: it was used already or has expired. Ask for a new one.",
-      );
+    if (!row) throw invalidResetLink();
+    await spendResetLinks(tx, row.userId);
     await tx.update(users).set({ passwordHash, passwordChangedAt: new Date() }).where(eq(users.id, row.userId));
     const u = await tx.query.users.findFirst({ where: eq(users.id, row.userId) });
     await audit(tx, u ? { id: u.id, email: u.email } : null, {
@@ -89,20 +98,47 @@ export async function resetPassword(token: string, password: string): Promise<st
     });
     return row.userId;
   });
+  await attempt.succeeded();
   await endAllSessions(userId);
   return userId;
 }
 
-export async function changePassword(user: SessionUser, current: string, password: string): Promise<void> {
+type Tx = Parameters<Parameters<typeof db.transaction>[0]>[0];
+
+/** Marks every unused reset link of a user as used: a new password makes them all pointless. */
+async function spendResetLinks(tx: Tx, userId: string): Promise<void> {
+  await tx
+    .update(passwordResets)
+    .set({ usedAt: new Date() })
+    .where(and(eq(passwordResets.userId, userId), isNull(passwordResets.usedAt)));
+}
+
+/**
+ * Changes the password after checking the current one (throttled like a sign-in: failures of this
+ * account and of this address). Spends the user's outstanding reset links and ends every other
+ * session; the session that made the change (`keepSessionId`) stays signed in.
+ */
+export async function changePassword(
+  user: SessionUser,
+  current: string,
+  password: string,
+  opts: { address: string; keepSessionId: string | null },
+): Promise<void> {
+  const attempt = await beginAttempt([
+    { kind: "password:account", key: user.id },
+    { kind: "password:address", key: opts.address },
+  ]);
   const row = await db.query.users.findFirst({ where: eq(users.id, user.id) });
   if (!(await verifyPassword(row?.passwordHash, current)))
     throw new AppError("bad_request", "The current password is not right.");
+  await attempt.succeeded();
   const passwordHash = await hashPassword(password);
   await db.transaction(async (tx) => {
     await tx.update(users).set({ passwordHash, passwordChangedAt: new Date() }).where(eq(users.id, user.id));
+    await spendResetLinks(tx, user.id);
     await audit(tx, user, { action: "password.change", entityType: "user", entityId: user.id });
   });
-  await endAllSessions(user.id);
+  await endOtherSessions(user.id, opts.keepSessionId);
 }
 
 export async function invite(
@@ -170,7 +206,12 @@ export async function hasAccount(email: string): Promise<boolean> {
  * Accepts an invitation: a new account (name + password), or, when the address already has an
  * account, that account's password. Single use: the token is spent in the same transaction.
  */
-export async function acceptInvitation(token: string, input: { name?: string; password: string }): Promise<string> {
+export async function acceptInvitation(
+  token: string,
+  input: { name?: string; password: string },
+  address: string,
+): Promise<string> {
+  const addressAttempt = await beginAttempt([{ kind: "password:address", key: address }]);
   const found = await findInvitation(token);
   if (!found)
     throw new AppError(
@@ -180,13 +221,16 @@ export async function acceptInvitation(token: string, input: { name?: string; pa
   const existing = await findByEmail(found.inv.email);
   let passwordHash: string | null = null;
   if (existing) {
+    const accountAttempt = await beginAttempt([{ kind: "password:account", key: existing.id }]);
     if (!(await verifyPassword(existing.passwordHash, input.password)))
       throw new AppError("bad_request", "That is not the password of the existing account for this address.");
+    await accountAttempt.succeeded();
   } else {
     if (!input.name) throw new AppError("bad_request", "Enter your name.");
     if (input.password.length < 10) throw new AppError("bad_request", "Use a password of at least 10 characters.");
     passwordHash = await hashPassword(input.password);
   }
+  await addressAttempt.succeeded();
   return db.transaction(async (tx) => {
     const [spent] = await tx
       .update(invitations)

@@ -3,17 +3,17 @@ import { redirect } from "next/navigation";
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { formAction } from "@/server/action";
-import { requireCampaign, requireUser } from "@/server/auth/guard";
+import { clientAddress, requireCampaign, requireUser } from "@/server/auth/guard";
 import { optIn, optOut } from "@/server/services/digest";
 import { changePasswordSchema } from "@/lib/validation/auth";
 import { changePassword } from "@/server/services/accounts";
-import { startSession } from "@/server/auth/session";
+import { getCurrentSession } from "@/server/auth/session";
 
-/** Changing the password ends every session of the user, this one included; a new one is started here. */
+/** Changing the password ends every other session of the user; this one stays signed in. */
 export const changePasswordAction = formAction(changePasswordSchema, async ({ current, password }) => {
   const user = await requireUser();
-  await changePassword(user, current, password);
-  await startSession(user.id);
+  const { sessionId } = await getCurrentSession();
+  await changePassword(user, current, password, { address: await clientAddress(), keepSessionId: sessionId });
   redirect("/settings?changed=1");
 });
 

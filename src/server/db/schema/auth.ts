@@ -115,6 +115,7 @@ export const throttle = pgTable(
     bucket: text("bucket").notNull(),
     windowStart: timestamp("window_start", { withTimezone: true }).notNull(),
     count: integer("count").notNull().default(0),
+    lastAt: timestamp("last_at", { withTimezone: true }).notNull().defaultNow(),
   },
   (t) => [primaryKey({ columns: [t.bucket, t.windowStart] })],
 );
