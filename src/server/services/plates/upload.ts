@@ -8,7 +8,8 @@ import { deleteObject, putObject } from "@/server/storage/s3";
 import type { Actor } from "@/server/auth/actor";
 import { isUniqueViolation } from "@/server/db/sql-helpers";
 import { plateMapFromWells } from "@/lib/plates";
-import { MAX_FILE_BYTES, parseReaderExport, type ExportPreview } from "@/lib/plates/reader-export";
+import { MAX_FILE_BYTES, type ExportPreview } from "@/lib/plates/reader-export";
+import { parseInWorker } from "@/server/workers/upload-parse-pool";
 import { buildReadings, computeRunQc, type QcInputWell, type RunQc, type RunReading } from "@/lib/plates/run-qc";
 import { audit } from "../audit";
 import { issuesError } from "./errors";
@@ -71,7 +72,11 @@ async function readAgainstMap(
   fileName: string,
 ) {
   const map = plateMapFromWells(mapRow.format, mapRow.wells);
-  const parsed = await parseReaderExport(bytes, fileName, { format: map.format });
+  // Off the request thread, with memory and time limits (a workbook may be a zip bomb).
+  const parsed = await parseInWorker(
+    { kind: "plate-export", bytes, fileName, options: { format: map.format } },
+    fileName,
+  );
   if (!parsed.ok) throw issuesError(parsed.issues);
   const built = buildReadings(map, parsed.export);
   if (!built.ok) throw issuesError(built.issues);
