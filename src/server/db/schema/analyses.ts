@@ -121,9 +121,16 @@ export const analyses = pgTable(
     requestedAt: timestamp("requested_at", { withTimezone: true }).notNull().defaultNow(),
     startedAt: timestamp("started_at", { withTimezone: true }),
     finishedAt: timestamp("finished_at", { withTimezone: true }),
+    /** Set every ~10 s by the worker running it; a running analysis without one for 60 s is re-queued. */
+    heartbeatAt: timestamp("heartbeat_at", { withTimezone: true }),
+    /** How many times a worker has taken it; the fence that lets only the latest attempt commit. */
+    attempts: integer("attempts").notNull().default(0),
   },
   (t) => [
     index("analyses_experiment").on(t.experimentId, t.requestedAt),
+    index("analyses_running_heartbeat")
+      .on(t.heartbeatAt)
+      .where(sql`${t.status} = 'running'`),
     uniqueIndex("analyses_one_current")
       .on(t.experimentId)
       .where(sql`${t.isCurrent}`),

@@ -5,3 +5,4 @@ export * from "./analyses";
 export * from "./compounds";
 export * from "./digest";
 export * from "./hits";
+export * from "./workers";
