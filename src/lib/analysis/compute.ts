@@ -518,13 +518,15 @@ function alternativeName(a: ExtendedModelFit): string {
   return `${FAMILY_NAMES[a.family]} ${a.mechanism} inhibition`;
 }
 
-function estimate(e: Estimate, unit: string) {
-  return {
+function estimate(e: Estimate, unit: string): AlternativeModel["constants"][string] {
+  const out: AlternativeModel["constants"][string] = {
     value: round(e.value),
     se: round(e.se),
     ci95: [round(e.ci95[0]), round(e.ci95[1])] as [number | null, number | null],
     unit,
   };
+  if (e.fixed) out.fixed = true;
+  return out;
 }
 
 function alternativeDetail(a: ExtendedModelFit): AlternativeModel {
@@ -552,6 +554,7 @@ function alternativeDetail(a: ExtendedModelFit): AlternativeModel {
     dof: a.dof,
     converged: a.converged,
     adequacy: adequacyDetail(a.adequacy),
+    exclusion: a.exclusion,
     meaning: a.sentence,
   };
   if (a.residualActivity !== null) out.residualActivity = round(a.residualActivity);

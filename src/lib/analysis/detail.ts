@@ -223,7 +223,14 @@ export type ChengPrusoffCheck = z.infer<typeof chengPrusoffCheck>;
 const inhibitionModel = z.enum(INHIBITION_MODELS);
 
 /** A fitted constant of an alternative model, in its own unit (µM for concentrations, "" for ratios). */
-const constantSummary = z.strictObject({ value: num, se: num, ci95: interval, unit: z.string() });
+const constantSummary = z.strictObject({
+  value: num,
+  se: num,
+  ci95: interval,
+  unit: z.string(),
+  /** True where the model fixes the value (β = 1 of partial competitive inhibition): no SE or CI. */
+  fixed: z.literal(true).optional(),
+});
 
 /**
  * A model outside the four standard ones, fitted because the data call for it: substrate
@@ -246,6 +253,11 @@ const alternativeModel = z.strictObject({
   residualActivity: num.optional(),
   /** Tight binding: the total enzyme concentration the Morrison fit used, µM. */
   enzymeUm: num.optional(),
+  /**
+   * Why this model may not be recommended whatever its AICc (its extra term undetermined, or the
+   * F-test not preferring it to its standard mechanism); null when it may (absent on older rows).
+   */
+  exclusion: z.string().nullable().optional(),
   meaning: z.string(),
 });
 

@@ -21,6 +21,7 @@ import {
   type InhibitionModel,
 } from "./inhibition-models";
 import { runsTest } from "./adequacy";
+import { extraSumOfSquaresFTest } from "./model-selection";
 import { seededNormal } from "../plates/simulate";
 import { generateMechanismDataset } from "./testdata/synthetic";
 import { ISDALS_INHIBITOR } from "./testdata/reference-data";
@@ -268,6 +269,61 @@ describe("clean standard data (testdata/synthetic.ts, the SciPy-oracle generator
   it("extended models are fitted only when called for (on at most 5 % of clean matrices)", () => {
     const fitted = results.filter((r) => r.alternatives.length > 0).length;
     expect(fitted / results.length).toBeLessThanOrEqual(0.05);
+  });
+});
+
+describe("a model beyond the four needs its extra term determined and the F-test's support (common practice; invented: the 200 clean matrices with every family fitted)", () => {
+  const sets = Array.from({ length: 200 }, (_, k) => generateMechanismDataset(INHIBITION_MODELS[k % 4]!, 70_000 + k));
+  const results = sets.map((d) => fitMechanism(d.points, { extendedModels: "all" }));
+  /** The extra term's 95 % CI is finite and excludes the value at which the model is its standard mechanism. */
+  const determined = (a: MechanismResult["alternatives"][number]): boolean => {
+    if (a.family === "tight-binding") return true;
+    if (a.family === "substrate-inhibition") return a.ksi!.ci95[0] !== null && a.ksi!.ci95[1] !== null;
+    if (a.mechanism === "competitive") return a.kiu.ci95[0] !== null && a.kiu.ci95[1] !== null;
+    return a.beta!.ci95[0] !== null && a.beta!.ci95[1] !== null && a.beta!.ci95[0] > 0;
+  };
+
+  it("never recommends one whose term is undetermined or that the F-test does not prefer to its standard mechanism", () => {
+    let extended = 0;
+    for (const r of results) {
+      if (!r.recommended || r.recommended.family === "standard") continue;
+      extended++;
+      const a = r.alternatives.find((x) => x.model === r.recommended!.model)!;
+      expect(determined(a)).toBe(true);
+      expect(a.exclusion).toBeNull();
+      if (a.family !== "tight-binding") {
+        const std = r.models[a.mechanism];
+        const f = extraSumOfSquaresFTest(std.rss, r.n - std.nParams, a.rss, r.n - a.nParams);
+        expect(f.p).toBeLessThan(0.05);
+      }
+    }
+    expect(extended).toBeGreaterThan(0); // the rule is exercised, not vacuous
+  });
+
+  it("says why an undetermined one is not recommended, naming the term, its CI and the nested model", () => {
+    let undetermined = 0;
+    for (const r of results)
+      for (const a of r.alternatives) {
+        if (determined(a)) continue;
+        undetermined++;
+        expect(a.exclusion).toMatch(/^(Ksi|Kiu|β) is not determined \(95 % CI of (Ksi|Kiu|β) /);
+        expect(a.exclusion).toMatch(/reduces to (competitive|uncompetitive|noncompetitive|mixed) inhibition\)$/);
+        if (a.adequacy.adequate) expect(a.sentence).toContain(`is not recommended: ${a.exclusion}.`);
+        expect(r.recommended?.model).not.toBe(a.model);
+      }
+    expect(undetermined).toBeGreaterThan(100);
+  });
+
+  it("matrix 70184 (competitive truth): partial competitive, Kiu unbounded, was recommended before this rule; now it is not", () => {
+    const r = results[184]!;
+    const a = r.alternatives.find((x) => x.model === "partial-competitive")!;
+    expect(a.kiu.ci95[1]).toBeNull();
+    expect(a.beta).toEqual({ value: 1, se: null, ci95: [null, null], fixed: true }); // fixed by the model, not a CI of 1–1
+    expect(r.recommended!.model).not.toBe("partial-competitive");
+    expect(a.exclusion).toMatch(
+      /^Kiu is not determined \(95 % CI of Kiu 1\.8–unbounded: it may be infinite, where partial competitive inhibition reduces to competitive inhibition\)$/,
+    );
+    expectNoClearWrongCall(r, "competitive");
   });
 });
 

@@ -37,6 +37,7 @@ import {
   familyModels,
   fitExtendedModel,
   mechanismAdequacy,
+  modelFamily,
   modelMechanism,
   summariseExtended,
   type AdequacyContext,
@@ -127,6 +128,8 @@ export interface JudgementInput {
   extendedModels: "auto" | "all" | "none";
   /** Findings of the caller's checks that make the standard call fragile (weighting, outliers). */
   fragile: string[];
+  /** Unit labels for the sentences (the engine is unit-agnostic: none by default). */
+  units?: JudgementUnits;
   /**
    * The replicates show scatter growing with the rate while the fit is unweighted: the screens and
    * F-tests then overweight the largest rates, so nothing outside the four is recommended as clear.
@@ -198,6 +201,18 @@ for (const m of [...INHIBITION_MODELS, ...EXTENDED_MODELS]) {
 
 function nestedClosure(m: CandidateModel): ReadonlySet<CandidateModel> {
   return NESTED_CLOSURE.get(m)!;
+}
+
+/** Unit labels the sentences attach to concentrations and rates ("µM"; none when absent). */
+export interface JudgementUnits {
+  concentration?: string;
+  rate?: string;
+}
+
+/** A concentration for a sentence, with its unit when one is given: "0.12 µM". */
+export function concText(x: number | null | undefined, units: JudgementUnits = {}, digits = 2): string {
+  const t = num(x, digits);
+  return units.concentration && t !== "—" ? `${t} ${units.concentration}` : t;
 }
 
 /** Plain number for a sentence: 2–3 significant figures. */
@@ -382,6 +397,15 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
     }
     return r;
   };
+  // A model beyond the four earns its extra term only when that term is determined and the F-test
+  // prefers it to its own standard mechanism; otherwise it may not be recommended, and says why.
+  for (const a of alternatives) {
+    const self = byModel.get(a.model)!;
+    a.exclusion =
+      undeterminedTerm(a, input.units) ??
+      (a.family === "tight-binding" ? null : unsupportedByFTest(a, fTest(byModel.get(a.mechanism)!, self).p));
+    if (a.exclusion !== null) self.eligible = false;
+  }
   const eligible = candidates.filter((c) => c.eligible);
   let current: Candidate | null = null;
   for (const c of eligible) if (current === null || c.aicc < current.aicc) current = c;
@@ -443,10 +467,13 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   }
   if (recommended === null) {
     label = "inadequate";
+    const excluded = alternatives.filter((a) => a.adequacy.adequate && a.converged && a.exclusion !== null);
+    const why = excluded.length
+      ? `No model tried both describes these data adequately and is determined by them (${excluded.map((a) => `${modelName(a.model)}: ${a.exclusion}`).join("; ")})`
+      : "No model tried describes these data adequately";
     flags.push({
       code: "no-adequate-model",
-      message:
-        "No model tried describes these data adequately: check for outlying wells, tight binding (give the enzyme concentration), time-dependent or non-specific inhibition before reporting a Ki.",
+      message: `${why}: check for outlying wells, tight binding (give the enzyme concentration), time-dependent or non-specific inhibition before reporting a Ki.`,
     });
   } else if (recommended.family !== "standard") {
     label = "inadequate";
@@ -478,6 +505,49 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   }
   if (input.fragile.length && label === "clear") label = "ambiguous";
   return { label, flags, recommended, alternatives, screens };
+}
+
+/**
+ * The term a model beyond the four adds to its standard mechanism, and the value at which it
+ * reduces to that mechanism: Ksi → ∞ (substrate inhibition), β = 0 (partial uncompetitive,
+ * noncompetitive, mixed: the ESI complex does not turn over) and, for partial competitive
+ * (β fixed at 1), Kiu → ∞ (no ESI complex). The term is determined when its 95 % CI is finite
+ * and excludes that value (common practice: a term whose CI includes the nested value is not
+ * supported by the data). Returns why not, in words, or null when determined.
+ */
+export function undeterminedTerm(a: ExtendedModelFit, units: JudgementUnits = {}): string | null {
+  const reducesTo = `where ${modelName(a.model)} reduces to ${a.mechanism} inhibition`;
+  const conc = (x: number | null) => concText(x, units);
+  const ci = (e: Estimate, f: (x: number | null) => string) =>
+    `${f(e.ci95[0])}–${e.ci95[1] === null ? "unbounded" : f(e.ci95[1])}`;
+  if (a.family === "substrate-inhibition" || (a.family === "partial" && a.mechanism === "competitive")) {
+    const name = a.family === "substrate-inhibition" ? "Ksi" : "Kiu";
+    const e = a.family === "substrate-inhibition" ? a.ksi : a.kiu;
+    if (e && e.value !== null && e.ci95[0] !== null && e.ci95[1] !== null && Number.isFinite(e.ci95[1])) return null;
+    return `${name} is not determined (95 % CI of ${name} ${e ? ci(e, conc) : "—"}: it may be infinite, ${reducesTo})`;
+  }
+  if (a.family === "partial") {
+    const e = a.beta;
+    if (e && e.value !== null && e.ci95[0] !== null && e.ci95[1] !== null && e.ci95[0] > 0) return null;
+    const why = e && e.ci95[0] !== null && e.ci95[1] !== null ? "includes 0" : "is unbounded";
+    return `β is not determined (95 % CI of β ${e ? ci(e, (x) => num(x)) : "—"}, dimensionless, ${why}, ${reducesTo})`;
+  }
+  return null;
+}
+
+function unsupportedByFTest(a: ExtendedModelFit, p: number): string | null {
+  if (p < NESTED_F_ALPHA) return null;
+  return `the F-test does not prefer it to ${a.mechanism} inhibition (p ${num(p)}, needs < ${NESTED_F_ALPHA})`;
+}
+
+/** "partial mixed inhibition", "competitive inhibition with substrate inhibition", … */
+export function modelName(model: CandidateModel): string {
+  if ((INHIBITION_MODELS as readonly string[]).includes(model)) return `${model} inhibition`;
+  const m = model as ExtendedModel;
+  const mech = modelMechanism(m);
+  const fam = modelFamily(m);
+  if (fam === "substrate-inhibition") return `${mech} inhibition with substrate inhibition`;
+  return `${fam} ${mech} inhibition`;
 }
 
 function screenText(term: string, t: ScoreTest): string {
@@ -530,6 +600,8 @@ function sentence(
         ? `Substrate inhibition (${a.model}, ${a.ksi?.value ? `Ksi ${num(a.ksi.value)}` : "no finite Ksi"})`
         : `The depletion-aware ${a.mechanism} fit (Ki ${num(ki, 3)} at [E] ${num(input.enzymeConc)})`;
   if (!a.adequacy.adequate) return `${what} is itself inadequate (${a.adequacy.reasons.join("; ")}).`;
+  if (a.exclusion !== null && !a.exclusion.startsWith("the F-test"))
+    return `${what} is not recommended: ${a.exclusion}.`;
   if (fp !== null && !(fp < NESTED_F_ALPHA)) {
     const meaning =
       a.family === "partial" ? ": inhibition appears to go to completion" : ": no substrate inhibition is evident";

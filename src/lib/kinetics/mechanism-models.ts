@@ -543,6 +543,8 @@ export interface Estimate {
   value: number | null;
   se: number | null;
   ci95: Interval;
+  /** True where the model fixes the value (β = 1 of partial competitive inhibition): not estimated. */
+  fixed?: true;
 }
 
 const NONE: Estimate = { value: null, se: null, ci95: [null, null] };
@@ -576,6 +578,12 @@ export interface ExtendedModelFit {
   dof: number;
   converged: boolean;
   adequacy: MechanismAdequacy;
+  /**
+   * Why this model may not be recommended whatever its AICc, in words (null when it may): the term it
+   * adds to its standard mechanism is not determined (its 95 % CI unbounded or including the value
+   * at which the model reduces to that mechanism), or the F-test does not prefer it to that mechanism.
+   */
+  exclusion: string | null;
   /** One plain sentence for the project lead. */
   sentence: string;
 }
@@ -617,7 +625,8 @@ export function summariseExtended(
   const a = slots[A] >= 0 ? th[slots[A]]! : 0;
   const b = slots[B] >= 0 ? th[slots[B]]! : 0;
   if (family === "partial") {
-    if (slots[C] === slots[B]) beta = { value: 1, se: null, ci95: [1, 1] };
+    // Fixed by the model (ESI turns over at the full rate): no SE and no CI, not a determined β.
+    if (slots[C] === slots[B]) beta = { value: 1, se: null, ci95: [null, null], fixed: true };
     else {
       const jc = slots[C];
       const jb = slots[B];
@@ -660,6 +669,7 @@ export function summariseExtended(
     dof,
     converged: raw.converged,
     adequacy,
+    exclusion: null,
     sentence: "",
   };
 }

@@ -100,6 +100,8 @@ export function constantText(key: string, c: AlternativeModel["constants"][strin
   const v = (x: number | null) =>
     x === null ? "—" : unit === "µM" ? formatConcentration(x) : `${Number(x.toPrecision(3))}${unit ? ` ${unit}` : ""}`;
   const name = CONSTANT_NAMES[key.replace(/Um$/, "")] ?? key;
+  if (c.fixed)
+    return `${name} ${v(c.value)} (fixed by the model, not estimated)${unit === "" ? " (dimensionless)" : ""}`;
   return `${name} ${v(c.value)} ± ${c.se === null ? "—" : v(c.se)} (95 % CI ${v(c.ci95[0])} – ${c.ci95[1] === null ? "∞" : v(c.ci95[1])})${unit === "" ? " (dimensionless)" : ""}`;
 }
 
@@ -120,6 +122,11 @@ function AlternativeRow({ m, recommended, rateUnit }: { m: AlternativeModel; rec
         {m.name}
         {recommended ? <span className="chip ml-1 bg-accent-soft text-accent">recommended</span> : null}
         {!m.converged ? <span className="chip ml-1 bg-warn-soft text-warn">not converged</span> : null}
+        {m.exclusion ? (
+          <span className="chip ml-1 bg-paper-sunk text-ink-muted" title={m.exclusion}>
+            not recommendable
+          </span>
+        ) : null}
       </td>
       <td className="num text-xs">
         {Object.entries(m.constants).map(([k, c]) => (
@@ -202,7 +209,10 @@ export function AlternativeModels({
       ) : null}
       <p className="mt-1 text-2xs text-ink-muted">
         ΔAICc is against the lowest AICc of all models fitted, standard and beyond (dimensionless). A model is
-        recommended only when it is adequate; a simpler nested model is kept unless the F-test rejects it.
+        recommended only when it is adequate; a simpler nested model is kept unless the F-test rejects it. A model
+        beyond the four also needs its extra term (β, Ksi, or Kiu of partial competitive inhibition) determined — a
+        finite 95 % CI that excludes the value at which it reduces to a standard model — and the F-test preferring it to
+        that standard model.
       </p>
     </section>
   );
