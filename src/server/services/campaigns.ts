@@ -62,6 +62,10 @@ export async function createCampaign(actor: SessionUser, input: CampaignInput): 
   });
 }
 
+/**
+ * A campaign's members with what a person needs to manage them (id, e-mail): for leads and admins
+ * only. Everyone else gets `memberNamesOf`.
+ */
 export async function membersOf(campaignId: string) {
   return db
     .select({
@@ -71,6 +75,16 @@ export async function membersOf(campaignId: string) {
       role: memberships.role,
       addedAt: memberships.addedAt,
     })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .where(eq(memberships.campaignId, campaignId))
+    .orderBy(asc(users.name));
+}
+
+/** Names, roles and since when, without e-mails or ids: what any member may see of the team. */
+export async function memberNamesOf(campaignId: string) {
+  return db
+    .select({ name: users.name, role: memberships.role, addedAt: memberships.addedAt })
     .from(memberships)
     .innerJoin(users, eq(users.id, memberships.userId))
     .where(eq(memberships.campaignId, campaignId))

@@ -2,20 +2,18 @@
 import { z } from "zod";
 import { formAction } from "@/server/action";
 import { AppError } from "@/server/errors";
-import { optOut, readOptOutToken } from "@/server/services/digest";
+import { OPT_OUT_LINK_DAYS, stopDigestByLink } from "@/server/services/digest";
 
 /**
  * Stops the weekly digest from the e-mail's link, without signing in. The token is signed for
- * one person and one campaign, so it cannot be used for anyone else.
+ * one person and one campaign, expires, and works only while that person is still a member.
  */
 export const stopDigestAction = formAction(z.object({ token: z.string().min(10).max(600) }), async ({ token }) => {
-  const who = readOptOutToken(token);
-  if (!who)
+  if (!(await stopDigestByLink(token)))
     throw new AppError(
       "bad_request",
-      "This link is not valid. Open it from the digest e-mail, or stop the digest in your settings.",
+      `This link is not valid: it may be altered, older than ${OPT_OUT_LINK_DAYS} days, or for a campaign you have left. Stop the digest in your settings after signing in.`,
     );
-  await optOut(who.userId, who.campaignId, "link");
   return {
     ok: true,
     message:

@@ -5,8 +5,8 @@ import "server-only";
  * member and week (send), the send log (log) and the campaign's schedule setting (schedule).
  */
 export { digestDue, digestWeek } from "./week";
-export { optIn, optOut, optOutToken, optOutsOf, readOptOutToken } from "./opt-out";
-export { stopLinkTarget, type StopLinkTarget } from "./stop";
+export { OPT_OUT_LINK_DAYS, optIn, optOut, optOutToken, optOutsOf, readOptOutToken } from "./opt-out";
+export { stopDigestByLink, stopLinkTarget, type StopLinkTarget } from "./stop";
 export { gatherDigest, previewDigest, renderDigest } from "./content";
 export {
   MAX_ATTEMPTS,

@@ -1,5 +1,5 @@
 import { pageCampaign } from "@/server/auth/page-guard";
-import { membersOf, pendingInvitations } from "@/server/services/campaigns";
+import { memberNamesOf, membersOf, pendingInvitations } from "@/server/services/campaigns";
 import { can, roleLabels } from "@/lib/roles";
 import { TeamForms, MemberRow, ThresholdsForm } from "./team-forms";
 import { inviteAction, changeRoleAction, removeMemberAction, updateThresholdsAction } from "./actions";
@@ -9,8 +9,12 @@ export const metadata = { title: "Team & settings" };
 export default async function TeamPage({ params }: { params: Promise<{ campaignId: string }> }) {
   const { campaignId } = await params;
   const { user, campaign, role } = await pageCampaign(campaignId);
-  const [members, invites] = await Promise.all([membersOf(campaignId), pendingInvitations(campaignId)]);
   const isAdmin = user.globalRole === "admin";
+  // E-mails, ids and invitations are for the people who run the team; the rest see names and roles.
+  const manages = isAdmin || role === "lead";
+  const [members, invites] = manages
+    ? await Promise.all([membersOf(campaignId), pendingInvitations(campaignId)])
+    : [(await memberNamesOf(campaignId)).map((m) => ({ ...m, userId: null, email: null })), []];
   return (
     <div className="flex max-w-4xl flex-col gap-6">
       <h1>Team &amp; settings</h1>
@@ -20,20 +24,20 @@ export default async function TeamPage({ params }: { params: Promise<{ campaignI
           <thead>
             <tr>
               <th>Name</th>
-              <th>E-mail</th>
+              {manages ? <th>E-mail</th> : null}
               <th>Role</th>
-              <th>Member since</th>
+              <th>Member since (UTC)</th>
               {isAdmin ? <th className="w-64">Change</th> : null}
             </tr>
           </thead>
           <tbody>
-            {members.map((m) => (
-              <tr key={m.userId}>
+            {members.map((m, i) => (
+              <tr key={m.userId ?? i}>
                 <td>{m.name}</td>
-                <td className="text-ink-soft">{m.email}</td>
+                {manages ? <td className="text-ink-soft">{m.email}</td> : null}
                 <td>{roleLabels[m.role]}</td>
                 <td className="num text-ink-muted">{m.addedAt.toISOString().slice(0, 10)}</td>
-                {isAdmin ? (
+                {isAdmin && m.userId ? (
                   <td>
                     <MemberRow
                       campaignId={campaignId}
@@ -49,34 +53,36 @@ export default async function TeamPage({ params }: { params: Promise<{ campaignI
           </tbody>
         </table>
       </section>
-      <section>
-        <h3 className="mb-2">Pending invitations ({invites.length})</h3>
-        {invites.length === 0 ? (
-          <p className="text-sm text-ink-muted">None.</p>
-        ) : (
-          <table className="table-dense card">
-            <thead>
-              <tr>
-                <th>E-mail</th>
-                <th>Role</th>
-                <th>Sent (UTC)</th>
-                <th>Expires (UTC)</th>
-              </tr>
-            </thead>
-            <tbody>
-              {invites.map((i) => (
-                <tr key={i.id}>
-                  <td>{i.email}</td>
-                  <td>{roleLabels[i.role]}</td>
-                  <td className="num text-ink-muted">{i.createdAt.toISOString().slice(0, 16).replace("T", " ")}</td>
-                  <td className="num text-ink-muted">{i.expiresAt.toISOString().slice(0, 16).replace("T", " ")}</td>
+      {manages ? (
+        <section>
+          <h3 className="mb-2">Pending invitations ({invites.length})</h3>
+          {invites.length === 0 ? (
+            <p className="text-sm text-ink-muted">None.</p>
+          ) : (
+            <table className="table-dense card">
+              <thead>
+                <tr>
+                  <th>E-mail</th>
+                  <th>Role</th>
+                  <th>Sent (UTC)</th>
+                  <th>Expires (UTC)</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
-        )}
-        {isAdmin ? <TeamForms campaignId={campaignId} invite={inviteAction} /> : null}
-      </section>
+              </thead>
+              <tbody>
+                {invites.map((i) => (
+                  <tr key={i.id}>
+                    <td>{i.email}</td>
+                    <td>{roleLabels[i.role]}</td>
+                    <td className="num text-ink-muted">{i.createdAt.toISOString().slice(0, 16).replace("T", " ")}</td>
+                    <td className="num text-ink-muted">{i.expiresAt.toISOString().slice(0, 16).replace("T", " ")}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          )}
+          {isAdmin ? <TeamForms campaignId={campaignId} invite={inviteAction} /> : null}
+        </section>
+      ) : null}
       <section>
         <h3 className="mb-2">QC and hit thresholds</h3>
         <ThresholdsForm
