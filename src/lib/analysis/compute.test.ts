@@ -16,6 +16,8 @@ import {
   parseResultDetail,
   type DoseResponseDetail,
 } from "./detail";
+import { mixedRateReciprocal } from "@/lib/kinetics/inhibition-models";
+import { seededNormal } from "@/lib/plates/simulate";
 import { DOSE_CASES, ENZYME_UM, MECHANISM_CASES, doseSeries, mechanismRates } from "./testdata/difficult-cases";
 
 const within = (got: number | null | undefined, want: number, tol = 0.15) => {
@@ -216,5 +218,42 @@ describe("mechanism: difficult invented matrices ([E] 10 nM known, weighting aut
       if (!isFittedMechanism(d)) throw new Error("expected a fit");
       for (const m of Object.values(d.models)) expect(m.adequacy?.runs.expected).toBeGreaterThan(0);
     }
+  });
+});
+
+describe("mechanism outlier proposals in the result detail (invented: competitive matrix, Ki 2 µM, one rate 40 % high)", () => {
+  const z = seededNormal(77);
+  const readings: AnalysisReading[] = [];
+  for (const i of [0, 1, 2, 4, 8])
+    for (const s of [2, 5, 10, 20, 50, 100])
+      for (let rep = 0; rep < 2; rep++) {
+        const rate = mixedRateReciprocal(s, i, 1, 10, 0.5, 0) * (1 + 0 * z()) + 0.01 * z();
+        readings.push(
+          reading({
+            compoundId: "wild",
+            well: `W${readings.length}`,
+            substrateUm: s,
+            concentrationUm: i,
+            signal: rate,
+          }),
+        );
+      }
+  readings[27] = { ...readings[27]!, signal: readings[27]!.signal! * 1.4 };
+
+  it("each proposed well carries its name, [S], [I], observed rate, standardised residual and ROUT p", () => {
+    const [r] = analyseMechanism(readings, { weighting: "none" });
+    const d = parseResultDetail("mechanism", r!.detail);
+    if (!isFittedMechanism(d)) throw new Error("expected a fit");
+    expect(d.outliers!.checked).toBe("rout");
+    expect(d.outliers!.proposed).toHaveLength(1);
+    const o = d.outliers!.proposed[0]!;
+    expect(o).toMatchObject({ runId: "run-1", well: "W27", substrateUm: 5, inhibitorUm: 2 });
+    expect(o.rate).toBeCloseTo(readings[27]!.signal!, 8);
+    // ROUT's rule (Motulsky & Brown 2006 [from memory]): flagged when p ≤ Q·rank/n (Benjamini–Hochberg), so
+    // the single proposal has p ≤ Q/n and a residual far beyond the robust SD.
+    expect(o.residual!).toBeGreaterThan(5);
+    expect(o.p!).toBeGreaterThan(0);
+    expect(o.p!).toBeLessThanOrEqual(d.outliers!.q / d.n);
+    expect(Math.abs(o.residual!)).toBeCloseTo(d.outliers!.largestStandardized!, -1);
   });
 });

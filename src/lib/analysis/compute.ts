@@ -614,7 +614,7 @@ function mechanismOutliersDetail(
     largestStandardized: round(o.largestStandardized),
     model: o.model,
     q: o.q,
-    proposed: o.indices.map((k) => {
+    proposed: o.indices.map((k, j) => {
       const p = pts[k]!;
       return {
         runId: p.runId,
@@ -622,9 +622,8 @@ function mechanismOutliersDetail(
         substrateUm: p.substrate,
         inhibitorUm: p.inhibitor,
         rate: roundFinite(p.rate),
-        // The engine reports the largest standardised residual, not one per well.
-        residual: null,
-        p: null,
+        residual: round(o.standardized[j] ?? null),
+        p: round(o.pValues[j] ?? null),
       };
     }),
     reported,

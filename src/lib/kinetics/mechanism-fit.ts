@@ -126,6 +126,10 @@ export interface MechanismOutliers {
   model: InhibitionModel | ExtendedModel;
   /** Proposed outliers: indices into the input points (nothing is dropped). */
   indices: number[];
+  /** Of each proposed row (same order as `indices`): residual / RSDR at the robust fit (signed, dimensionless). */
+  standardized: number[];
+  /** Of each proposed row: the two-sided p-value of that standardized residual (t on n − p df). */
+  pValues: number[];
   q: number;
   /** The call without the proposed outliers (null when none are proposed or too few rows remain). */
   callWithout: InhibitionModel | ExtendedModel | null;
@@ -727,6 +731,8 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
       model: target,
       largestStandardized,
       indices: [],
+      standardized: [],
+      pValues: [],
       q,
       callWithout: null,
       kiWithout: null,
@@ -738,6 +744,8 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
       outliers.checked = "rout";
       if (rout.outlierIndices.length > 0) {
         outliers.indices = rout.outlierIndices.map((k) => data.rowIndex[k]!);
+        outliers.standardized = rout.outlierIndices.map((k) => rout.standardized[k]!);
+        outliers.pValues = rout.outlierIndices.map((k) => rout.pValues[k]!);
         const before = alt ? quotedKiOf(alt.kic.value, alt.kiu.value) : quotedKi(models[target as InhibitionModel]);
         let changed: boolean;
         if (alt) {

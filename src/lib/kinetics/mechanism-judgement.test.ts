@@ -217,6 +217,10 @@ describe("one wild well (invented: competitive matrix, one rate 40 % high)", () 
     const r = fitMechanism(pts);
     expect(r.outliers!.checked).toBe("rout");
     expect(r.outliers!.indices).toEqual([wild]);
+    // Per proposed row, its robust standardised residual and ROUT p (Benjamini–Hochberg: p ≤ Q/n for a single one).
+    expect(r.outliers!.standardized).toHaveLength(1);
+    expect(r.outliers!.standardized[0]).toBeGreaterThan(5);
+    expect(r.outliers!.pValues[0]).toBeLessThanOrEqual(r.outliers!.q / r.n);
     expect(r.n).toBe(pts.length);
     expect(r.outliers!.callWithout).toBe("competitive");
     expect(r.flags.find((f) => f.code === "outliers-proposed")!.message).toMatch(/^Row 28 looks like an outlier/);
