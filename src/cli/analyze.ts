@@ -133,11 +133,7 @@ function parseOptions(command: Command, args: readonly string[]): CommandOptions
  * OD, RFU…), so a curve in instrument units is never judged against % thresholds.
  */
 export function responseFromHeader(text: string): DoseResponseScale {
-  const first =
-    text
-      .replace(/^\uFEFF/, "")
-      .split(/\r?\n/)
-      .find((l) => l.trim() !== "") ?? "";
+  const first = firstNonBlankLine(text);
   for (const cell of first.split(/[,;\t]/)) {
     const m = /^\s*"?\s*response\s*(?:[([]\s*([^)\]]*?)\s*[)\]])?\s*"?\s*$/i.exec(cell);
     if (!m) continue;
@@ -149,9 +145,27 @@ export function responseFromHeader(text: string): DoseResponseScale {
   return "signal";
 }
 
+/**
+ * The first line (split at LF, a CR before it dropped, a leading BOM ignored) that is not blank
+ * after trimming, or "": found without splitting the whole file (a batch file has 10⁵ lines).
+ */
+function firstNonBlankLine(text: string): string {
+  let pos = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  while (pos < text.length) {
+    let end = text.indexOf("\n", pos);
+    if (end === -1) end = text.length;
+    const line = text.slice(pos, end > pos && text.charCodeAt(end - 1) === 13 ? end - 1 : end);
+    if (line.trim() !== "") return line;
+    pos = end + 1;
+  }
+  return "";
+}
+
 // ---------------------------------------------------------------- reading the file into jobs
 
 function doseJobs(text: string): DoseJob[] {
+  const fast = plainDoseJobs(text);
+  if (fast) return fast;
   // At least one point per compound here: a compound with too few points is reported in its own
   // object by the analysis, not refused with the whole file.
   return readDoseResponseCsv(text, 1, 1).map((s) => ({
@@ -161,6 +175,153 @@ function doseJobs(text: string): DoseJob[] {
     lines: s.lines,
   }));
 }
+
+const DOSE_COLUMNS = ["compound", "concentration", "response"] as const;
+
+/**
+ * The batch file in its plain form, read with a tight loop: exactly the three columns (a unit in
+ * brackets allowed in the header), no quotes, LF line ends, decimal numbers written without
+ * spaces, no empty names. Anything else — including every kind of bad input — returns null and
+ * goes through the engine's reader (readDoseResponseCsv), which gives the same jobs for the plain
+ * form and the located message otherwise. The engine's reader takes about 70 ms of CPU for 10⁵
+ * rows here, this loop about 20 ms (docs/benchmarks.md).
+ */
+export function plainDoseJobs(text: string): DoseJob[] | null {
+  if (text.includes('"') || text.includes("\r")) return null;
+  let pos = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  const len = text.length;
+  let end = text.indexOf("\n", pos);
+  if (end === -1) return null;
+  const header = text.slice(pos, end).split(",").map(headerName);
+  if (header.length !== 3) return null;
+  const [ci, xi, yi] = DOSE_COLUMNS.map((name) => header.indexOf(name)) as [number, number, number];
+  if (ci < 0 || xi < 0 || yi < 0 || ci === xi || ci === yi || xi === yi) return null;
+  const byName = new Map<string, DoseJob>();
+  let current: DoseJob | null = null;
+  const starts = [0, 0, 0];
+  const ends = [0, 0, 0];
+  let line = 1;
+  pos = end + 1;
+  while (pos < len) {
+    line++;
+    end = text.indexOf("\n", pos);
+    if (end === -1) end = len;
+    const c1 = text.indexOf(",", pos);
+    if (c1 === -1 || c1 >= end) {
+      // A line without a delimiter is one cell: skipped when blank, else a short row (an error).
+      if (text.slice(pos, end).trim() !== "") return null;
+      pos = end + 1;
+      continue;
+    }
+    const c2 = text.indexOf(",", c1 + 1);
+    if (c2 === -1 || c2 >= end) return null;
+    const c3 = text.indexOf(",", c2 + 1);
+    if (c3 !== -1 && c3 < end) return null;
+    starts[1] = c1 + 1;
+    starts[2] = c2 + 1;
+    ends[0] = c1;
+    ends[1] = c2;
+    ends[2] = end;
+    starts[0] = pos;
+    const x = plainNumber(text, starts[xi]!, ends[xi]!);
+    const y = plainNumber(text, starts[yi]!, ends[yi]!);
+    if (x === null || y === null || x < 0) return null;
+    // Rows of one compound are usually consecutive: the name is compared in place, not sliced.
+    const a = starts[ci]!;
+    const b = ends[ci]!;
+    let job: DoseJob | undefined;
+    if (
+      current !== null &&
+      b - a === current.compound.length &&
+      text.charCodeAt(a) > 32 &&
+      text.charCodeAt(b - 1) > 32 &&
+      text.startsWith(current.compound, a)
+    )
+      job = current;
+    else {
+      const compound = text.slice(a, b).trim();
+      if (compound === "") return null;
+      job = byName.get(compound);
+      if (!job) {
+        job = { compound, x: [], y: [], lines: [] };
+        byName.set(compound, job);
+      }
+    }
+    current = job;
+    job.x.push(x);
+    job.y.push(y);
+    job.lines.push(line);
+    pos = end + 1;
+  }
+  return byName.size > 0 ? [...byName.values()] : null;
+}
+
+/** A header cell's column name as the engine's reader matches it (table-input.ts, headerKey). */
+function headerName(raw: string): string {
+  const t = raw.trim();
+  const m = /^(.*?)\s*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(t);
+  return (m ? m[1]!.trim() : t).toLowerCase();
+}
+
+/**
+ * The value of the cell text[from, to) when it is written as the engine's reader requires,
+ * [+-]digits[.digits][e[+-]digits] (table-input.ts's NUMBER), and finite; null for anything else
+ * (spaces included). Reads the file's own string without slicing it and never past `to`
+ * (charCodeAt out of range is a slow path in V8).
+ *
+ * The value is Number()'s: with at most 15 significant digits m and a decimal exponent |k| ≤ 22,
+ * m and 10^k are exact doubles and one IEEE multiplication or division rounds correctly, so
+ * m·10^k equals the correctly rounded decimal (Clinger, "How to read floating point numbers
+ * accurately", PLDI 1990, the fast path [from memory]); anything longer goes through Number().
+ */
+function plainNumber(text: string, from: number, to: number): number | null {
+  let i = from;
+  let c = i < to ? text.charCodeAt(i) : -1;
+  const negative = c === 45;
+  if (c === 43 || c === 45) c = ++i < to ? text.charCodeAt(i) : -1;
+  let digits = 0;
+  let m = 0;
+  let scale = 0;
+  while (c >= 48 && c <= 57) {
+    digits++;
+    m = m * 10 + (c - 48);
+    c = ++i < to ? text.charCodeAt(i) : -1;
+  }
+  if (c === 46) {
+    c = ++i < to ? text.charCodeAt(i) : -1;
+    while (c >= 48 && c <= 57) {
+      digits++;
+      scale--;
+      m = m * 10 + (c - 48);
+      c = ++i < to ? text.charCodeAt(i) : -1;
+    }
+  }
+  if (digits === 0) return null;
+  if (c === 101 || c === 69) {
+    c = ++i < to ? text.charCodeAt(i) : -1;
+    const negativeExponent = c === 45;
+    if (c === 43 || c === 45) c = ++i < to ? text.charCodeAt(i) : -1;
+    let e = 0;
+    let exponent = 0;
+    while (c >= 48 && c <= 57) {
+      e++;
+      if (exponent < 1000) exponent = exponent * 10 + (c - 48);
+      c = ++i < to ? text.charCodeAt(i) : -1;
+    }
+    if (e === 0) return null;
+    scale += negativeExponent ? -exponent : exponent;
+  }
+  if (i !== to) return null;
+  if (digits <= 15 && scale >= -22 && scale <= 22) {
+    const v = scale < 0 ? m / POW10[-scale]! : m * POW10[scale]!;
+    return negative ? -v : v;
+  }
+  const v = Number(text.slice(from, to));
+  return Number.isFinite(v) ? v : null;
+}
+
+/** 10⁰ … 10²², each an exact double. */
+const POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
 
 /** The cell of the header column `name` (case-insensitive, a unit in brackets allowed), or -1. */
 function columnIndex(header: readonly string[], name: string): number {
@@ -224,6 +385,49 @@ type Jobs = { command: "dose-response"; jobs: DoseJob[] } | { command: "mechanis
 function runJobs(work: Jobs, options: CommandOptions, indent: number | undefined): string[] {
   if (work.command === "dose-response") return work.jobs.map((j) => JSON.stringify(doseResponseJobView(j, options)));
   return work.jobs.map((j) => JSON.stringify(mechanismJobView(j, options), null, indent));
+}
+
+/**
+ * The output of a batch as UTF-8 bytes, appended as each job's JSON text is made. The texts then
+ * die young instead of living in an array until one big join: the young-generation collector
+ * copies every survivor, and 10⁴ texts of 0.7 kB each kept alive cost it measurably
+ * (docs/benchmarks.md). The bytes are those of the joined string.
+ */
+class Utf8Output {
+  private buf = Buffer.allocUnsafe(1 << 20);
+  private length = 0;
+
+  add(text: string): void {
+    // A UTF-16 code unit takes at most 3 bytes in UTF-8.
+    const need = this.length + 3 * text.length;
+    if (need > this.buf.length) {
+      const bigger = Buffer.allocUnsafe(Math.max(need, 2 * this.buf.length));
+      this.buf.copy(bigger, 0, 0, this.length);
+      this.buf = bigger;
+    }
+    this.length += this.buf.write(text, this.length, "utf8");
+  }
+
+  bytes(): Buffer {
+    return this.buf.subarray(0, this.length);
+  }
+}
+
+/** A batch's JSON array ("[\n" + texts joined by ",\n" + "\n]\n"), built text by text. */
+function runBatch(work: Jobs, options: CommandOptions): Buffer {
+  const out = new Utf8Output();
+  out.add("[\n");
+  const n = work.jobs.length;
+  for (let k = 0; k < n; k++) {
+    if (k > 0) out.add(",\n");
+    out.add(
+      work.command === "dose-response"
+        ? JSON.stringify(doseResponseJobView(work.jobs[k]!, options))
+        : JSON.stringify(mechanismJobView(work.jobs[k]!, options)),
+    );
+  }
+  out.add("\n]\n");
+  return out.bytes();
 }
 
 /**
@@ -350,7 +554,7 @@ function prepare(argv: readonly string[], readFile: (path: string) => string): P
 }
 
 /** The output of a prepared command; `threads` > 1 when workers were started and will share the batch. */
-async function output(p: Prepared, threads: number, workers: Promise<string[] | null>[]): Promise<string> {
+async function output(p: Prepared, threads: number, workers: Promise<string[] | null>[]): Promise<string | Buffer> {
   if ("usage" in p) return p.usage;
   if (!p.batch) {
     try {
@@ -367,12 +571,13 @@ async function output(p: Prepared, threads: number, workers: Promise<string[] | 
     const rest = await Promise.all(workers);
     if (rest.every((r) => r !== null)) return "[\n" + own.concat(...rest).join(",\n") + "\n]\n";
   }
-  return "[\n" + runJobs(p.work, p.options, undefined).join(",\n") + "\n]\n";
+  return runBatch(p.work, p.options);
 }
 
 /** Runs the command on argv (without node and script) and returns stdout; throws on bad input. */
 export async function runAnalyze(argv: readonly string[], readFile: (path: string) => string): Promise<string> {
-  return output(prepare(argv, readFile), 1, []);
+  const out = await output(prepare(argv, readFile), 1, []);
+  return typeof out === "string" ? out : out.toString("utf8");
 }
 
 async function main(): Promise<void> {
