@@ -5,6 +5,8 @@ import {
   GetObjectCommand,
   HeadBucketCommand,
   DeleteObjectCommand,
+  HeadObjectCommand,
+  ListObjectsV2Command,
 } from "@aws-sdk/client-s3";
 import { env } from "@/env";
 
@@ -41,6 +43,32 @@ export async function getObject(key: string): Promise<Uint8Array> {
   const r = await s3().send(new GetObjectCommand({ Bucket: env.S3_BUCKET, Key: key }));
   if (!r.Body) throw new Error(`Object ${key} has no body.`);
   return r.Body.transformToByteArray();
+}
+
+/** The SHA-256 stored with an object (its metadata), or null when the object is not there. */
+export async function headObjectSha256(key: string): Promise<string | null> {
+  try {
+    const r = await s3().send(new HeadObjectCommand({ Bucket: env.S3_BUCKET, Key: key }));
+    return r.Metadata?.sha256 ?? "";
+  } catch (e) {
+    const status = (e as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode;
+    if (status === 404 || (e as { name?: string }).name === "NotFound") return null;
+    throw e;
+  }
+}
+
+/** Number of objects under a prefix (tests and checks; pages through the listing). */
+export async function countObjects(prefix = ""): Promise<number> {
+  let n = 0;
+  let token: string | undefined;
+  do {
+    const r = await s3().send(
+      new ListObjectsV2Command({ Bucket: env.S3_BUCKET, Prefix: prefix || undefined, ContinuationToken: token }),
+    );
+    n += r.KeyCount ?? r.Contents?.length ?? 0;
+    token = r.IsTruncated ? r.NextContinuationToken : undefined;
+  } while (token);
+  return n;
 }
 
 export async function deleteObject(key: string): Promise<void> {

@@ -4,7 +4,8 @@ import { and, eq, sql } from "drizzle-orm";
 import { db, type Tx } from "@/server/db/client";
 import { campaigns, plateMaps, plateRuns, wellReadings } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
-import { deleteObject, putObject } from "@/server/storage/s3";
+import { putObject } from "@/server/storage/s3";
+import { commitWithObject, deleteUnlessReferenced } from "@/server/storage/checksum-lock";
 import type { Actor } from "@/server/auth/actor";
 import { isUniqueViolation } from "@/server/db/sql-helpers";
 import { plateMapFromWells } from "@/lib/plates";
@@ -130,15 +131,9 @@ export async function previewRun(
   };
 }
 
-async function deleteIfUnreferenced(sha256: string): Promise<void> {
-  const [ref] = await db.select({ id: plateRuns.id }).from(plateRuns).where(eq(plateRuns.sha256, sha256)).limit(1);
-  if (ref) return;
-  try {
-    await deleteObject(s3KeyFor(sha256));
-  } catch (e) {
-    console.error("[inhibitrack] could not delete an unreferenced upload", sha256, e);
-  }
-}
+/** Whether a committed run (in any campaign) uses the object of these bytes. */
+const runUses = (sha256: string) => async (tx: Tx) =>
+  (await tx.select({ id: plateRuns.id }).from(plateRuns).where(eq(plateRuns.sha256, sha256)).limit(1)).length > 0;
 
 async function duplicateError(campaignId: string, sha256: string, fileName: string): Promise<AppError | null> {
   const [dup] = await db
@@ -200,7 +195,10 @@ async function insertReadings(
  * Upload a reader export: size cap → SHA-256 → duplicate check → stored in the object store →
  * parsed with the plate map's format → checked against the map → initial rates (kinetic) →
  * QC and % inhibition → one transaction writing the run and its readings. On any error nothing
- * is written, and the stored object is removed unless another run uses the same bytes.
+ * is written, and the stored object is removed unless another run uses the same bytes. Runs of
+ * the same bytes in other campaigns share the object: the commit and the removal hold the
+ * checksum's lock (src/server/storage/checksum-lock.ts), so a failing upload never removes the
+ * raw file of a good one.
  */
 export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadInput): Promise<RunSummary> {
   const fileName = cleanFileName(input.fileName);
@@ -214,7 +212,7 @@ export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadI
   await putObject(key, input.bytes, contentType, sha256);
   try {
     const { exp, built, qc, inhibitionPct } = await readAgainstMap(campaign, mapRow, input.bytes, fileName);
-    const id = await db.transaction(async (tx) => {
+    const id = await commitWithObject({ key, bytes: input.bytes, contentType, sha256 }, async (tx) => {
       const [run] = await tx
         .insert(plateRuns)
         .values({
@@ -263,7 +261,7 @@ export async function uploadRun(actor: Actor, campaign: Campaign, input: UploadI
       },
     };
   } catch (e) {
-    await deleteIfUnreferenced(sha256);
+    await deleteUnlessReferenced(key, sha256, runUses(sha256));
     if (isUniqueViolation(e))
       throw (
         (await duplicateError(campaign.id, sha256, fileName)) ??
