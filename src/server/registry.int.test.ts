@@ -15,10 +15,12 @@ import {
   deniedAction,
   newTestUser,
   TEST_PASSWORD,
+  type TestUser,
   type World,
 } from "@/test/harness";
+import { eq } from "drizzle-orm";
 import { db } from "@/server/db/client";
-import { memberships } from "@/server/db/schema";
+import { compounds, hitRows, memberships, plateMaps } from "@/server/db/schema";
 
 import * as health from "@/app/api/health/route";
 import * as me from "@/app/api/me/route";
@@ -44,7 +46,7 @@ import * as compoundImportCommit from "@/app/api/compound-imports/[importId]/com
 import * as compoundImportReport from "@/app/api/compound-imports/[importId]/report/route";
 import * as compoundActions from "@/app/(workspace)/compounds/actions";
 import { compoundsWorld, importFile, uniqueSmiles } from "@/test/compounds";
-import { addToLibrary } from "@/server/services/compounds";
+import { addToLibrary, registerCompound, startImport } from "@/server/services/compounds";
 import * as experimentsRoute from "@/app/api/campaigns/[campaignId]/experiments/route";
 import * as analysesRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/route";
 import * as analysisRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route";
@@ -809,4 +811,155 @@ describe("role matrix", () => {
       });
     }
   }
+});
+
+// Items 9–10 of the hardening issue: who reads which compound, and whose import jobs. People: a
+// viewer of campaign A (a partner lab), a chemist of A (registry role), an assay scientist of
+// campaign B, an admin, and a stranger (signed in, member of nothing). X is on A's plate map, Y on
+// B's hit list, Z in no campaign. Rule owner: src/server/auth/compound-access.ts (product design,
+// roles table: chemists register compounds for every campaign; viewers read their campaigns).
+describe("registry reads and import jobs: who sees what", () => {
+  afterAll(() => stopBoss());
+  type Who = "viewerA" | "chemist" | "assayB" | "admin" | "stranger";
+  const ids = { x: "", y: "", z: "" };
+  let w: World;
+  let people: Record<Who, TestUser>;
+  let tag = "";
+  let otherChemist: TestUser;
+  beforeAll(async () => {
+    w = await makeWorld();
+    tag = w.tag;
+    const assayB = await newTestUser(`assay-b-${tag}`);
+    const stranger = await newTestUser(`stranger-${tag}`);
+    otherChemist = await newTestUser(`chemist-b-${tag}`);
+    await db.insert(memberships).values([
+      { campaignId: w.otherCampaignId, userId: assayB.id, role: "assay" },
+      { campaignId: w.otherCampaignId, userId: otherChemist.id, role: "chemist" },
+    ]);
+    people = { viewerA: w.people.viewer, chemist: w.people.chemist, assayB, admin: w.people.admin, stranger };
+    const admin = { ...w.people.admin, globalRole: "admin" as const };
+    for (const k of ["x", "y", "z"] as const) {
+      const r = await registerCompound(admin, {
+        smiles: uniqueSmiles(),
+        name: `Access ${k} ${tag} (invented)`,
+        batch: { supplier: "Invented Supplier" },
+        stock: { concentrationMm: 10, solvent: "DMSO", volumeUl: 100 },
+      });
+      ids[k] = r.registryId;
+    }
+    await db.insert(plateMaps).values({
+      campaignId: w.campaignId,
+      name: `Access map ${tag} (invented)`,
+      format: 96,
+      wells: [{ well: "A1", role: "sample", compound: ids.x, concentrationUm: 10 }],
+      sampleWells: 1,
+      neutralWells: 0,
+      fullWells: 0,
+    });
+    const [y] = await db.select().from(compounds).where(eq(compounds.registryId, ids.y));
+    await db
+      .insert(hitRows)
+      .values({ campaignId: w.otherCampaignId, compoundId: ids.y, structureKey: y!.structureKey });
+  });
+
+  const sees: Record<Who, ("x" | "y" | "z")[]> = {
+    viewerA: ["x"],
+    chemist: ["x", "y", "z"],
+    assayB: ["y"],
+    admin: ["x", "y", "z"],
+    stranger: [],
+  };
+
+  for (const who of Object.keys(sees) as Who[]) {
+    it(`${who}: the compound page (with batches and stocks) answers for ${sees[who].join(", ") || "none"} and 404 otherwise`, async () => {
+      for (const k of ["x", "y", "z"] as const) {
+        const r = await callRoute(compoundRoute.GET, {
+          user: people[who],
+          path: `/api/compounds/${ids[k]}`,
+          params: { registryId: ids[k] },
+        });
+        if (sees[who].includes(k)) {
+          expect(r.status, `${who} reads ${k}`).toBe(200);
+          const j = r.json as { batches: unknown[]; stocks: unknown[] };
+          expect(j.batches).toHaveLength(1);
+          expect(j.stocks).toHaveLength(1);
+        } else {
+          expect(r.status, `${who} must not see ${k}`).toBe(404);
+          expect((r.json as { error: string }).error).toBe(`No compound ${ids[k]} in the registry.`);
+        }
+      }
+    });
+
+    it(`${who}: list, text search and substructure search give only ${sees[who].join(", ") || "nothing"}`, async () => {
+      const want = sees[who].map((k) => ids[k]).sort();
+      for (const qs of [
+        `q=${encodeURIComponent(`Access`)}%20&limit=200`,
+        `q=${tag}&limit=200`,
+        `q=${tag}&substructure=${encodeURIComponent("c1ccc(cc1)C(=O)NC")}&limit=200`,
+      ]) {
+        const r = await callRoute(compoundsRoute.GET, { user: people[who], path: `/api/compounds?${qs}` });
+        expect(r.status).toBe(200);
+        const got = (r.json as { items: { registryId: string }[] }).items.map((i) => i.registryId);
+        const mine = got.filter((id) => Object.values(ids).includes(id)).sort();
+        if (qs.startsWith(`q=${tag}`)) expect(mine, qs).toEqual(want);
+        else
+          expect(
+            mine.filter((id) => !want.includes(id)),
+            qs,
+          ).toEqual([]);
+      }
+    });
+  }
+
+  it("the campaign-scoped drawing: B's members get Y's; A's members get 404 for B's route and for Y on A's route", async () => {
+    const call = (user: TestUser, campaignId: string, registryId: string) =>
+      callRoute(hitStructureRoute.GET, {
+        user,
+        path: `/api/campaigns/${campaignId}/hits/${registryId}/structure`,
+        params: { campaignId, registryId },
+      });
+    const ok = await call(people.assayB, w.otherCampaignId, ids.y);
+    expect(ok.status).toBe(200);
+    expect(ok.response.headers.get("content-type")).toContain("image/svg+xml");
+    expect(ok.response.headers.get("etag")).toMatch(/^"[\w-]+"$/);
+    expect(ok.json as string).toMatch(/^<svg/);
+    expect((await call(people.viewerA, w.otherCampaignId, ids.y)).status).toBe(404);
+    expect((await call(people.viewerA, w.campaignId, ids.y)).status).toBe(404);
+    expect((await call(people.stranger, w.otherCampaignId, ids.y)).status).toBe(404);
+  });
+
+  it("import jobs: the uploader and admins read, report and commit; another chemist and a viewer get 404", async () => {
+    const { job, done } = await startImport(w.people.chemist, {
+      fileName: `access-${tag}.csv`,
+      contentType: "text/csv",
+      bytes: new TextEncoder().encode(`smiles,name\n${uniqueSmiles()},Import ${tag} (invented)\n`),
+    });
+    await done;
+    const path = `/api/compound-imports/${job.id}`;
+    const params = { importId: job.id };
+    const read = (user: TestUser) => callRoute(compoundImportRoute.GET, { user, path, params });
+    const report = (user: TestUser) => callRoute(compoundImportReport.GET, { user, path: `${path}/report`, params });
+    const commit = (user: TestUser) =>
+      callRoute(compoundImportCommit.POST, {
+        user,
+        method: "POST",
+        path: `${path}/commit`,
+        params,
+        body: { mode: "valid_only" },
+      });
+    for (const u of [otherChemist, people.viewerA, people.stranger]) {
+      expect((await read(u)).status).toBe(404);
+      expect((await report(u)).status).toBe(404);
+    }
+    expect((await commit(otherChemist)).status).toBe(404);
+    expect((await read(people.admin)).status).toBe(200);
+    expect((await report(people.admin)).status).toBe(200);
+    const r = await read(people.chemist);
+    expect(r.status).toBe(200);
+    expect((r.json as { status: string }).status).toBe("ready");
+    const c = await commit(people.chemist);
+    expect(c.status).toBe(200);
+    expect((c.json as { result: { registered: number } }).result.registered).toBe(1);
+    expect((await report(people.chemist)).status).toBe(200);
+  });
 });

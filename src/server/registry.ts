@@ -112,17 +112,20 @@ export const registry: RegistryEntry[] = [
     what: "accept or reject a run's QC",
     allow: ["assay", "admin"],
   },
-  // Compounds: not campaign-scoped; everyone signed in reads, chemists (in any campaign) and admins write
+  // Compounds: not campaign-scoped. Chemists (in any campaign) and admins read the whole registry
+  // and write; anyone else reads only compounds of their campaigns (compound-access.ts; outside
+  // them 404). The world's compound appears in no campaign, and its imports were uploaded by the
+  // admin (only the uploader and admins read or commit an import).
   {
     id: "src/app/api/compounds/route.ts#GET",
-    what: "search compounds (ID, name, alias, substructure)",
+    what: "search compounds (ID, name, alias, substructure) among those the reader may see",
     allow: signedIn,
   },
   { id: "src/app/api/compounds/route.ts#POST", what: "register a compound", allow: ["chemist", "admin"] },
   {
     id: "src/app/api/compounds/[registryId]/route.ts#GET",
-    what: "a compound with batches, stocks, libraries",
-    allow: signedIn,
+    what: "a compound with batches, stocks, libraries (registry role, or in a campaign of the reader)",
+    allow: ["chemist", "admin"],
   },
   {
     id: "src/app/api/compound-imports/route.ts#POST",
@@ -131,18 +134,18 @@ export const registry: RegistryEntry[] = [
   },
   {
     id: "src/app/api/compound-imports/[importId]/route.ts#GET",
-    what: "an import's progress and preview",
-    allow: signedIn,
+    what: "an import's progress and preview (uploader and admins)",
+    allow: ["admin"],
   },
   {
     id: "src/app/api/compound-imports/[importId]/commit/route.ts#POST",
-    what: "register an import (chosen mode, one transaction)",
-    allow: ["chemist", "admin"],
+    what: "register an import (chosen mode, one transaction; uploader and admins)",
+    allow: ["admin"],
   },
   {
     id: "src/app/api/compound-imports/[importId]/report/route.ts#GET",
-    what: "download an import's report (CSV)",
-    allow: signedIn,
+    what: "download an import's report (CSV; uploader and admins)",
+    allow: ["admin"],
   },
   {
     id: "src/app/(workspace)/compounds/actions.ts#registerCompoundAction",

@@ -26,14 +26,17 @@ export const counts = async () => {
 export function compoundApi(world: () => World) {
   const post = (body: unknown, who: "chemist" | "admin" = "chemist") =>
     callRoute(compoundsRoute.POST, { user: world().people[who], method: "POST", path: "/api/compounds", body });
-  const getOne = (registryId: string) =>
+  // Reads as the chemist by default: a registry role sees the whole registry; viewers see only
+  // their campaigns' compounds (src/server/auth/compound-access.ts, tested in registry-access.int.test.ts).
+  type Reader = "viewer" | "chemist" | "assay" | "lead" | "nonMember" | "admin";
+  const getOne = (registryId: string, who: Reader = "chemist") =>
     callRoute(compoundRoute.GET, {
-      user: world().people.viewer,
+      user: world().people[who],
       path: `/api/compounds/${registryId}`,
       params: { registryId },
     });
-  const search = (qs: string) =>
-    callRoute(compoundsRoute.GET, { user: world().people.viewer, path: `/api/compounds?${qs}` });
+  const search = (qs: string, who: Reader = "chemist") =>
+    callRoute(compoundsRoute.GET, { user: world().people[who], path: `/api/compounds?${qs}` });
 
   /** Registers, or finds the registry ID when an earlier test file registered the same structure. */
   async function registerOrFind(

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { pageUser } from "@/server/auth/page-guard";
-import { canWriteCompounds } from "@/server/auth/compound-access";
+import { canWriteCompounds, compoundScope } from "@/server/auth/compound-access";
 import { listLibraries } from "@/server/services/compounds";
 import { ChemicalSafetyNote } from "@/components/ui/caution";
 import { COMPUTED_PROPERTIES_CAUTION } from "@/lib/chem/cautions";
@@ -18,7 +18,7 @@ export default async function CompoundsPage({
 }) {
   const user = await pageUser();
   const sp = await searchParams;
-  const [writer, libraries] = await Promise.all([canWriteCompounds(user), listLibraries()]);
+  const [writer, libraries] = await Promise.all([canWriteCompounds(user), compoundScope(user).then(listLibraries)]);
   return (
     <main className="mx-auto w-full max-w-7xl px-6 py-6">
       <div className="mb-1 flex flex-wrap items-baseline gap-3">

@@ -1,4 +1,5 @@
-import { requireCapabilityAnywhere, requireUser } from "@/server/auth/guard";
+import { requireCapabilityAnywhere } from "@/server/auth/guard";
+import { requireRegistryReader } from "@/server/auth/compound-access";
 import { json, parseJson, parseQuery, route } from "@/server/http";
 import { PROPERTY_UNITS, registerCompound, searchCompounds } from "@/server/services/compounds";
 import { registerBody, searchQuery } from "./schema";
@@ -7,14 +8,15 @@ import { publicProperties } from "@/lib/chem/properties";
 export const dynamic = "force-dynamic";
 
 /**
- * Search the registry (anyone signed in): `q` by registry ID, name or alias (ranked), and/or
+ * Search the registry (anyone signed in, over the compounds they may read: the whole registry
+ * for chemists and admins, otherwise those of their campaigns; src/server/auth/compound-access.ts): `q` by registry ID, name or alias (ranked), and/or
  * `substructure` (SMILES or SMARTS). `{ items, total, totalIsLowerBound }`; a substructure search
  * that could not check every candidate within its time budget gives a lower bound ("more than").
  */
 export const GET = route(async (req) => {
-  await requireUser();
+  const scope = await requireRegistryReader();
   const q = parseQuery(req, searchQuery);
-  const r = await searchCompounds({
+  const r = await searchCompounds(scope, {
     q: q.q,
     substructure: q.substructure,
     limit: q.limit,

@@ -1,7 +1,9 @@
 import "server-only";
 
 // The compound registry's use cases; callers import them from "@/server/services/compounds".
-export { insertCompounds, prepareStructure, type PreparedCompound } from "./write";
+export { insertCompounds, prepareStructure, prepareStructureOffThread, type PreparedCompound } from "./write";
+export { drawingResponse, structureSvgOf, structureSvgs } from "./drawings";
+export { STRUCTURE_TIME_LIMIT_MS } from "./prepare-pool";
 export { addBatch, addStock, editCompound, registerCompound, type RegisterResult } from "./register";
 export {
   compoundSummary,

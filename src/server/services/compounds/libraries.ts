@@ -1,4 +1,5 @@
 import "server-only";
+import { visibleCompoundSql, type CompoundScope } from "@/server/auth/compound-access";
 import { and, asc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Tx } from "@/server/db/client";
 import { compoundLibraries, compounds, libraryMembers, users } from "@/server/db/schema";
@@ -132,8 +133,8 @@ export async function removeFromLibrary(actor: Actor, libraryId: string, registr
   });
 }
 
-/** Every library with its member count, by name. */
-export async function listLibraries() {
+/** Every library with the count of its members the reader may see, by name. */
+export async function listLibraries(scope: CompoundScope) {
   return db
     .select({
       id: compoundLibraries.id,
@@ -141,22 +142,22 @@ export async function listLibraries() {
       description: compoundLibraries.description,
       createdAt: compoundLibraries.createdAt,
       createdBy: users.name,
-      members: sql<number>`(select count(*)::int from ${libraryMembers} m where m.library_id = ${compoundLibraries.id})`,
+      members: sql<number>`(select count(*)::int from ${libraryMembers} m join ${compounds} c on c.id = m.compound_id where m.library_id = ${compoundLibraries.id} and ${visibleCompoundSql(scope, sql`c.registry_id`)})`,
     })
     .from(compoundLibraries)
     .leftJoin(users, eq(users.id, compoundLibraries.createdBy))
     .orderBy(asc(compoundLibraries.name));
 }
 
-/** One library with its members in registry order. */
-export async function getLibrary(libraryId: string) {
+/** One library with the members the reader may see (compound-access.ts), in registry order. */
+export async function getLibrary(scope: CompoundScope, libraryId: string) {
   const [lib] = await db.select().from(compoundLibraries).where(eq(compoundLibraries.id, libraryId));
   if (!lib) throw new AppError("not_found", "No such library.");
   const members = await db
     .select({ c: compounds, addedAt: libraryMembers.addedAt })
     .from(libraryMembers)
     .innerJoin(compounds, eq(compounds.id, libraryMembers.compoundId))
-    .where(eq(libraryMembers.libraryId, libraryId))
+    .where(and(eq(libraryMembers.libraryId, libraryId), visibleCompoundSql(scope, compounds.registryId)))
     .orderBy(asc(compounds.registryNumber));
   return { ...lib, members: members.map((m) => compoundSummary(m.c)) };
 }

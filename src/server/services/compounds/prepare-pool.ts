@@ -3,22 +3,37 @@ import os from "node:os";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
-import { prepareImport, type PrepareResult, type PreparedRecord } from "@/lib/chem/import-prepare";
+import type { PrepareResult, PreparedRecord } from "@/lib/chem/import-prepare";
+import { AppError } from "@/server/errors";
+import type { ChemTask } from "./chem-tasks";
 import type { ImportIssue, ImportRecord } from "@/lib/chem/import-types";
 
 /**
- * Import preparation (about 2.5–3 ms per record with openchemlib, measured in bench/chem.ts) split
- * over worker threads, one per core up to 2, in chunks of CHUNK records so progress can be
- * reported. Small imports (and any failure to start a worker) run in this thread, yielding to the
- * event loop between chunks so the server keeps answering.
+ * The one place the server runs chemistry: a small pool of worker threads (one per core, at
+ * most 2) that parse, canonicalise, compute properties and fingerprints, draw and match
+ * substructures (src/server/workers/compound-prepare.worker.ts). The server's event loop never
+ * runs openchemlib, so a large or hostile structure costs its own request time and nobody
+ * else's.
  *
- * In-file duplicates are decided here over the whole file in record order (the workers see only
- * their chunk): a record with the structure key of an earlier one is an issue, one that shares
- * only the stereo-free key gets a warning (the rules of import-prepare.ts).
+ * Every task has a time limit: a worker that overruns is terminated and a fresh one started; the
+ * caller gets an AppError with a sentence (413 for a structure too complex to finish, 429 when the
+ * queue is full or no worker could start), never a 500 or a hang. Imports report progress per
+ * record, and the limit applies per record, so one slow record is reported as an issue and the
+ * rest of its chunk goes on in the fresh worker.
+ *
+ * In-file duplicates of an import are decided here over the whole file in record order (the
+ * workers see only their chunk): a record with the structure key of an earlier one is an issue,
+ * one that shares only the stereo-free key gets a warning (the rules of import-prepare.ts).
  */
-const CHUNK = 250;
-const PARALLEL_FROM = 600;
+/** Records per import task: small, so a registration waits at most one chunk (~0.15 s) behind an import. */
+const CHUNK = 50;
 const WORKER_DIR = path.join(process.cwd(), "src", "server", "workers");
+/** Time one structure (or one import record) may take; a capped structure takes under 4 s here cold. */
+export const STRUCTURE_TIME_LIMIT_MS = 10_000;
+/** Waiting tasks beyond this are refused at once (the service is overloaded). */
+const MAX_QUEUE = 200;
+/** A worker that has not loaded its modules by then is given up. */
+const START_LIMIT_MS = 60_000;
 
 type ChunkResult = PrepareResult;
 
@@ -28,17 +43,26 @@ function split<T>(xs: readonly T[], n: number): T[][] {
   return out;
 }
 
-const yieldToLoop = () => new Promise<void>((r) => setImmediate(r));
-
-async function inThread(
-  chunks: ImportRecord[][],
-  onChunk: (i: number, r: ChunkResult) => Promise<void> | void,
-): Promise<void> {
-  for (const [i, c] of chunks.entries()) {
-    await onChunk(i, prepareImport(c, { duplicates: "warn" }));
-    await yieldToLoop();
+/** A task's time limit ran out; `progress` is the last record index an import task reported. */
+export class ChemTimeout extends Error {
+  constructor(
+    readonly limitMs: number,
+    readonly progress: number | null,
+  ) {
+    super(`Chemistry task stopped after ${limitMs} ms.`);
   }
 }
+
+type Job = {
+  task: ChemTask;
+  limitMs: number;
+  resolve: (v: unknown) => void;
+  reject: (e: unknown) => void;
+  onProgress?: (index: number) => void;
+  bulk: boolean;
+};
+
+type Slot = { worker: Worker | null; starting: Promise<Worker> | null; job: Job | null; progress: number | null };
 
 function startWorker(): Promise<Worker> {
   return new Promise((resolve, reject) => {
@@ -48,77 +72,206 @@ function startWorker(): Promise<Worker> {
     const w = new Worker(`import(${JSON.stringify(boot)}).catch((e) => { throw e; });`, {
       eval: true,
       workerData: { file: path.join(WORKER_DIR, "compound-prepare.worker.ts") },
+      // Bounds a runaway structure's memory to its worker (terminated on overrun).
+      resourceLimits: { maxOldGenerationSizeMb: 1024 },
     });
-    const fail = (e: unknown) => reject(e instanceof Error ? e : new Error(String(e)));
-    w.once("online", () => {
-      w.off("error", fail);
-      resolve(w);
-    });
+    w.unref(); // an idle pool does not keep a test or CLI process alive
+    const timer = setTimeout(() => {
+      void w.terminate();
+      reject(new Error("The chemistry worker did not start in time."));
+    }, START_LIMIT_MS);
+    timer.unref();
+    const fail = (e: unknown) => {
+      clearTimeout(timer);
+      reject(e instanceof Error ? e : new Error(String(e)));
+    };
     w.once("error", fail);
+    w.once("exit", (code) => fail(new Error(`The chemistry worker stopped while starting (exit ${code}).`)));
+    const onReady = (m: { ready?: boolean }) => {
+      if (!m?.ready) return;
+      clearTimeout(timer);
+      w.off("message", onReady);
+      w.off("error", fail);
+      w.removeAllListeners("exit");
+      resolve(w);
+    };
+    w.on("message", onReady);
   });
 }
 
-async function inWorkers(
-  count: number,
-  chunks: ImportRecord[][],
-  onChunk: (i: number, r: ChunkResult) => Promise<void> | void,
-): Promise<void> {
-  const workers = await Promise.all(Array.from({ length: count }, startWorker));
-  let next = 0;
-  try {
-    await Promise.all(
-      workers.map(
-        (w) =>
-          new Promise<void>((resolve, reject) => {
-            const send = () => {
-              if (next >= chunks.length) return resolve();
-              const id = next++;
-              w.postMessage({ id, records: chunks[id] });
-            };
-            w.on("message", (m: { id: number; ok: boolean; result?: ChunkResult; error?: string }) => {
-              if (!m.ok || !m.result) return reject(new Error(`Preparing records failed: ${m.error ?? "no result"}`));
-              Promise.resolve(onChunk(m.id, m.result)).then(send, reject);
-            });
-            w.once("error", reject);
-            w.once("exit", (code) =>
-              code !== 0 ? reject(new Error(`A preparation worker stopped (exit ${code}).`)) : undefined,
-            );
-            send();
-          }),
-      ),
-    );
-  } finally {
-    await Promise.all(workers.map((w) => w.terminate()));
+class ChemPool {
+  private slots: Slot[];
+  private queue: Job[] = [];
+  private seq = 0;
+
+  constructor(size: number) {
+    this.size = size;
+    this.slots = Array.from({ length: size }, () => ({ worker: null, starting: null, job: null, progress: null }));
   }
+
+  readonly size: number;
+
+  /** Interactive tasks (a registration, a drawing, a search) go ahead of waiting import chunks. */
+  run<T>(task: ChemTask, limitMs = STRUCTURE_TIME_LIMIT_MS, onProgress?: (index: number) => void): Promise<T> {
+    if (this.queue.length >= MAX_QUEUE)
+      return Promise.reject(
+        new AppError("throttled", "The structure service is busy with other requests; try again in a few seconds."),
+      );
+    const bulk = task.kind === "import";
+    return new Promise<T>((resolve, reject) => {
+      const job = { task, limitMs, resolve: resolve as (v: unknown) => void, reject, onProgress, bulk };
+      const at = bulk ? -1 : this.queue.findIndex((j) => j.bulk);
+      if (at < 0) this.queue.push(job);
+      else this.queue.splice(at, 0, job);
+      this.pump();
+    });
+  }
+
+  private pump() {
+    for (const slot of this.slots) {
+      if (slot.job || slot.starting || this.queue.length === 0) continue;
+      if (!slot.worker) {
+        slot.starting = startWorker();
+        slot.starting.then(
+          (w) => {
+            slot.worker = w;
+            slot.starting = null;
+            this.pump();
+          },
+          (e) => {
+            slot.starting = null;
+            console.error("[inhibitrack] chemistry worker could not start", e);
+            // Nobody else can serve the queue if no worker starts: refuse what waits.
+            if (this.slots.every((s) => !s.worker && !s.starting))
+              for (const j of this.queue.splice(0))
+                j.reject(new AppError("throttled", "The structure service could not start; try again in a minute."));
+          },
+        );
+        continue;
+      }
+      this.dispatch(slot, this.queue.shift()!);
+    }
+  }
+
+  private dispatch(slot: Slot, job: Job) {
+    const w = slot.worker!;
+    const id = ++this.seq;
+    slot.job = job;
+    slot.progress = null;
+    let timer: NodeJS.Timeout;
+    const arm = () => {
+      clearTimeout(timer);
+      timer = setTimeout(() => finish(new ChemTimeout(job.limitMs, slot.progress), true), job.limitMs);
+    };
+    const onMessage = (m: { id: number; ok?: boolean; result?: unknown; error?: string; progress?: number }) => {
+      if (m.id !== id) return;
+      if (m.progress !== undefined) {
+        slot.progress = m.progress;
+        job.onProgress?.(m.progress);
+        arm();
+        return;
+      }
+      finish(m.ok ? null : new Error(`Chemistry task failed: ${m.error ?? "no result"}`), false, m.result);
+    };
+    const onExit = (code: number) => finish(new Error(`The chemistry worker stopped (exit ${code}).`), true);
+    const onError = (e: Error) => finish(e, true);
+    const finish = (err: Error | null, kill: boolean, result?: unknown) => {
+      clearTimeout(timer);
+      w.off("message", onMessage);
+      w.off("exit", onExit);
+      w.off("error", onError);
+      slot.job = null;
+      if (kill) {
+        slot.worker = null;
+        void w.terminate();
+      }
+      if (err) job.reject(err);
+      else job.resolve(result);
+      this.pump();
+    };
+    w.on("message", onMessage);
+    w.once("exit", onExit);
+    w.once("error", onError);
+    arm();
+    w.postMessage({ id, task: job.task });
+  }
+}
+
+const g = globalThis as unknown as { __inhibitrackChemPool?: ChemPool };
+/** The process's one pool (kept on globalThis so a dev-server module reload does not start another). */
+function pool(): ChemPool {
+  g.__inhibitrackChemPool ??= new ChemPool(Math.max(1, Math.min(2, os.availableParallelism())));
+  return g.__inhibitrackChemPool;
+}
+
+/** A structure-level sentence for a task that ran out of time. */
+function tooComplex(what: string, limitMs: number): AppError {
+  return new AppError(
+    "too_large",
+    `${what} took longer than ${limitMs / 1000} s and was stopped; the structure is too large or too complex for the registry.`,
+  );
+}
+
+/** Runs one task in the pool; a timeout becomes a 413 naming `what`. */
+export async function runChem<T>(task: ChemTask, what: string, limitMs = STRUCTURE_TIME_LIMIT_MS): Promise<T> {
+  try {
+    return await pool().run<T>(task, limitMs);
+  } catch (e) {
+    if (e instanceof ChemTimeout) throw tooComplex(what, limitMs);
+    throw e;
+  }
+}
+
+async function prepareChunk(records: ImportRecord[]): Promise<ChunkResult> {
+  const out: ChunkResult = { prepared: [], issues: [], warnings: [] };
+  let rest = records;
+  while (rest.length > 0) {
+    try {
+      const r = await pool().run<ChunkResult>({ kind: "import", records: rest }, STRUCTURE_TIME_LIMIT_MS);
+      out.prepared.push(...r.prepared);
+      out.issues.push(...r.issues);
+      out.warnings.push(...r.warnings);
+      rest = [];
+    } catch (e) {
+      if (!(e instanceof ChemTimeout) || e.progress === null) throw e;
+      // The record being prepared overran: it is an issue; the records before it are prepared
+      // again with the rest (cheaper than keeping partial results across a terminated worker).
+      const slow = rest[e.progress]!;
+      out.issues.push({
+        record: slow.recordNo,
+        line: slow.line,
+        field: slow.smiles !== undefined ? "smiles" : "molfile",
+        message: `Preparing this structure took longer than ${e.limitMs / 1000} s and was stopped; it is too large or too complex for the registry.`,
+      });
+      rest = [...rest.slice(0, e.progress), ...rest.slice(e.progress + 1)];
+    }
+  }
+  return out;
 }
 
 export type PrepareProgress = (done: number, total: number) => Promise<void> | void;
 
-/** prepareImport over all records, in parallel where it pays; results in record order. */
+/** prepareImport over all records in the worker pool (chunks in parallel); results in record order. */
 export async function prepareAll(
   records: readonly ImportRecord[],
   onProgress?: PrepareProgress,
-  opts: { threads?: number } = {},
 ): Promise<PrepareResult & { threads: number }> {
   const chunks = split(records, CHUNK);
   const results: ChunkResult[] = new Array(chunks.length);
+  const threads = Math.max(1, Math.min(chunks.length, pool().size));
+  let next = 0;
   let done = 0;
-  const onChunk = async (i: number, r: ChunkResult) => {
-    results[i] = r;
-    done += chunks[i]!.length;
-    await onProgress?.(done, records.length);
-  };
-  let threads = opts.threads ?? (records.length >= PARALLEL_FROM ? Math.min(2, os.availableParallelism()) : 0);
-  if (threads > 0) {
-    try {
-      await inWorkers(threads, chunks, onChunk);
-    } catch (e) {
-      console.error("[inhibitrack] preparation workers failed; preparing in the server thread", e);
-      threads = 0;
-      done = 0;
-      await inThread(chunks, onChunk);
-    }
-  } else await inThread(chunks, onChunk);
+  // One runner per worker, each taking the next chunk, so progress advances in record order.
+  await Promise.all(
+    Array.from({ length: threads }, async () => {
+      while (next < chunks.length) {
+        const i = next++;
+        results[i] = await prepareChunk(chunks[i]!);
+        done += chunks[i]!.length;
+        await onProgress?.(done, records.length);
+      }
+    }),
+  );
   return { ...merge(results), threads };
 }
 

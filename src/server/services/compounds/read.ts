@@ -1,5 +1,5 @@
 import "server-only";
-import { asc, eq, sql } from "drizzle-orm";
+import { and, asc, eq, sql } from "drizzle-orm";
 import { db, type Tx } from "@/server/db/client";
 import {
   compoundBatches,
@@ -10,6 +10,7 @@ import {
   users,
 } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
+import { compoundNotFound, visibleCompoundSql, type CompoundScope } from "@/server/auth/compound-access";
 
 export type CompoundRow = typeof compounds.$inferSelect;
 
@@ -46,9 +47,18 @@ export type CompoundSummary = ReturnType<typeof compoundSummary>;
 
 export const PROPERTY_UNITS = { mw: "g/mol", exactMass: "Da", tpsa: "Å²", clogp: "log units (octanol/water)" } as const;
 
-/** One compound with its batches, stock solutions and libraries (the compound page and its API). */
-export async function getCompound(registryId: string) {
-  const c = await compoundByRegistryId(db, registryId);
+/**
+ * One compound with its batches, stock solutions and libraries (the compound page and its API),
+ * if the reader's scope includes it (compound-access.ts); 404 otherwise, as for an unknown ID.
+ */
+export async function getCompound(scope: CompoundScope, registryId: string) {
+  const id = registryId.trim().toUpperCase();
+  const [c] = await db
+    .select()
+    .from(compounds)
+    .where(and(eq(compounds.registryId, id), visibleCompoundSql(scope, compounds.registryId)))
+    .limit(1);
+  if (!c) throw compoundNotFound(registryId);
   const [batchRows, stockRows, libs, who] = await Promise.all([
     db
       .select({ b: compoundBatches, by: users.name })

@@ -13,7 +13,7 @@ import {
   hasBatchData,
   hasStockData,
   insertCompounds,
-  prepareStructure,
+  prepareStructureOffThread,
   stockValues,
   structureColumns,
 } from "./write";
@@ -52,7 +52,7 @@ export type RegisterResult = {
  * from the input become the batch's salt form. One transaction with its audit row.
  */
 export async function registerCompound(actor: Actor, input: RegisterCompoundInput): Promise<RegisterResult> {
-  const prep = prepareStructure(input);
+  const prep = await prepareStructureOffThread(input);
   const p = prep.properties;
   const warnings = [...prep.warnings];
   let batch = input.batch;
@@ -190,7 +190,8 @@ export async function editCompound(
   registryId: string,
   input: { name?: string; aliases?: string[]; smiles?: string; molfile?: string; reason?: string },
 ): Promise<void> {
-  const prep = input.smiles !== undefined || input.molfile !== undefined ? prepareStructure(input) : null;
+  const prep =
+    input.smiles !== undefined || input.molfile !== undefined ? await prepareStructureOffThread(input) : null;
   if (prep && !input.reason)
     throw new AppError("bad_request", "A structure edit needs a reason (it is recorded in the audit log).", {
       details: [{ field: "reason", message: "Give a reason for the structure edit." }],

@@ -5,8 +5,10 @@ import { compounds, libraryMembers } from "@/server/db/schema";
 import { containsPattern, escapeLike } from "@/server/db/sql-helpers";
 import { AppError } from "@/server/errors";
 import { formatRegistryId } from "@/server/registry-id";
-import { exactSearchPage, parseFragmentQuery, structureSvg, toBitString } from "@/lib/chem";
+import { visibleCompoundSql, type CompoundScope } from "@/server/auth/compound-access";
 import { compoundSummary, type CompoundRow, type CompoundSummary } from "./read";
+import { structureSvgs } from "./drawings";
+import { runChem } from "./prepare-pool";
 
 /** Columns the compound grid may sort by (ties broken by the registry number). */
 export const SORT_FIELDS = {
@@ -97,9 +99,27 @@ const RANK_NAMES = [
   "similar name or alias",
 ];
 
-/** The compound grid's search: text, substructure, library and MW filters, ranked and paged. */
-export async function searchCompounds(input: SearchInput): Promise<SearchResult> {
+/** Hard stop for the exact check in the worker, beyond its own time budget (a hostile query). */
+const SEARCH_LIMIT_MS = 5_000;
+
+type QueryParsed = { ok: true; understoodAs: string; bits: string } | { ok: false; error: string };
+type ExactPage = {
+  ok: true;
+  ids: string[];
+  matched: number;
+  checked: number;
+  complete: boolean;
+  timedOut: boolean;
+};
+
+/**
+ * The compound grid's search: text, substructure, library and MW filters, ranked and paged, over
+ * the compounds the reader may see (compound-access.ts). The substructure query is parsed and
+ * matched in the chemistry worker pool, bounded by its time budget and a hard limit.
+ */
+export async function searchCompounds(scope: CompoundScope, input: SearchInput): Promise<SearchResult> {
   const where = filters(input);
+  if (!scope.all) where.push(visibleCompoundSql(scope, compounds.registryId));
   const text = input.q && input.q.trim() !== "" ? textQuery(input.q) : null;
   if (text) where.push(text.where);
   const dir = input.dir === "desc" ? desc : asc;
@@ -107,10 +127,14 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
   const cond = where.length ? and(...where) : undefined;
 
   if (input.substructure && input.substructure.trim() !== "") {
-    const query = parseFragmentQuery(input.substructure);
+    const query = await runChem<QueryParsed>(
+      { kind: "query", text: input.substructure },
+      "Reading this substructure query",
+      SEARCH_LIMIT_MS,
+    );
     if (!query.ok)
       throw new AppError("bad_request", query.error, { details: [{ field: "substructure", message: query.error }] });
-    const bits = toBitString(query.fingerprint);
+    const bits = query.bits;
     const fp = sql`(${compounds.fingerprint} & ${bits}::bit(1024)) = ${bits}::bit(1024)`;
     // Ranking: text rank first when there is text; then smaller molecules first (closest to the
     // fragment), then the registry number; or the column the user sorted by.
@@ -133,18 +157,28 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
     // A small candidate set is always checked to the end (an exact total even while openchemlib
     // is still cold in a fresh server process); a large one within the time budget.
     const budget = candidateTotal <= SMALL_CANDIDATE_SET ? SMALL_SET_BUDGET_MS : SUBSTRUCTURE_BUDGET_MS;
-    const page = exactSearchPage(query, candidates, {
-      offset: input.offset,
-      limit: input.limit,
-      countAll: true,
-      timeBudgetMs: budget,
-    });
+    const found = await runChem<ExactPage | { ok: false; error: string }>(
+      {
+        kind: "search",
+        text: input.substructure,
+        candidates: candidates.map((c) => ({ id: c.id, structureKey: c.structureKey })),
+        options: { offset: input.offset, limit: input.limit, countAll: true, timeBudgetMs: budget },
+      },
+      "Checking this substructure query",
+      budget + SEARCH_LIMIT_MS,
+    );
+    if (!found.ok)
+      throw new AppError("bad_request", found.error, { details: [{ field: "substructure", message: found.error }] });
+    const page = { ...found, items: found.ids.map((id) => ({ id })) };
     const complete = page.complete && candidateTotal <= candidates.length;
     const ids = page.items.map((c) => c.id);
     const rows = ids.length ? await db.select().from(compounds).where(inArray(compounds.id, ids)) : [];
     const byId = new Map(rows.map((r) => [r.id, r]));
     return {
-      items: ids.map((id) => decorate(byId.get(id)!, input.thumbnails)),
+      items: await decorate(
+        ids.map((id) => byId.get(id)!),
+        input.thumbnails,
+      ),
       total: page.matched,
       totalIsLowerBound: !complete,
       substructure: {
@@ -178,9 +212,13 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
       .where(cond);
     total = r?.n ?? 0;
   }
+  const decorated = await decorate(
+    rows.map((r) => r.c),
+    input.thumbnails,
+  );
   return {
-    items: rows.map((r) => ({
-      ...decorate(r.c, input.thumbnails),
+    items: rows.map((r, i) => ({
+      ...decorated[i]!,
       ...("rank" in r && r.rank !== undefined ? { rank: RANK_NAMES[Number(r.rank)] } : {}),
     })),
     total,
@@ -188,14 +226,13 @@ export async function searchCompounds(input: SearchInput): Promise<SearchResult>
   };
 }
 
-function decorate(c: CompoundRow, thumbnails?: boolean) {
-  const s = compoundSummary(c);
-  if (!thumbnails) return s;
-  let svg: string | undefined;
-  try {
-    svg = structureSvg(c.structureKey, { width: 120, height: 90, idPrefix: "t-" });
-  } catch {
-    svg = undefined;
-  }
-  return { ...s, svg };
+/** Summaries, with thumbnails drawn in the worker pool (cached) when asked for. */
+async function decorate(cs: CompoundRow[], thumbnails?: boolean): Promise<(CompoundSummary & { svg?: string })[]> {
+  const summaries = cs.map(compoundSummary);
+  if (!thumbnails || cs.length === 0) return summaries;
+  const svgs = await structureSvgs(
+    cs.map((c) => c.structureKey),
+    { width: 120, height: 90, idPrefix: "t-" },
+  );
+  return summaries.map((s, i) => ({ ...s, svg: svgs[i] ?? undefined }));
 }

@@ -14,6 +14,7 @@ import {
   type CompoundProperties,
   type StockInput,
 } from "@/lib/chem";
+import { runChem } from "./prepare-pool";
 
 /** A structure already parsed and computed, with what the registration adds to it. */
 export type PreparedCompound = {
@@ -168,7 +169,35 @@ export function stockValues(batchId: string, s: StockInput, actor: Actor | null)
   };
 }
 
-/** Parses one structure for registration; a structure that is not chemistry is a 400 naming the problem. */
+type Prepared = ReturnType<typeof prepareStructure>;
+
+/**
+ * prepareStructure in the chemistry worker pool, for requests: the server's event loop does not
+ * run openchemlib. A structure that is not chemistry or over the size caps is a 400 naming the
+ * problem; one that overruns the time limit a 413 (prepare-pool.ts).
+ */
+export async function prepareStructureOffThread(input: { smiles?: string; molfile?: string }): Promise<Prepared> {
+  const field = input.smiles !== undefined ? "smiles" : "molfile";
+  const r = await runChem<({ ok: true } & Prepared) | { ok: false; error: string }>(
+    {
+      kind: "prepare",
+      input: input.smiles !== undefined ? { smiles: input.smiles } : { molfile: input.molfile ?? "" },
+    },
+    "Preparing this structure",
+  );
+  if (!r.ok) throw new AppError("bad_request", r.error, { details: [{ field, message: r.error }] });
+  return {
+    properties: r.properties,
+    fingerprintBits: r.fingerprintBits,
+    removedComponents: r.removedComponents,
+    warnings: r.warnings,
+  };
+}
+
+/**
+ * Parses one structure for registration in the calling thread (seed and test set-up); a structure
+ * that is not chemistry is a 400 naming the problem. Requests use prepareStructureOffThread.
+ */
 export function prepareStructure(input: { smiles?: string; molfile?: string }) {
   const parsed = parseStructure(
     input.smiles !== undefined ? { smiles: input.smiles } : { molfile: input.molfile ?? "" },

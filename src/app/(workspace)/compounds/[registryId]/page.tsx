@@ -1,15 +1,15 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { pageUser } from "@/server/auth/page-guard";
-import { canWriteCompounds } from "@/server/auth/compound-access";
+import { canWriteCompounds, compoundScope } from "@/server/auth/compound-access";
 import { AppError } from "@/server/errors";
 import {
   getCompound,
   resultsForCompound,
+  structureSvgOf,
   type CompoundDetail,
   type CompoundResultRow,
 } from "@/server/services/compounds";
-import { structureSvg } from "@/lib/chem/svg";
 import { COMPUTED_PROPERTIES_CAUTION } from "@/lib/chem/cautions";
 import { ChemicalSafetyNote, ResearchUseNote } from "@/components/ui/caution";
 import { AddBatchForm, AddStockForm, EditNamesForm, EditStructureForm } from "./compound-forms";
@@ -105,13 +105,19 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
   const { registryId } = await params;
   let c: CompoundDetail;
   try {
-    c = await getCompound(decodeURIComponent(registryId));
+    c = await getCompound(await compoundScope(user), decodeURIComponent(registryId));
   } catch (e) {
     if (e instanceof AppError && e.code === "not_found") notFound();
     throw e;
   }
-  const [writer, results] = await Promise.all([canWriteCompounds(user), resultsForCompound(user, c.registryId)]);
-  const svg = structureSvg(c.structureKey, { width: 420, height: 300, idPrefix: "main-", stereoLabels: true });
+  const [writer, results, svg] = await Promise.all([
+    canWriteCompounds(user),
+    resultsForCompound(user, c.registryId),
+    // Drawn in the chemistry worker pool and cached; a drawing that fails leaves a sentence instead.
+    structureSvgOf(c.structureKey, { width: 420, height: 300, idPrefix: "main-", stereoLabels: true }).catch(
+      () => null,
+    ),
+  ]);
   return (
     <main className="mx-auto w-full max-w-6xl px-6 py-6">
       <p className="mb-1 text-xs text-ink-muted">
@@ -129,7 +135,13 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
 
       <div className="grid grid-cols-1 gap-4 lg:grid-cols-[440px_1fr]">
         <section className="card p-3" aria-label="Structure">
-          <div className="flex justify-center" dangerouslySetInnerHTML={{ __html: svg }} />
+          {svg ? (
+            <div className="flex justify-center" dangerouslySetInnerHTML={{ __html: svg }} />
+          ) : (
+            <p className="py-8 text-center text-sm text-ink-muted">
+              The drawing could not be made just now; the structure is given as SMILES below.
+            </p>
+          )}
           <p className="mt-2 break-all font-mono text-xs text-ink-soft" title="Canonical SMILES (openchemlib)">
             {c.smiles}
           </p>

@@ -23,7 +23,7 @@ const COLUMNS: [string, string][] = [
 export default async function ImportPage() {
   const user = await pageUser();
   if (!(await canWriteCompounds(user))) notFound();
-  const recent = await listImports(10);
+  const recent = await listImports(user, 10);
   return (
     <main className="mx-auto w-full max-w-5xl px-6 py-6">
       <p className="mb-1 text-xs text-ink-muted">

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { pageUser } from "@/server/auth/page-guard";
-import { canWriteCompounds } from "@/server/auth/compound-access";
+import { canWriteCompounds, compoundScope } from "@/server/auth/compound-access";
 import { listLibraries } from "@/server/services/compounds";
 import { EmptyState } from "@/components/ui/empty-state";
 import { CreateLibraryForm } from "./library-forms";
@@ -10,7 +10,7 @@ export const dynamic = "force-dynamic";
 
 export default async function LibrariesPage() {
   const user = await pageUser();
-  const [libs, writer] = await Promise.all([listLibraries(), canWriteCompounds(user)]);
+  const [libs, writer] = await Promise.all([compoundScope(user).then(listLibraries), canWriteCompounds(user)]);
   return (
     <main className="mx-auto w-full max-w-6xl px-6 py-6">
       <p className="mb-1 text-xs text-ink-muted">

@@ -5,9 +5,12 @@ import { importIdParam } from "./schema";
 
 export const dynamic = "force-dynamic";
 
-/** An import job: status, progress, preview (per-record issues) and, once committed, the outcome. */
+/**
+ * An import job: status, progress, preview (per-record issues) and, once committed, the outcome.
+ * Only the uploader and administrators; 404 for anyone else.
+ */
 export const GET = route<{ importId: string }>(async (_req, params) => {
-  await requireUser();
+  const user = await requireUser();
   const { importId } = importIdParam.parse(params);
-  return json(importView(await getImport(importId)));
+  return json(importView(await getImport(user, importId)));
 });

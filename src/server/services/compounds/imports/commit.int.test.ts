@@ -68,7 +68,7 @@ describe("bulk import", () => {
     expect(after.b - before.b).toBe(7);
 
     const report = await callRoute(reportRoute.GET, {
-      user: w.people.viewer,
+      user: w.people.chemist, // the uploader (others get 404: registry.int.test.ts)
       path: `/api/compound-imports/${id}/report`,
       params: { importId: id },
     });

@@ -9,7 +9,7 @@ import type { ImportIssue } from "@/lib/chem/import-types";
 import { audit } from "../../audit";
 import { drawRegistryNumbers, type PreparedCompound } from "../write";
 import type { ImportMode, ImportPreview, ImportResult } from "./types";
-import { getImport } from "./view";
+import { getImport, importOwnedBy, type ImportReader } from "./view";
 
 function notRegisteredFrom(issues: ImportIssue[]): ImportResult["notRegistered"] {
   return issues.map((i) => ({ record: i.record, line: i.line, field: i.field, reason: i.message }));
@@ -21,10 +21,14 @@ function notRegisteredFrom(issues: ImportIssue[]): ImportResult["notRegistered"]
  * registers the valid ones and reports the rest. A structure registered by someone else since the
  * preview is refused in all-or-nothing mode and reported in valid-only mode.
  */
-export async function commitImport(actor: Actor, id: string, mode: ImportMode): Promise<ImportResult> {
-  await getImport(id);
+export async function commitImport(actor: Actor & ImportReader, id: string, mode: ImportMode): Promise<ImportResult> {
+  await getImport(actor, id); // 404 for anyone but the uploader and administrators
   return db.transaction(async (tx) => {
-    const [job] = await tx.select().from(compoundImports).where(eq(compoundImports.id, id)).for("update");
+    const [job] = await tx
+      .select()
+      .from(compoundImports)
+      .where(and(eq(compoundImports.id, id), importOwnedBy(actor)))
+      .for("update");
     if (!job) throw new AppError("not_found", "No such import.");
     if (job.status === "committed")
       throw new AppError(

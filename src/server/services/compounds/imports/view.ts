@@ -1,14 +1,31 @@
 import "server-only";
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, type SQL } from "drizzle-orm";
 import { db } from "@/server/db/client";
 import { compoundImports, users } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
+import type { SessionUser } from "@/server/auth/session";
 import { isPreparing } from "./start";
 import type { ImportJob, ImportPreview, ImportResult } from "./types";
 
-export async function getImport(id: string): Promise<ImportJob> {
-  if (!/^[0-9a-f-]{36}$/i.test(id)) throw new AppError("not_found", "No such import.");
-  const [job] = await db.select().from(compoundImports).where(eq(compoundImports.id, id));
+/** Who reads import jobs: the uploader, or an administrator. */
+export type ImportReader = Pick<SessionUser, "id"> & { globalRole?: SessionUser["globalRole"] };
+
+/**
+ * An import job's preview holds unregistered structures and names, and its commit registers them:
+ * only the person who uploaded it and administrators may read or commit it. For anyone else the
+ * job does not exist (404), so its existence is not confirmed.
+ */
+export function importOwnedBy(reader: ImportReader): SQL | undefined {
+  return reader.globalRole === "admin" ? undefined : eq(compoundImports.createdBy, reader.id);
+}
+
+export async function getImport(reader: ImportReader, id: string): Promise<ImportJob> {
+  if (!/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id))
+    throw new AppError("not_found", "No such import.");
+  const [job] = await db
+    .select()
+    .from(compoundImports)
+    .where(and(eq(compoundImports.id, id), importOwnedBy(reader)));
   if (!job) throw new AppError("not_found", "No such import.");
   // Preparation runs in the server process: after a restart an unfinished job would wait forever.
   if (
@@ -68,7 +85,8 @@ export function importView(job: ImportJob, opts: { maxIssues?: number } = {}) {
   };
 }
 
-export async function listImports(limit = 20) {
+/** The reader's recent imports (an administrator's list holds everyone's). */
+export async function listImports(reader: ImportReader, limit = 20) {
   return db
     .select({
       id: compoundImports.id,
@@ -80,6 +98,7 @@ export async function listImports(limit = 20) {
     })
     .from(compoundImports)
     .leftJoin(users, eq(users.id, compoundImports.createdBy))
+    .where(importOwnedBy(reader))
     .orderBy(desc(compoundImports.createdAt))
     .limit(limit);
 }

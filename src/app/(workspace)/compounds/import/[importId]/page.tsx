@@ -14,7 +14,7 @@ export default async function ImportJobPage({ params }: { params: Promise<{ impo
   const user = await pageUser();
   const { importId } = await params;
   try {
-    await getImport(importId);
+    await getImport(user, importId);
   } catch (e) {
     if (e instanceof AppError && e.code === "not_found") notFound();
     throw e;

@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { pageUser } from "@/server/auth/page-guard";
-import { canWriteCompounds } from "@/server/auth/compound-access";
+import { canWriteCompounds, compoundScope } from "@/server/auth/compound-access";
 import { AppError } from "@/server/errors";
 import { getLibrary } from "@/server/services/compounds";
 import { AddMembersForm, RemoveMemberButton } from "../library-forms";
@@ -14,7 +14,7 @@ export default async function LibraryPage({ params }: { params: Promise<{ librar
   if (!/^[0-9a-f-]{36}$/i.test(libraryId)) notFound();
   let lib: Awaited<ReturnType<typeof getLibrary>>;
   try {
-    lib = await getLibrary(libraryId);
+    lib = await getLibrary(await compoundScope(user), libraryId);
   } catch (e) {
     if (e instanceof AppError && e.code === "not_found") notFound();
     throw e;

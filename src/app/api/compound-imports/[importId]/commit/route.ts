@@ -7,7 +7,8 @@ import { commitBody } from "./schema";
 export const dynamic = "force-dynamic";
 
 /**
- * Register a prepared import in one transaction (chemists, admins). all_or_nothing: 400 and
+ * Register a prepared import in one transaction (its uploader while a chemist, and admins; 404
+ * for anyone else). all_or_nothing: 400 and
  * nothing written when any record has a problem; valid_only: the valid records are registered.
  */
 export const POST = route<{ importId: string }>(async (req, params) => {
@@ -15,5 +16,5 @@ export const POST = route<{ importId: string }>(async (req, params) => {
   const { importId } = importIdParam.parse(params);
   const { mode } = await parseJson(req, commitBody);
   await commitImport(user, importId, mode);
-  return json(importView(await getImport(importId)));
+  return json(importView(await getImport(user, importId)));
 });

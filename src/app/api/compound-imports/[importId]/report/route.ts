@@ -5,11 +5,11 @@ import { importIdParam } from "./schema";
 
 export const dynamic = "force-dynamic";
 
-/** The import report as CSV: each record registered (registry ID) or not (field, reason). */
+/** The import report as CSV: each record registered (registry ID) or not (field, reason). Uploader and admins only (404 otherwise). */
 export const GET = route<{ importId: string }>(async (_req, params) => {
-  await requireUser();
+  const user = await requireUser();
   const { importId } = importIdParam.parse(params);
-  const job = await getImport(importId);
+  const job = await getImport(user, importId);
   const base =
     job.fileName
       .replace(/\.[^.]+$/, "")
