@@ -6,6 +6,7 @@ import { isZip, MAX_XLSX_COLUMNS, MAX_XLSX_ROWS } from "@/lib/plates/xlsx";
 import { emptyResult, type ImportFormat, type ImportParseResult } from "@/lib/chem/import-types";
 import { parseCsvImport } from "@/lib/chem/import-table";
 import { parseSdfImport } from "@/lib/chem/import-sdf";
+import { decodeText } from "@/lib/plates/text-table";
 import { guardXlsxZip, MAX_INFLATED_BYTES } from "./zip-guard";
 
 export type UploadParseTask =
@@ -18,6 +19,16 @@ export type UploadParseResult<T extends UploadParseTask> = T extends { kind: "pl
 
 const LIMITS = { maxInflatedBytes: MAX_INFLATED_BYTES, maxRows: MAX_XLSX_ROWS, maxColumns: MAX_XLSX_COLUMNS };
 
+/** 1-based line of the first NUL character of decoded text (UTF-8, or UTF-16 with a BOM), or 0. */
+function nulLine(bytes: Uint8Array): number {
+  const text = decodeText(bytes);
+  const at = text.indexOf("\0");
+  if (at < 0) return 0;
+  let line = 1;
+  for (let i = text.indexOf("\n"); i >= 0 && i < at; i = text.indexOf("\n", i + 1)) line++;
+  return line;
+}
+
 export async function runUploadParse(task: UploadParseTask): Promise<ReaderExportResult | ImportParseResult> {
   if (task.kind === "plate-export") {
     if (isZip(task.bytes)) {
@@ -26,8 +37,13 @@ export async function runUploadParse(task: UploadParseTask): Promise<ReaderExpor
     }
     return parseReaderExport(task.bytes, task.fileName, task.options);
   }
-  if (task.format === "csv") return parseCsvImport(task.bytes);
-  if (task.format === "sdf") return parseSdfImport(task.bytes);
+  if (task.format !== "xlsx") {
+    // NUL characters cannot be stored in Postgres text and no structure file holds one.
+    const nul = nulLine(task.bytes);
+    if (nul)
+      return emptyResult(task.format, [`Line ${nul} contains a NUL character; the file looks like binary data.`]);
+    return task.format === "csv" ? parseCsvImport(task.bytes) : parseSdfImport(task.bytes);
+  }
   if (isZip(task.bytes)) {
     const g = await guardXlsxZip(task.bytes, LIMITS);
     if (!g.ok) return emptyResult("xlsx", [`The ${g.message}.`]);

@@ -1,9 +1,11 @@
 import "server-only";
 import crypto from "node:crypto";
-import { db } from "@/server/db/client";
+import { eq } from "drizzle-orm";
 import { compoundImports } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import { putObject } from "@/server/storage/s3";
+import { commitWithObject, deleteUnlessReferenced } from "@/server/storage/checksum-lock";
+import { checkImportFile } from "@/server/workers/upload-refusal";
 import type { Actor } from "@/server/auth/actor";
 import { MAX_IMPORT_BYTES, type ImportFormat } from "@/lib/chem/import-types";
 import { prepareJob } from "./prepare";
@@ -60,11 +62,42 @@ export async function startImport(
   const format = importFormatOf(fileName);
   const sha256 = crypto.createHash("sha256").update(input.bytes).digest("hex");
   const s3Key = importS3Key(sha256);
-  await putObject(s3Key, input.bytes, input.contentType || "application/octet-stream", sha256);
-  const [job] = await db
-    .insert(compoundImports)
-    .values({ fileName, sha256, s3Key, sizeBytes: input.bytes.byteLength, format, createdBy: actor.id })
-    .returning();
+  const contentType = input.contentType || "application/octet-stream";
+  await putObject(s3Key, input.bytes, contentType, sha256);
+  // Parsed first off the request thread with the upload limits: a tripped limit is refused (400)
+  // and its stored copy goes unless another import uses the same bytes; a file that cannot be
+  // imported at all becomes a failed job with its (capped) sentence, without a preparation.
+  const check = await checkImportFile(fileName, format, input.bytes);
+  if (check.refused) {
+    await deleteUnlessReferenced(
+      s3Key,
+      sha256,
+      async (tx) =>
+        (
+          await tx
+            .select({ id: compoundImports.id })
+            .from(compoundImports)
+            .where(eq(compoundImports.s3Key, s3Key))
+            .limit(1)
+        ).length > 0,
+    );
+    throw check.refused;
+  }
+  const [job] = await commitWithObject({ key: s3Key, bytes: input.bytes, contentType, sha256 }, (tx) =>
+    tx
+      .insert(compoundImports)
+      .values({
+        fileName,
+        sha256,
+        s3Key,
+        sizeBytes: input.bytes.byteLength,
+        format,
+        createdBy: actor.id,
+        ...(check.error ? { status: "failed" as const, error: check.error } : {}),
+      })
+      .returning(),
+  );
+  if (check.error) return { job: job!, done: Promise.resolve() };
   const done = prepareJob(job!.id).finally(() => running.delete(job!.id));
   running.set(job!.id, done);
   return { job: job!, done };
