@@ -492,15 +492,19 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
   const fittedTopInh = fittedTop === null ? null : s.response === "activity-pct" ? 100 - fittedTop : fittedTop;
 
   if (percent) {
-    const noise = noiseSd(groups, y, fitted, fit);
-    const activation = Math.max(ACTIVATION_MIN_PCT, 3 * noise);
     const topMean = groups.mean[kTop]!;
     const topInh = Math.min(topMean, fittedTopInh ?? topMean);
-    if (topInh <= -activation && groups.maxMean < INACTIVE_BELOW_PCT) {
-      out.outcome = "activator";
-      out.maxActivationPct = -groups.minMean;
-      out.reason = `activity rises with concentration: ${fmt(-topMean)} % above the vehicle at the top concentration ${fmtC(xTop)} (noise SD ${fmt(noise)} %), an activator, not an inhibitor`;
-      return judged;
+    // The threshold is at least ACTIVATION_MIN_PCT, so the noise SD (a sort of the residuals) is
+    // needed only for a top that low.
+    if (topInh <= -ACTIVATION_MIN_PCT && groups.maxMean < INACTIVE_BELOW_PCT) {
+      const noise = noiseSd(groups, y, fitted, fit);
+      const activation = Math.max(ACTIVATION_MIN_PCT, 3 * noise);
+      if (topInh <= -activation) {
+        out.outcome = "activator";
+        out.maxActivationPct = -groups.minMean;
+        out.reason = `activity rises with concentration: ${fmt(-topMean)} % above the vehicle at the top concentration ${fmtC(xTop)} (noise SD ${fmt(noise)} %), an activator, not an inhibitor`;
+        return judged;
+      }
     }
     if (groups.maxMean < INACTIVE_BELOW_PCT && (fittedTopInh === null || fittedTopInh < INACTIVE_BELOW_PCT)) {
       out.outcome = "inactive";
