@@ -211,6 +211,29 @@ describe("mechanism: difficult invented matrices ([E] 10 nM known, weighting aut
     if (without!.mechanismLabel === "clear") expect(without!.mechanism).toBe("competitive");
   });
 
+  it("every sentence that names a constant or a concentration says which and gives its unit (µM)", () => {
+    let named = 0;
+    for (const r of mech.values()) {
+      const d = parseResultDetail("mechanism", r.detail);
+      if (!isFittedMechanism(d)) throw new Error("expected a fit");
+      const texts = [
+        ...(d.labelReasons ?? []),
+        ...(d.alternatives ?? []).flatMap((a) => [a.meaning, a.exclusion ?? ""]),
+        ...(d.screens?.fitted ?? []).map((f) => f.why),
+        d.recommendedReason ?? "",
+        d.weightingDecision?.reason ?? "",
+      ];
+      for (const t of texts)
+        for (const m of t.matchAll(/(Kic|Kiu|Ksi|\[E\]) \(?(about |CI of \w+ )?(-?\d[\d.]*(e[+-]?\d+)?)(.{0,3})/g)) {
+          named++;
+          expect(m[5], `${m[0]} in: ${t}`).toMatch(/^ µM/);
+        }
+      // No bare "Ki 1.2" or "Row 12": the constant is named (Kic or Kiu) and rows are wells.
+      for (const t of texts) expect(t).not.toMatch(/\bKi \d|\b[Rr]ows? \d/);
+    }
+    expect(named).toBeGreaterThan(10);
+  });
+
   it("every model of the four carries its adequacy, and the detail survives a JSON round trip", () => {
     for (const r of mech.values()) {
       const d = parseResultDetail("mechanism", JSON.parse(JSON.stringify(r.detail)) as unknown);
@@ -255,5 +278,10 @@ describe("mechanism outlier proposals in the result detail (invented: competitiv
     expect(o.p!).toBeGreaterThan(0);
     expect(o.p!).toBeLessThanOrEqual(d.outliers!.q / d.n);
     expect(Math.abs(o.residual!)).toBeCloseTo(d.outliers!.largestStandardized!, -1);
+    expect(d.labelReasons).toContainEqual(
+      expect.stringMatching(
+        /^Well W27 looks like an outlier of the competitive fit .*the call is competitive, Kic \d[\d.]* µM\./,
+      ),
+    );
   });
 });

@@ -462,6 +462,12 @@ export type MechanismAnalysisOptions = {
   enzymeUm?: number | null;
   /** Report the fit without the proposed outliers (default: they are only proposed). */
   robust?: boolean;
+  /**
+   * How the sentences (flags, reasons, meanings) word numbers and rows: the concentration unit and
+   * whether rows are named by their well. The pipeline's concentrations are µM and its rows wells;
+   * the command, whose file may use any unit, leaves them out (bare numbers, "row k").
+   */
+  wording?: { concentrationUnit: string; wells: boolean };
 };
 
 /** One well of a mechanism study: [S] and [I] µM, background-corrected rate, where it was read. */
@@ -661,6 +667,8 @@ export function analyseMechanismCompound(
     ...(e !== null && e > 0 ? { enzymeConc: e } : {}),
     outliers: opts.robust ? ("always" as const) : ("auto" as const),
     outlierQ: OUTLIER_Q,
+    ...(opts.wording ? { units: { concentration: opts.wording.concentrationUnit } } : {}),
+    ...(opts.wording?.wells ? { rowNames: pts.map((p) => p.well) } : {}),
   };
   let fit: MechanismResult;
   let used = pts;
@@ -671,7 +679,11 @@ export function analyseMechanismCompound(
     if (opts.robust && drop.length > 0) {
       const out = new Set(drop);
       const kept = pts.filter((_, k) => !out.has(k));
-      const without = fitMechanism(kept, { ...options, outliers: "never" });
+      const without = fitMechanism(kept, {
+        ...options,
+        ...(options.rowNames ? { rowNames: kept.map((p) => p.well) } : {}),
+        outliers: "never",
+      });
       // The proposals (indices into all points) stay with the reported fit.
       fit = { ...without, outliers: fit.outliers };
       used = kept;
@@ -767,7 +779,8 @@ export function analyseMechanism(
         runId: r.runId,
         well: r.well,
       }));
-    const result = analyseMechanismCompound(id, pts, opts);
+    // Readings carry µM concentrations and well names: the sentences say so.
+    const result = analyseMechanismCompound(id, pts, { wording: { concentrationUnit: "µM", wells: true }, ...opts });
     // (not isFittedMechanism: a runtime import of detail.ts would pull zod into the command's bundle)
     if ("models" in result.detail) result.detail.backgroundSubtracted = background.size > 0;
     out.push(result);

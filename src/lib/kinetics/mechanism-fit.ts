@@ -58,7 +58,9 @@ import {
 } from "./mechanism-models";
 import {
   CLEAR_F_ALPHA,
+  concText,
   judgeMechanism,
+  type JudgementUnits,
   type MechanismFlag,
   type MechanismLabel,
   type MechanismRecommendation,
@@ -95,6 +97,10 @@ export interface MechanismOptions {
   outliers?: "auto" | "always" | "never";
   /** False discovery rate of the outlier proposal (default 0.01). */
   outlierQ?: number;
+  /** Unit labels for the sentences ("µM", "signal/s"); the engine is unit-agnostic, so none by default. */
+  units?: JudgementUnits;
+  /** A name for each input row in the sentences (a well, e.g. "C05"); default "row k" (1-based). */
+  rowNames?: readonly string[];
 }
 
 /**
@@ -577,6 +583,7 @@ function slopeText(test: WeightingChoice): string {
 function autoWeighting(
   plain: Data,
   q: number,
+  rowNames: readonly string[] | undefined,
 ): { choice: WeightingChoice; reason: string; plainFit: StandardFit | null } {
   const choice = chooseWeighting(adequacyContext(plain).replicates);
   const relativeReason = (t: WeightingChoice) =>
@@ -592,15 +599,17 @@ function autoWeighting(
   const rout = findOutliers(makeProblem(best, plain), Array.from(plainFit.raw[best].theta), { q });
   if (rout.outlierIndices.length === 0) return { choice, reason: relativeReason(choice), plainFit };
   const again = chooseWeighting(adequacyContext(without(plain, new Set(rout.outlierIndices))).replicates);
-  const rows = rout.outlierIndices.map((k) => plain.rowIndex[k]! + 1);
-  const which = rows.length === 1 ? `row ${rows[0]}` : `rows ${rows.join(", ")}`;
+  const which = rowsText(
+    rout.outlierIndices.map((k) => plain.rowIndex[k]!),
+    rowNames,
+  );
   if (again.weighting === "relative")
     return {
       choice,
       reason: `${relativeReason(choice)}; the trend holds without ${which}, which an unweighted outlier search proposes`,
       plainFit,
     };
-  const it = rows.length === 1 ? "it" : "them";
+  const it = rout.outlierIndices.length === 1 ? "it" : "them";
   return {
     choice: again,
     reason: `${again.reason}, judged without ${which}, which an unweighted outlier search proposes (with ${it}: ${slopeText(choice)}, which alone would choose relative weighting)`,
@@ -608,8 +617,11 @@ function autoWeighting(
   };
 }
 
-function num3(x: number | null): string {
-  return x === null || !Number.isFinite(x) ? "—" : String(Number(x.toPrecision(3)));
+/** "row 28", "rows 3, 28", or the caller's names: "well C05", "wells C05, D07". */
+function rowsText(indices: readonly number[], names: readonly string[] | undefined): string {
+  const many = indices.length > 1;
+  if (names) return `${many ? "wells" : "well"} ${indices.map((k) => names[k] ?? `row ${k + 1}`).join(", ")}`;
+  return `${many ? "rows" : "row"} ${indices.map((k) => k + 1).join(", ")}`;
 }
 
 function checkOptions(options: MechanismOptions): void {
@@ -644,7 +656,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
   let plainFit: StandardFit | null = null;
   if (requested === "auto") {
     const plain = prepare(points, "none");
-    const auto = autoWeighting(plain, options.outlierQ ?? DEFAULT_OUTLIER_Q);
+    const auto = autoWeighting(plain, options.outlierQ ?? DEFAULT_OUTLIER_Q, options.rowNames);
     plainFit = auto.plainFit;
     d = auto.choice.weighting === "relative" ? groupMeanWeighted(plain) : plain;
     weightingChoice = {
@@ -704,6 +716,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
     enzymeConc: options.enzymeConc ?? null,
     extendedModels: options.extendedModels ?? "auto",
     fragile,
+    ...(options.units ? { units: options.units } : {}),
     unequalScatter: weightingChoice.test?.weighting === "relative" && requested === "none",
   });
 
@@ -746,6 +759,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
         outliers.indices = rout.outlierIndices.map((k) => data.rowIndex[k]!);
         outliers.standardized = rout.outlierIndices.map((k) => rout.standardized[k]!);
         outliers.pValues = rout.outlierIndices.map((k) => rout.pValues[k]!);
+        let kiName = "Ki";
         const before = alt ? quotedKiOf(alt.kic.value, alt.kiu.value) : quotedKi(models[target as InhibitionModel]);
         let changed: boolean;
         if (alt) {
@@ -753,6 +767,7 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
           const k = extendedConstants(alt.model, rout.fit.theta);
           outliers.callWithout = alt.model;
           outliers.kiWithout = finiteOrNull(quotedKiOf(k.kic, k.kiu));
+          kiName = k.kic !== null && Number.isFinite(k.kic) ? "Kic" : "Kiu";
           changed = kiMoved(before, outliers.kiWithout);
         } else {
           let refit: StandardFit | null = null;
@@ -763,16 +778,17 @@ export function fitMechanism(points: readonly MechanismPoint[], options: Mechani
           }
           outliers.callWithout = refit?.best ?? null;
           outliers.kiWithout = refit ? finiteOrNull(quotedKi(refit.models[refit.best])) : null;
+          if (refit) kiName = refit.models[refit.best].kic !== null ? "Kic" : "Kiu";
           changed = !refit || refit.best !== target || kiMoved(before, outliers.kiWithout);
         }
-        const rows = outliers.indices.map((k) => k + 1).join(", ");
+        const rows = rowsText(outliers.indices, options.rowNames);
         const after =
           outliers.callWithout !== null
-            ? `without ${outliers.indices.length > 1 ? "them" : "it"} the call is ${outliers.callWithout}, Ki ${num3(outliers.kiWithout)}`
+            ? `without ${outliers.indices.length > 1 ? "them" : "it"} the call is ${outliers.callWithout}, ${kiName} ${concText(outliers.kiWithout, options.units, 3)}`
             : "too few rows would remain to refit";
         flags.push({
           code: "outliers-proposed",
-          message: `${outliers.indices.length > 1 ? `Rows ${rows} look like outliers` : `Row ${rows} looks like an outlier`} of the ${target} fit (ROUT, Q = ${100 * q} %); ${after}. Nothing was removed: a scientist accepts or rejects the proposal.`,
+          message: `${rows.charAt(0).toUpperCase()}${rows.slice(1)} ${outliers.indices.length > 1 ? "look like outliers" : "looks like an outlier"} of the ${target} fit (ROUT, Q = ${100 * q} %); ${after}. Nothing was removed: a scientist accepts or rejects the proposal.`,
         });
         if (changed) {
           // The call rests on wells a scientist may reject: it cannot be "clear".

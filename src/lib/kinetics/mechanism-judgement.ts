@@ -221,6 +221,12 @@ function num(x: number | null | undefined, digits = 2): string {
   return String(Number(x.toPrecision(digits)));
 }
 
+/** Which constant kiMin picks: "Kic" or "Kiu". */
+function kiMinName(kic: number | null, kiu: number | null): string {
+  const m = kiMin(kic, kiu);
+  return m !== null && m === kic ? "Kic" : "Kiu";
+}
+
 /** Smallest finite inhibition constant of a fit, or null. */
 function kiMin(kic: number | null, kiu: number | null): number | null {
   const v = [kic, kiu].filter((k): k is number => k !== null && Number.isFinite(k) && k > 0);
@@ -282,6 +288,7 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   const { d, best, models } = input;
   const chosen = models[best];
   const flags: MechanismFlag[] = [];
+  const conc = (x: number | null | undefined) => concText(x, input.units);
   const n = d.n;
   const effRss = (rss: number) => Math.max(rss, input.rssFloor);
 
@@ -331,7 +338,9 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
       const tWhy = why([
         all ? "requested" : "",
         inadequate ? `the ${best} model is inadequate` : "",
-        tb!.near ? `Ki ${num(chosenKiMin)} is within ${TIGHT_BINDING_RATIO}-fold of [E] ${num(e)}` : "",
+        tb!.near
+          ? `the smallest Ki of the ${best} fit (${kiMinName(chosen.kic, chosen.kiu)} ${conc(chosenKiMin)}) is within ${TIGHT_BINDING_RATIO}-fold of [E] ${conc(e)}`
+          : "",
         score.depletion.p < SCREEN_ALPHA ? screenText("inhibitor depletion", score.depletion) : "",
       ]);
       if (tWhy) screens.fitted.push({ family: "tight-binding", why: tWhy });
@@ -492,7 +501,7 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
     if (label === "clear") label = "ambiguous";
     flags.push({
       code: "tight-binding",
-      message: `Tight binding: Ki (${num(chosenKiMin)}) is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${num(e)}), so free inhibitor is depleted; the standard models' Ki may be an overestimate (potency underestimated) and the mechanism unreliable.`,
+      message: `Tight binding: ${kiMinName(chosen.kic, chosen.kiu)} of the ${best} fit (${conc(chosenKiMin)}) is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${conc(e)}), so free inhibitor is depleted; the standard models' Ki may be an overestimate (potency underestimated) and the mechanism unreliable.`,
     });
   }
   if (e === null && score.depletion.p < SCREEN_ALPHA) {
@@ -582,23 +591,24 @@ function sentence(
   fTest: (s: Candidate, c: Candidate) => { p: number },
 ): string {
   const chosen = input.models[input.best];
-  const stdKi = quotedKi(chosen.kic, chosen.kiu);
-  const ki = quotedKi(a.kic.value, a.kiu.value);
+  const conc = (x: number | null | undefined) => concText(x, input.units);
+  const kiText = (kic: number | null, kiu: number | null) =>
+    `${kic !== null ? "Kic" : "Kiu"} ${concText(quotedKi(kic, kiu), input.units, 3)}`;
   const self = byModel.get(a.model)!;
   const fp = a.family === "tight-binding" ? null : fTest(byModel.get(a.mechanism)!, self).p;
   if (recommended?.model === a.model) {
     if (a.family === "partial")
-      return `Inhibition levels off at ${levelsOff(a)} (at S = Km): a partial inhibitor whose enzyme–substrate–inhibitor complex still turns over (β ${num(a.beta?.value)}); Ki ${num(ki, 3)} from this model; Ki from the four standard models would be misleading (the ${input.best} fit gives ${num(stdKi, 3)}).`;
+      return `Inhibition levels off at ${levelsOff(a)} (at S = Km): a partial inhibitor whose enzyme–substrate–inhibitor complex still turns over (β ${num(a.beta?.value)}, its turnover relative to the enzyme–substrate complex); ${kiText(a.kic.value, a.kiu.value)} from this model; Ki from the four standard models would be misleading (the ${input.best} fit gives ${kiText(chosen.kic, chosen.kiu)}).`;
     if (a.family === "substrate-inhibition")
-      return `Rates fall at high substrate (Ksi about ${num(a.ksi?.value)}): the enzyme is substrate-inhibited; allowing for it the inhibitor is ${a.mechanism} with Ki ${num(ki, 3)}, where the four standard models call it ${input.best}.`;
-    return `Ki is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${num(input.enzymeConc)}): a tight binder that depletes the free inhibitor; allowing for that the inhibitor is ${a.mechanism} with Ki ${num(ki, 3)}, where the four standard models call it ${input.best} with Ki ${num(stdKi, 3)}.`;
+      return `Rates fall at high substrate (Ksi about ${conc(a.ksi?.value)}): the enzyme is substrate-inhibited; allowing for it the inhibitor is ${a.mechanism} with ${kiText(a.kic.value, a.kiu.value)}, where the four standard models call it ${input.best}.`;
+    return `Ki is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${conc(input.enzymeConc)}): a tight binder that depletes the free inhibitor; allowing for that the inhibitor is ${a.mechanism} with ${kiText(a.kic.value, a.kiu.value)}, where the four standard models call it ${input.best} with ${kiText(chosen.kic, chosen.kiu)}.`;
   }
   const what =
     a.family === "partial"
       ? `Partial inhibition (${a.model}, levelling off at ${levelsOff(a)})`
       : a.family === "substrate-inhibition"
-        ? `Substrate inhibition (${a.model}, ${a.ksi?.value ? `Ksi ${num(a.ksi.value)}` : "no finite Ksi"})`
-        : `The depletion-aware ${a.mechanism} fit (Ki ${num(ki, 3)} at [E] ${num(input.enzymeConc)})`;
+        ? `Substrate inhibition (${a.model}, ${a.ksi?.value ? `Ksi ${conc(a.ksi.value)}` : "no finite Ksi"})`
+        : `The depletion-aware ${a.mechanism} fit (${kiText(a.kic.value, a.kiu.value)} at [E] ${conc(input.enzymeConc)})`;
   if (!a.adequacy.adequate) return `${what} is itself inadequate (${a.adequacy.reasons.join("; ")}).`;
   if (a.exclusion !== null && !a.exclusion.startsWith("the F-test"))
     return `${what} is not recommended: ${a.exclusion}.`;
