@@ -2,6 +2,7 @@
 import { useMemo } from "react";
 import { inhibitedRate, type InhibitionModel } from "@/lib/kinetics/inhibition-models";
 import { Plot, baseConfig, baseLayout } from "./plot";
+import { plotText } from "./plot-text";
 import { clickedKey, overlayTraces, type PlotMarks, type PlotWell } from "./marks";
 
 export type MechanismModelView = {
@@ -73,8 +74,8 @@ export function RateVsSubstratePlot({
           name: `[I] = ${i} µM`,
           legendgroup: String(i),
           hovertemplate: keyed
-            ? `%{text}<br>[S] %{x:.3g} µM · %{y:.4g} ${rateUnit}<extra>click to exclude</extra>`
-            : `[S] %{x:.3g} µM · %{y:.4g} ${rateUnit}<extra>[I] = ${i} µM</extra>`,
+            ? `%{text}<br>[S] %{x:.3g} µM · %{y:.4g} ${plotText(rateUnit)}<extra>click to exclude</extra>`
+            : `[S] %{x:.3g} µM · %{y:.4g} ${plotText(rateUnit)}<extra>[I] = ${i} µM</extra>`,
         },
       ];
       const curve = modelCurve(model, fit, i, grid);
@@ -111,7 +112,7 @@ export function RateVsSubstratePlot({
         mode: "markers",
         marker: { color: "#b42318", size: 9, symbol: "x-open" },
         name: "excluded (left out of the fit)",
-        hovertemplate: `excluded · %{text}<br>[S] %{x:.3g} µM · %{y:.4g} ${rateUnit}<extra>click to restore</extra>`,
+        hovertemplate: `excluded · %{text}<br>[S] %{x:.3g} µM · %{y:.4g} ${plotText(rateUnit)}<extra>click to restore</extra>`,
       });
     series.push(...overlayTraces([...(wells ?? []), ...masked], marks));
     return series;

@@ -2,6 +2,7 @@
 import { useMemo } from "react";
 import type { PlotParams } from "react-plotly.js";
 import { Plot, baseConfig, baseLayout } from "./plot";
+import { plotText, plotTexts } from "./plot-text";
 
 export type HeatmapWell = {
   index: number;
@@ -74,14 +75,15 @@ export function PlateHeatmap({
         x,
         y,
         // customdata takes the 2-D grid in Plotly's types (text is typed 1-D, though heatmaps accept 2-D).
-        customdata: text,
-        hovertemplate: `%{customdata}<br>%{z:.4~g} ${unit}<extra></extra>`,
+        // Shown through %{customdata}, which Plotly renders as markup: escaped like every other text.
+        customdata: plotTexts(text),
+        hovertemplate: `%{customdata}<br>%{z:.4~g} ${plotText(unit)}<extra></extra>`,
         colorscale,
         zmin,
         zmax,
         xgap: 1,
         ygap: 1,
-        colorbar: { title: { text: unit, side: "right" }, thickness: 10, len: 0.9 },
+        colorbar: { title: { text: plotText(unit), side: "right" }, thickness: 10, len: 0.9 },
       },
       {
         type: "scatter",

@@ -1,10 +1,12 @@
 "use client";
 import dynamic from "next/dynamic";
 import type { PlotParams } from "react-plotly.js";
+import { escapeLayout, escapeTraces } from "./plot-text";
 
 /**
  * The one Plotly chart component: the minified distribution through react-plotly.js's factory
- * (the full plotly.js is not installed), loaded in the browser only.
+ * (the full plotly.js is not installed), loaded in the browser only. Every trace's text, names
+ * and titles are escaped on the way in (plot-text.ts), so uploaded text never renders as markup.
  */
 export const Plot = dynamic<PlotParams>(
   async () => {
@@ -12,7 +14,12 @@ export const Plot = dynamic<PlotParams>(
       import("plotly.js-dist-min"),
       import("react-plotly.js/factory"),
     ]);
-    return createPlotlyComponent(Plotly);
+    const Inner = createPlotlyComponent(Plotly);
+    return function EscapedPlot(props: PlotParams) {
+      const data = escapeTraces((props.data ?? []) as object[]) as PlotParams["data"];
+      const layout = escapeLayout(props.layout as object | undefined) as PlotParams["layout"];
+      return <Inner {...props} data={data} layout={layout} />;
+    };
   },
   {
     ssr: false,
