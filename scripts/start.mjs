@@ -57,6 +57,37 @@ async function shutdown(code = 0) {
   log("Stopped.");
   process.exit(code);
 }
+/**
+ * The background worker, restarted whenever it exits (a crash, an out-of-memory kill, kill -9)
+ * with a growing delay — 1 s, 2 s, 4 s … up to 30 s — that starts again from 1 s once a worker
+ * has stayed up for a minute, so a worker that cannot start does not spin. Analyses it was
+ * running are queued again by the next worker (their heartbeat stops).
+ */
+function superviseWorker(tsx, env) {
+  let delayMs = 1000;
+  const launch = () => {
+    if (stopping) return;
+    const started = Date.now();
+    const worker = spawn(process.execPath, [tsx, "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], {
+      cwd: root,
+      env,
+      stdio: "inherit",
+    });
+    children.push(worker);
+    worker.on("exit", (code, signal) => {
+      children.splice(children.indexOf(worker), 1);
+      if (stopping) return;
+      if (Date.now() - started > 60_000) delayMs = 1000;
+      console.error(
+        `[inhibitrack] The worker exited (${signal ?? `code ${code}`}); restarting it in ${delayMs / 1000} s.`,
+      );
+      setTimeout(launch, delayMs);
+      delayMs = Math.min(30_000, delayMs * 2);
+    });
+  };
+  launch();
+}
+
 process.on("SIGINT", () => shutdown(0));
 process.on("SIGTERM", () => shutdown(0));
 process.on("SIGHUP", () => shutdown(0));
@@ -108,14 +139,7 @@ try {
       shutdown(1);
     }
   });
-  if (fs.existsSync(path.join(root, "src/cli/worker.ts"))) {
-    const worker = spawn(process.execPath, [tsx, "--tsconfig", "tsconfig.worker.json", "src/cli/worker.ts"], {
-      cwd: root,
-      env,
-      stdio: "inherit",
-    });
-    children.push(worker);
-  }
+  if (fs.existsSync(path.join(root, "src/cli/worker.ts"))) superviseWorker(tsx, env);
   await waitForHttp(`${appUrl}/api/health`, 120_000);
   console.log(`
   Inhibitrack is running (ready ${((Date.now() - startedAt) / 1000).toFixed(0)} s after \`npm start\`).

@@ -20,6 +20,8 @@ export const apiPaths = {
 
   analysis: (campaignId: string, experimentId: string, analysisId: string) =>
     `/api/campaigns/${enc(campaignId)}/experiments/${enc(experimentId)}/analyses/${enc(analysisId)}`,
+  analysisRetry: (campaignId: string, experimentId: string, analysisId: string) =>
+    `${apiPaths.analysis(campaignId, experimentId, analysisId)}/retry`,
 
   hits: (campaignId: string) => `/api/campaigns/${enc(campaignId)}/hits`,
   hitsPage: (campaignId: string, q: HitQueryParams, limit: number, offset: number) =>

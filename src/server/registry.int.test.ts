@@ -51,6 +51,7 @@ import * as experimentsRoute from "@/app/api/campaigns/[campaignId]/experiments/
 import * as analysesRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/route";
 import * as analysisRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/route";
 import * as resultsRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route";
+import * as analysisRetryRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/retry/route";
 import * as analysisActions from "@/app/(workspace)/campaigns/[campaignId]/analyses/actions";
 import { analysesWorld } from "@/test/analyses";
 import { DEFAULT_REGISTRY_PREFIX, formatRegistryId } from "@/lib/registry-id";
@@ -486,6 +487,20 @@ const invokers: Record<string, Invoke> = {
         })
       ).status,
     );
+  },
+  // The world's analysis is not failed: allowed callers reach the check (409), others are refused first.
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/retry/route.ts#POST": async (
+    actor,
+    w,
+  ) => {
+    const { experimentId, analysisId } = await analysesWorld(w);
+    const r = await callRoute(analysisRetryRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}/analyses/${analysisId}/retry`,
+      params: { campaignId: w.campaignId, experimentId, analysisId },
+    });
+    return deniedRoute(r.status);
   },
   "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route.ts#GET": async (actor, w) => {
     const { experimentId } = await analysesWorld(w);

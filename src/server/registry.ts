@@ -204,6 +204,11 @@ export const registry: RegistryEntry[] = [
     allow: members,
   },
   {
+    id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/retry/route.ts#POST",
+    what: "retry a failed analysis (same inputs, audited)",
+    allow: ["assay", "lead", "admin"],
+  },
+  {
     id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/route.ts#GET",
     what: "current results, one per compound",
     allow: members,

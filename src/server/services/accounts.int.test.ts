@@ -357,7 +357,8 @@ describe("campaign visibility and the API", () => {
 
   it("reports the database, object store and e-mail service as up", async () => {
     const r = await callRoute(health.GET, { user: null, path: "/api/health" });
-    expect(r.json).toEqual({ ok: true, services: { database: true, objectStore: true, mail: true } });
+    // The worker's own liveness is checked with real worker processes in worker-liveness.int.test.ts.
+    expect(r.json).toMatchObject({ services: { database: true, objectStore: true, mail: true } });
   });
 });
 

@@ -7,6 +7,7 @@ export { createExperiment, experimentRunList, getExperiment, listExperiments, ty
 export { currentInputs } from "./inputs";
 export { analyseNow, requestAnalysis, type AnalysisRequest } from "./request";
 export { runAnalysis, type Progress } from "./run";
+export { requeueStaleAnalyses, retryAnalysis, type Requeued } from "./recover";
 export { CHENG_PRUSOFF_TOLERANCE } from "./cheng-prusoff";
 export { analysisHistory, analysisJson, getAnalysis, type Analysis, type AnalysisJson } from "./history";
 export {

@@ -11,8 +11,9 @@ import type { Campaign } from "../campaigns";
 import { getExperiment } from "./experiments";
 import { currentInputs } from "./inputs";
 import { runAnalysis, type Progress } from "./run";
+import { requeueStaleAnalyses } from "./recover";
 
-export type AnalysisRequest = { id: string; status: string; reused: boolean };
+export type AnalysisRequest = { id: string; status: string; reused: boolean; attempts: number };
 
 /**
  * The row of a request: the same inputs as the current (or a queued/running) analysis give that
@@ -23,6 +24,8 @@ async function recordRequest(actor: Actor, campaign: Campaign, experimentId: str
   const { inputs, hash } = await currentInputs(campaign, experiment);
   if (inputs.runs.length === 0)
     throw new AppError("bad_request", "No accepted plate run in this experiment: accept runs that pass QC first.");
+  // A running analysis whose worker died is queued again first, so it is never handed back as running.
+  await requeueStaleAnalyses({ experimentId: experiment.id });
   return db.transaction(async (tx) => {
     // Serialise requests for one experiment so two clicks cannot queue the same work twice.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtext(${experiment.id}))`);
@@ -38,7 +41,7 @@ async function recordRequest(actor: Actor, campaign: Campaign, experimentId: str
       )
       .orderBy(desc(analyses.requestedAt))
       .limit(1);
-    if (same) return { id: same.id, status: same.status, reused: true };
+    if (same) return { id: same.id, status: same.status, reused: true, attempts: same.attempts };
     const [a] = await tx
       .insert(analyses)
       .values({
@@ -49,7 +52,7 @@ async function recordRequest(actor: Actor, campaign: Campaign, experimentId: str
         inputs,
         requestedBy: actor.id,
       })
-      .returning({ id: analyses.id, status: analyses.status });
+      .returning({ id: analyses.id, status: analyses.status, attempts: analyses.attempts });
     await audit(tx, actor, {
       campaignId: campaign.id,
       action: "analysis.request",
@@ -57,7 +60,7 @@ async function recordRequest(actor: Actor, campaign: Campaign, experimentId: str
       entityId: a!.id,
       after: { experimentId, inputHash: hash },
     });
-    return { id: a!.id, status: a!.status, reused: false };
+    return { id: a!.id, status: a!.status, reused: false, attempts: a!.attempts };
   });
 }
 
@@ -73,7 +76,7 @@ export async function requestAnalysis(
   experimentId: string,
 ): Promise<AnalysisRequest> {
   const a = await recordRequest(actor, campaign, experimentId);
-  if (a.status === "queued") await enqueueAnalysis(a.id);
+  if (a.status === "queued") await enqueueAnalysis(a.id, a.attempts);
   return a;
 }
 

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq, inArray } from "drizzle-orm";
+import { and, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/server/db/client";
 import { analyses, compoundResults, wellReadings, type AnalysisInputs } from "@/server/db/schema";
 import type { HitRule } from "@/lib/kinetics";
@@ -12,6 +12,7 @@ import {
 } from "@/lib/analysis/compute";
 import { isFittedMechanism } from "@/lib/analysis/detail";
 import { engineOptionsFrom } from "@/lib/analysis/settings";
+import { LIVENESS } from "@/server/jobs/boss";
 import { refreshHitRows } from "../hits";
 import { chengPrusoffCheck, measuredIc50s } from "./cheng-prusoff";
 
@@ -71,24 +72,51 @@ async function compute(
   return results;
 }
 
+/** Thrown inside the commit when another take of the analysis has claimed it meanwhile. */
+class Superseded extends Error {}
+
 /**
  * Computes an analysis and, in one transaction, writes its results and makes it current. A
  * failure at any point (including one thrown by `onProgress`) leaves the previous current
  * analysis and its results untouched; the analysis is marked failed with the reason.
+ *
+ * Exactly once, with several workers and dead ones: the take starts with a conditional UPDATE
+ * (queued or failed → running, attempts + 1), so a duplicate job finds nothing to do; while it
+ * runs, the row's heartbeat is renewed every ~10 s, so a take whose worker died is re-queued
+ * (recover.ts); and the commit goes ahead only while this take is still the row's latest, so a
+ * take that was thought dead and re-queued cannot write a second set of results.
  */
 export async function runAnalysis(analysisId: string, onProgress?: Progress): Promise<void> {
-  const a = await db.query.analyses.findFirst({ where: eq(analyses.id, analysisId) });
-  if (!a) throw new Error(`analysis ${analysisId} not found`);
-  if (a.status === "done") return;
-  await db
+  const [a] = await db
     .update(analyses)
-    .set({ status: "running", startedAt: new Date(), progress: 0, error: null })
-    .where(eq(analyses.id, analysisId));
+    .set({
+      status: "running",
+      startedAt: new Date(),
+      heartbeatAt: new Date(),
+      progress: 0,
+      error: null,
+      attempts: sql`${analyses.attempts} + 1`,
+    })
+    .where(and(eq(analyses.id, analysisId), inArray(analyses.status, ["queued", "failed"])))
+    .returning();
+  if (!a) {
+    const exists = await db.query.analyses.findFirst({ where: eq(analyses.id, analysisId), columns: { id: true } });
+    if (!exists) throw new Error(`analysis ${analysisId} not found`);
+    return; // done, or running in another take: nothing to do for this job
+  }
+  const mine = and(eq(analyses.id, analysisId), eq(analyses.status, "running"), eq(analyses.attempts, a.attempts));
+  const beat = setInterval(() => {
+    db.update(analyses)
+      .set({ heartbeatAt: new Date() })
+      .where(mine)
+      .catch((e) => console.error(`[analysis] heartbeat of ${analysisId} failed:`, e instanceof Error ? e.message : e));
+  }, LIVENESS.heartbeatMs);
+  beat.unref?.();
   const progress = async (f: number) => {
     await db
       .update(analyses)
-      .set({ progress: Math.min(1, Math.max(0, f)) })
-      .where(eq(analyses.id, analysisId));
+      .set({ progress: Math.min(1, Math.max(0, f)), heartbeatAt: new Date() })
+      .where(mine);
     await onProgress?.(f);
   };
   try {
@@ -98,6 +126,10 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
     const results = await compute(a.campaignId, inputs, readings);
     await progress(0.8);
     await db.transaction(async (tx) => {
+      // The fence: this take commits only while it is still the latest; the row lock also makes
+      // a concurrent re-queue wait for this commit (and then find the analysis done).
+      const [still] = await tx.select({ id: analyses.id }).from(analyses).where(mine).for("update");
+      if (!still) throw new Superseded();
       await tx
         .update(analyses)
         .set({ isCurrent: false })
@@ -147,6 +179,12 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
       );
     });
   } catch (e) {
+    if (e instanceof Superseded) {
+      console.warn(
+        `[analysis] ${analysisId}: take ${a.attempts} was superseded by a later take; its results were not written`,
+      );
+      return;
+    }
     await db
       .update(analyses)
       .set({
@@ -154,7 +192,9 @@ export async function runAnalysis(analysisId: string, onProgress?: Progress): Pr
         error: e instanceof Error ? e.message.slice(0, 500) : String(e).slice(0, 500),
         finishedAt: new Date(),
       })
-      .where(eq(analyses.id, analysisId));
+      .where(mine);
     throw e;
+  } finally {
+    clearInterval(beat);
   }
 }

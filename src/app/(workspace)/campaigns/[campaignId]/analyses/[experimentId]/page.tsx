@@ -12,6 +12,7 @@ import {
 import { can } from "@/lib/roles";
 import { formatConcentration, formatConcentrationRange } from "@/lib/units";
 import { AnalysisRunner } from "../_components/analysis-runner";
+import { RetryAnalysisButton } from "../_components/retry-analysis-button";
 import { Flags, kindLabel, AnalysisStatusChip } from "../_components/labels";
 import { startAnalysisAction } from "../actions";
 import { formatAlpha } from "@/lib/analysis/alpha";
@@ -61,6 +62,9 @@ export default async function ExperimentPage({
         }
         upToDate={upToDate}
       />
+      {latest?.status === "failed" && can(user.globalRole, role, "analysis:run") ? (
+        <RetryAnalysisButton campaignId={campaignId} experimentId={experimentId} analysisId={latest.id} />
+      ) : null}
       <section>
         <h3 className="mb-2">
           Results{" "}
