@@ -20,6 +20,8 @@ export type DigestData = {
     compoundId: string;
     mechanism: string | null;
     label: string | null;
+    /** Why an "inadequate" or "ambiguous" call is one, in words (null otherwise). */
+    note: string | null;
     kiUm: number | null;
     experimentId: string;
   }[];
@@ -30,6 +32,8 @@ export type DigestData = {
     kiUm: number | null;
     ic50Um: number | null;
     flagged: boolean;
+    inadequate: boolean;
+    note: string | null;
   }[];
 };
 
@@ -125,7 +129,11 @@ export function DigestEmail({
                 {m.compoundId}
               </Link>{" "}
               — {m.mechanism ?? "no call"}
-              {m.label === "ambiguous" ? " (ambiguous)" : ""}, Ki {formatConcentration(m.kiUm)}
+              {m.label === "ambiguous" || m.label === "inadequate" ? ` (${m.label})` : ""}, Ki{" "}
+              {formatConcentration(m.kiUm)}
+              {m.label === "inadequate" && m.note ? (
+                <span style={{ display: "block", color: c.warn, fontSize: "12px" }}>{m.note}</span>
+              ) : null}
             </Text>
           ))}
 
@@ -155,7 +163,11 @@ export function DigestEmail({
               — Ki {formatConcentration(t.kiUm)}
               {t.mechanism ? `, ${t.mechanism}` : ""}
               {t.ic50Um !== null ? `, IC50 ${formatConcentration(t.ic50Um)}` : ""}
-              {t.flagged ? " (flagged: review the fit)" : ""}
+              {t.inadequate
+                ? ` (inadequate). ${t.note ?? "Review the fit."}`
+                : t.flagged
+                  ? " (flagged: review the fit)"
+                  : ""}
             </Text>
           ))}
 

@@ -5,6 +5,7 @@ import { z } from "zod";
 import { db } from "@/server/db/client";
 import { analyses, auditLog, compoundResults, compounds, hitRows, plateRuns } from "@/server/db/schema";
 import { env } from "@/env";
+import { mechanismLabelNote } from "@/lib/hits/mechanism-label";
 import { DigestEmail, type DigestData } from "@/server/mail/digest-email";
 import { campaignById, type Campaign } from "./campaign";
 import { optOutToken } from "./opt-out";
@@ -60,6 +61,7 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
       compoundId: compoundResults.compoundId,
       mechanism: compoundResults.mechanism,
       label: compoundResults.mechanismLabel,
+      flags: compoundResults.flags,
       kiUm: compoundResults.kiUm,
       experimentId: compoundResults.experimentId,
     })
@@ -93,6 +95,8 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
     .select({
       compoundId: hitRows.compoundId,
       mechanism: hitRows.mechanism,
+      mechanismLabel: hitRows.mechanismLabel,
+      flags: hitRows.flags,
       kiUm: hitRows.kiUm,
       flagged: hitRows.flagged,
       ic50Um: hitRows.ic50Um,
@@ -124,7 +128,8 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
         .map((r) => ({ id: r.id, fileName: r.fileName, zPrime: r.zPrime, reason: r.qc.reasons[0] ?? null })),
     },
     newHits: hits,
-    mechanismCalls: mech,
+    // "inadequate" and "ambiguous" are said in words with why, as on the hit grid.
+    mechanismCalls: mech.map(({ flags, ...m }) => ({ ...m, note: mechanismLabelNote(m.label, flags)?.why ?? null })),
     triage: triage.map((t) => ({
       compoundId: (t.entityId ?? "").split("/").pop() ?? "",
       action: t.action,
@@ -132,7 +137,11 @@ export async function gatherDigest(campaign: Campaign, now: Date): Promise<Diges
       at: t.at,
       detail: describe(t),
     })),
-    topTen: top,
+    topTen: top.map(({ flags, mechanismLabel, ...t }) => ({
+      ...t,
+      inadequate: mechanismLabel === "inadequate",
+      note: mechanismLabelNote(mechanismLabel, flags)?.why ?? null,
+    })),
   };
 }
 

@@ -113,7 +113,7 @@ function PanelBody({
         <table className="table-dense">
           <tbody>
             <Row label="Mechanism">
-              <MechanismCell mechanism={r.mechanism} label={r.mechanismLabel} />
+              <MechanismCell mechanism={r.mechanism} label={r.mechanismLabel} flags={r.flags} />
             </Row>
             <Row label="Ki (95 % CI)">
               {formatConcentration(r.ki)}

@@ -172,9 +172,10 @@ export function HitsWorkspace({ campaignId, canTriage, canComment }: Props) {
       {
         headerName: "Mechanism",
         colId: "mechanism",
-        width: 136,
+        width: 190,
+        headerTooltip: "The mechanism call; a chip marks a call that is inadequate or ambiguous (hover it for why)",
         cellRenderer: ({ data }: ICellRendererParams<HitItem>) =>
-          data ? <MechanismCell mechanism={data.mechanism} label={data.mechanismLabel} /> : null,
+          data ? <MechanismCell mechanism={data.mechanism} label={data.mechanismLabel} flags={data.flags} /> : null,
       },
       {
         headerName: "Ki",

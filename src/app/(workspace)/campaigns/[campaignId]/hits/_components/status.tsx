@@ -1,3 +1,4 @@
+import { mechanismLabelNote } from "@/lib/hits/mechanism-label";
 import { isTriageStatus, triageLabels, type TriageStatus } from "@/lib/hits/query";
 
 // Our own palette for the triage states: neutral until reviewed, then blue (confirmed), green
@@ -15,13 +16,28 @@ export function StatusChip({ status }: { status: string }) {
   return <span className={`chip ${look[status]}`}>{triageLabels[status]}</span>;
 }
 
-export function MechanismCell({ mechanism, label }: { mechanism: string | null; label: string | null }) {
+export function MechanismCell({
+  mechanism,
+  label,
+  flags = [],
+}: {
+  mechanism: string | null;
+  label: string | null;
+  flags?: readonly string[];
+}) {
   if (!mechanism) return <span className="text-ink-faint">—</span>;
+  const note = mechanismLabelNote(label, flags);
   return (
     <span className="flex flex-wrap items-center gap-1">
       <span>{mechanism}</span>
-      {label === "ambiguous" ? (
-        <span className="chip bg-warn-soft text-warn" title="Another model lies within ΔAICc 2">
+      {note?.label === "inadequate" ? (
+        // A call the data do not support: outlined, so it reads apart from the warning chips; the reason on hover.
+        <span className="chip border border-fail/40 bg-fail-soft text-fail" title={note.why} aria-label={note.why}>
+          inadequate
+        </span>
+      ) : null}
+      {note?.label === "ambiguous" ? (
+        <span className="chip bg-warn-soft text-warn" title={note.why}>
           ambiguous
         </span>
       ) : null}
