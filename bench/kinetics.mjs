@@ -172,6 +172,18 @@ const tsxTime = timeProcess(
   join(OUT, "engine-dose-response-tsx.json"),
   oneThread,
 ).wall;
+// Where the command's own time goes (ANALYZE_TIMING=1: ms since its process started), median of 3.
+const phaseRuns = Array.from({ length: 3 }, () => {
+  const r = spawnSync(
+    process.execPath,
+    [join(ROOT, "scripts/analyze.cjs"), "dose-response", csvPath, "--weighting=none"],
+    { cwd: ROOT, encoding: "utf8", env: { ...process.env, ANALYZE_TIMING: "1" }, maxBuffer: 1 << 30 },
+  );
+  const m = /timing \(ms since start\): (.*)/.exec(r.stderr ?? "");
+  if (r.status !== 0 || !m) throw new Error(`the analyze command's timing failed: ${r.stderr}`);
+  return Object.fromEntries(m[1].split(", ").map((kv) => [kv.split(" ")[0], Number(kv.split(" ")[1])]));
+});
+const phase = (k) => median(phaseRuns.map((p) => p[k]));
 const engineRes = JSON.parse(readFileSync(engineOut, "utf8"));
 const singleRes = readFileSync(join(OUT, "engine-dose-response-2.json"), "utf8");
 const sameOutput = singleRes === readFileSync(engineOut, "utf8");
@@ -342,5 +354,7 @@ const lines = [
   `| SciPy \`curve_fit\` (from the first table, incl. start-up and CSV) | ${n(Math.round(N_CURVES / wall("scipy")))} | ${((100 * agree) / N_CURVES).toFixed(1)} % |`,
   "",
   `Checks in the same run: outcomes with --weighting=none: ${outcomes(engineRes)}; the fitted 4PL's IC50 agrees with SciPy's within 0.5 % for ${agree} of ${N_CURVES} curves; with --weighting=auto: ${outcomes(autoRes)}, relative weighting chosen for ${relativeChosen}. Two threads and the default print the same bytes: ${sameOutput ? "yes" : "NO"}. Mechanism: the same standard model is chosen for ${sameChoice} of ${N_MECH} data sets, and the engine's RSS is no worse than SciPy's for every model in ${notWorse} of ${N_MECH}; labels with --weighting=none: ${labels(engineMech)}; with --weighting=auto: ${labels(autoMech)}. Through tsx (no bundle, one thread) the dose-response command took ${fmt(tsxTime)} s.`,
+  "",
+  `Where the command's time goes (\`node scripts/analyze.cjs dose-response\` on the ${n(N_CURVES)} curves, one thread, ANALYZE_TIMING=1, median of 3, ms since the process started): Node, launcher and bundle loaded at ${phase("started")} ms; file read and parsed at ${phase("read")} ms; ${n(N_CURVES)} analyses and their JSON at ${phase("analysed")} ms; written at ${phase("written")} ms.`,
 ];
 process.stdout.write(lines.join("\n") + "\n");

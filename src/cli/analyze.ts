@@ -599,14 +599,20 @@ async function main(): Promise<void> {
       workers = startWorkers(argv, threads);
     }
   }
+  // ANALYZE_TIMING=1: one stderr line with the phases, in ms since the process started (benchmarks).
+  const marks: string[] = [];
+  const mark = (phase: string) => {
+    if (process.env.ANALYZE_TIMING === "1") marks.push(`${phase} ${Math.round(performance.now())}`);
+  };
   try {
-    process.stdout.write(
-      await output(
-        prepare(argv, (p) => readFileSync(p, "utf8")),
-        threads,
-        workers.results,
-      ),
-    );
+    mark("started");
+    const prepared = prepare(argv, (p) => readFileSync(p, "utf8"));
+    mark("read");
+    const text = await output(prepared, threads, workers.results);
+    mark("analysed");
+    process.stdout.write(text);
+    mark("written");
+    if (marks.length > 0) process.stderr.write(`timing (ms since start): ${marks.join(", ")}\n`);
   } catch (e) {
     const message = e instanceof Error ? e.message : String(e);
     process.stderr.write(`error: ${message.replace(/\s*\n\s*/g, " ")}\n`);

@@ -709,7 +709,6 @@ function adequacyOf(
   nParams: number,
 ): NonNullable<CurveJudgement["adequacy"]> {
   const n = x.length;
-  const order: number[] = new Array<number>(n);
   // Dilution series usually arrive sorted (either way); a strictly falling one is just reversed.
   let rising = true;
   let falling = true;
@@ -717,23 +716,28 @@ function adequacyOf(
     if (x[i]! < x[i - 1]!) rising = false;
     if (x[i]! >= x[i - 1]!) falling = false;
   }
+  // Single wells in dose order, either way: the runs test depends only on the counts of signs
+  // and of runs, which reversing leaves alone, so the residuals are read as they are.
+  if (keys === null && (rising || falling)) return runsOnly(cachedRunsTest(residuals));
+  const order: number[] = new Array<number>(n);
   for (let i = 0; i < n; i++) order[i] = falling && !rising ? n - 1 - i : i;
   if (!rising && !falling) order.sort((a, b) => x[a]! - x[b]! || a - b);
   const res = new Array<number>(n);
   for (let k = 0; k < n; k++) res[k] = residuals[order[k]!]!;
-  if (keys === null) {
-    // Single wells: no pure error, so no lack-of-fit test; the runs test alone.
-    const runs = cachedRunsTest(res);
-    const reasons: string[] = [];
-    if (runs.p < ADEQUACY_ALPHA)
-      reasons.push(
-        `residual pattern: ${runs.runs} runs of signs where ${runs.expected.toFixed(1)} are expected (p ${runs.p.toPrecision(2)})`,
-      );
-    return { lackOfFit: null, runs, adequate: reasons.length === 0, reasons };
-  }
+  // Single wells: no pure error, so no lack-of-fit test; the runs test alone.
+  if (keys === null) return runsOnly(cachedRunsTest(res));
   const k = order.map((i) => keys[i]!);
   const obs = order.map((i) => y[i]! * (factors ? factors[i]! : 1));
   return assessAdequacy(k, obs, res, nParams);
+}
+
+function runsOnly(runs: RunsTest): NonNullable<CurveJudgement["adequacy"]> {
+  const reasons: string[] = [];
+  if (runs.p < ADEQUACY_ALPHA)
+    reasons.push(
+      `residual pattern: ${runs.runs} runs of signs where ${runs.expected.toFixed(1)} are expected (p ${runs.p.toPrecision(2)})`,
+    );
+  return { lackOfFit: null, runs, adequate: reasons.length === 0, reasons };
 }
 
 const runsCache = new Map<number, RunsTest>();
