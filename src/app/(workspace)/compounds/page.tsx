@@ -42,6 +42,9 @@ export default async function CompoundsPage({
       <p className="mb-3 text-sm text-ink-muted">
         Compounds are shared by every campaign; batches and stock solutions belong to a compound. Search by registry ID,
         name or supplier code, or by a substructure.
+        {writer
+          ? null
+          : " You see the compounds of your campaigns (on their plate maps, results or hit lists); chemists and administrators see the whole registry."}
       </p>
       <ChemicalSafetyNote className="mb-3" />
       <CompoundGrid

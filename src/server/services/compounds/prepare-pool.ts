@@ -43,13 +43,18 @@ function split<T>(xs: readonly T[], n: number): T[][] {
   return out;
 }
 
-/** A task's time limit ran out; `progress` is the last record index an import task reported. */
+/**
+ * A task was stopped: its time limit ran out ("time") or its worker died under it ("memory": the
+ * worker's heap limit, or any other exit). `progress` is the last record index an import task
+ * reported, so the record that caused it is known.
+ */
 export class ChemTimeout extends Error {
   constructor(
     readonly limitMs: number,
     readonly progress: number | null,
+    readonly cause: "time" | "memory" = "time",
   ) {
-    super(`Chemistry task stopped after ${limitMs} ms.`);
+    super(cause === "time" ? `Chemistry task stopped after ${limitMs} ms.` : "Chemistry worker stopped during a task.");
   }
 }
 
@@ -136,6 +141,10 @@ class ChemPool {
           (w) => {
             slot.worker = w;
             slot.starting = null;
+            // A worker that dies while idle is replaced on the next task, not posted to.
+            w.once("exit", () => {
+              if (slot.worker === w) slot.worker = null;
+            });
             this.pump();
           },
           (e) => {
@@ -171,10 +180,18 @@ class ChemPool {
         arm();
         return;
       }
-      finish(m.ok ? null : new Error(`Chemistry task failed: ${m.error ?? "no result"}`), false, m.result);
+      if (!m.ok) console.error("[inhibitrack] chemistry task threw", m.error);
+      finish(
+        m.ok ? null : new AppError("bad_request", "This structure could not be processed; check it and try again."),
+        false,
+        m.result,
+      );
     };
-    const onExit = (code: number) => finish(new Error(`The chemistry worker stopped (exit ${code}).`), true);
-    const onError = (e: Error) => finish(e, true);
+    const onExit = () => finish(new ChemTimeout(job.limitMs, slot.progress, "memory"), true);
+    const onError = (e: Error) => {
+      console.error("[inhibitrack] chemistry worker failed during a task", e);
+      finish(new ChemTimeout(job.limitMs, slot.progress, "memory"), true);
+    };
     const finish = (err: Error | null, kill: boolean, result?: unknown) => {
       clearTimeout(timer);
       w.off("message", onMessage);
@@ -204,11 +221,13 @@ function pool(): ChemPool {
   return g.__inhibitrackChemPool;
 }
 
-/** A structure-level sentence for a task that ran out of time. */
-function tooComplex(what: string, limitMs: number): AppError {
+/** A structure-level sentence for a task that ran out of time or memory. */
+function tooComplex(what: string, e: ChemTimeout): AppError {
+  const how =
+    e.cause === "time" ? `took longer than ${e.limitMs / 1000} s` : "needed more memory than a structure is allowed";
   return new AppError(
     "too_large",
-    `${what} took longer than ${limitMs / 1000} s and was stopped; the structure is too large or too complex for the registry.`,
+    `${what} ${how} and was stopped; the structure is too large or too complex for the registry.`,
   );
 }
 
@@ -217,7 +236,7 @@ export async function runChem<T>(task: ChemTask, what: string, limitMs = STRUCTU
   try {
     return await pool().run<T>(task, limitMs);
   } catch (e) {
-    if (e instanceof ChemTimeout) throw tooComplex(what, limitMs);
+    if (e instanceof ChemTimeout) throw tooComplex(what, e);
     throw e;
   }
 }
@@ -241,7 +260,7 @@ async function prepareChunk(records: ImportRecord[]): Promise<ChunkResult> {
         record: slow.recordNo,
         line: slow.line,
         field: slow.smiles !== undefined ? "smiles" : "molfile",
-        message: `Preparing this structure took longer than ${e.limitMs / 1000} s and was stopped; it is too large or too complex for the registry.`,
+        message: tooComplex("Preparing this structure", e).message,
       });
       rest = [...rest.slice(0, e.progress), ...rest.slice(e.progress + 1)];
     }
