@@ -38,7 +38,7 @@ async function main() {
     const d = process.cpuUsage(cpu0);
     return (d.user + d.system) / 1e6;
   })();
-  const prepared = await getImport(job.id);
+  const prepared = await getImport({ id: actor.id, globalRole: "admin" }, job.id);
   if (prepared.status !== "ready") throw new Error(`import not ready: ${prepared.status} ${prepared.error ?? ""}`);
   const preview = prepared.preview as ImportPreview;
   const result = await commitImport(actor, job.id, preview.invalid === 0 ? "all_or_nothing" : "valid_only");
