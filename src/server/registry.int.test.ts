@@ -976,5 +976,21 @@ describe("registry reads and import jobs: who sees what", () => {
     expect(c.status).toBe(200);
     expect((c.json as { result: { registered: number } }).result.registered).toBe(1);
     expect((await report(people.chemist)).status).toBe(200);
+
+    // An administrator may commit an import someone else uploaded.
+    const second = await startImport(w.people.chemist, {
+      fileName: `access-2-${tag}.csv`,
+      contentType: "text/csv",
+      bytes: new TextEncoder().encode(`smiles,name\n${uniqueSmiles()},Import 2 ${tag} (invented)\n`),
+    });
+    await second.done;
+    const byAdmin = await callRoute(compoundImportCommit.POST, {
+      user: people.admin,
+      method: "POST",
+      path: `/api/compound-imports/${second.job.id}/commit`,
+      params: { importId: second.job.id },
+      body: { mode: "valid_only" },
+    });
+    expect(byAdmin.status).toBe(200);
   });
 });
