@@ -178,6 +178,25 @@ describe("a competitive tight binder with [E] near Ki (invented: Ki 0.5, [E] 1, 
     expect(r.alternatives.filter((a) => a.family === "tight-binding")).toHaveLength(0);
     expect(r.best).toBe("competitive");
   });
+
+  it("[E] far below Ki on an inadequate call (a partial inhibitor, Ki 1, [E] 0.001): the depletion-aware fits are tried but never recommended, and say why", () => {
+    for (const seed of SEEDS.slice(0, 10)) {
+      const r = fitMechanism(
+        matrix((s, i) => partialInhibitedRate(s, i, 1, KM, 1, 1, 0.4), S6, [0, 0.3, 1, 3, 10, 30], 100 + seed, 0.015),
+        { enzymeConc: 0.001 },
+      );
+      const tight = r.alternatives.filter((a) => a.family === "tight-binding");
+      expect(tight).toHaveLength(4); // fitted because the standard call is inadequate
+      expect(r.recommended?.family).not.toBe("tight-binding");
+      expect(r.flags.map((f) => f.code)).not.toContain("tight-binding");
+      for (const a of tight) {
+        expect(a.exclusion).toMatch(
+          /^\[E\] 0\.001 is more than 10-fold below Ki[cu] [\d.]+ and the depletion screen is negative/,
+        );
+        expect(a.sentence).toContain("is not recommended: [E] 0.001");
+      }
+    }
+  });
 });
 
 describe("proportional noise (invented: competitive Ki 2, CV 10 %, triplicates)", () => {

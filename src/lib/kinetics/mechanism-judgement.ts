@@ -408,11 +408,19 @@ export function judgeMechanism(input: JudgementInput): MechanismJudgement {
   };
   // A model beyond the four earns its extra term only when that term is determined and the F-test
   // prefers it to its own standard mechanism; otherwise it may not be recommended, and says why.
+  // A depletion-aware model has no extra term: it earns its place only when depletion can matter
+  // (Ki within 10-fold of [E], or the depletion screen positive). Far from that it is the standard
+  // model in all but name, and winning by rounding would put a false "tight binding" on the call.
+  const depletionMatters = tb?.near === true || score.depletion.p < SCREEN_ALPHA;
   for (const a of alternatives) {
     const self = byModel.get(a.model)!;
     a.exclusion =
       undeterminedTerm(a, input.units) ??
-      (a.family === "tight-binding" ? null : unsupportedByFTest(a, fTest(byModel.get(a.mechanism)!, self).p));
+      (a.family === "tight-binding"
+        ? depletionMatters
+          ? null
+          : `[E] ${conc(e)} is more than ${TIGHT_BINDING_RATIO}-fold below ${kiMinName(chosen.kic, chosen.kiu)} ${conc(chosenKiMin)} and the depletion screen is negative (p ${num(score.depletion.p)}): depletion cannot change the call`
+        : unsupportedByFTest(a, fTest(byModel.get(a.mechanism)!, self).p));
     if (a.exclusion !== null) self.eligible = false;
   }
   const eligible = candidates.filter((c) => c.eligible);
@@ -601,7 +609,11 @@ function sentence(
       return `Inhibition levels off at ${levelsOff(a)} (at S = Km): a partial inhibitor whose enzyme–substrate–inhibitor complex still turns over (β ${num(a.beta?.value)}, its turnover relative to the enzyme–substrate complex); ${kiText(a.kic.value, a.kiu.value)} from this model; Ki from the four standard models would be misleading (the ${input.best} fit gives ${kiText(chosen.kic, chosen.kiu)}).`;
     if (a.family === "substrate-inhibition")
       return `Rates fall at high substrate (Ksi about ${conc(a.ksi?.value)}): the enzyme is substrate-inhibited; allowing for it the inhibitor is ${a.mechanism} with ${kiText(a.kic.value, a.kiu.value)}, where the four standard models call it ${input.best}.`;
-    return `Ki is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${conc(input.enzymeConc)}): a tight binder that depletes the free inhibitor; allowing for that the inhibitor is ${a.mechanism} with ${kiText(a.kic.value, a.kiu.value)}, where the four standard models call it ${input.best} with ${kiText(chosen.kic, chosen.kiu)}.`;
+    const why =
+      input.enzymeConc !== null && kiMin(chosen.kic, chosen.kiu)! < TIGHT_BINDING_RATIO * input.enzymeConc
+        ? `Ki is within ${TIGHT_BINDING_RATIO}-fold of the enzyme concentration (${conc(input.enzymeConc)})`
+        : `Inhibition is weaker at low inhibitor and steeper than simple binding allows at this enzyme concentration (${conc(input.enzymeConc)})`;
+    return `${why}: a tight binder that depletes the free inhibitor; allowing for that the inhibitor is ${a.mechanism} with ${kiText(a.kic.value, a.kiu.value)}, where the four standard models call it ${input.best} with ${kiText(chosen.kic, chosen.kiu)}.`;
   }
   const what =
     a.family === "partial"
@@ -609,6 +621,7 @@ function sentence(
       : a.family === "substrate-inhibition"
         ? `Substrate inhibition (${a.model}, ${a.ksi?.value ? `Ksi ${conc(a.ksi.value)}` : "no finite Ksi"})`
         : `The depletion-aware ${a.mechanism} fit (${kiText(a.kic.value, a.kiu.value)} at [E] ${conc(input.enzymeConc)})`;
+  if (a.family === "tight-binding" && a.exclusion !== null) return `${what} is not recommended: ${a.exclusion}.`;
   if (!a.adequacy.adequate) return `${what} is itself inadequate (${a.adequacy.reasons.join("; ")}).`;
   if (a.exclusion !== null && !a.exclusion.startsWith("the F-test"))
     return `${what} is not recommended: ${a.exclusion}.`;
