@@ -98,6 +98,9 @@ export async function sendCampaignDigest(
       else summary.inProgress += 1;
       continue;
     }
+    // Only this claim may settle the row: a sender presumed dead (its claim taken over after 10
+    // minutes) that finishes late must not overwrite the newer claim's outcome.
+    const mine = and(eq(digestSends.id, claimed.id), eq(digestSends.attempts, claimed.attempts));
     try {
       data ??= await gatherDigest(campaign, now);
       const mail = await renderDigest(data, p);
@@ -111,7 +114,7 @@ export async function sendCampaignDigest(
       await db
         .update(digestSends)
         .set({ status: "sent", messageId: id, sentAt: new Date(), lastError: null })
-        .where(eq(digestSends.id, claimed.id));
+        .where(mine);
       summary.sent += 1;
     } catch (e) {
       const delay = RETRY_DELAYS_MS[Math.min(claimed.attempts - 1, RETRY_DELAYS_MS.length - 1)]!;
@@ -122,7 +125,7 @@ export async function sendCampaignDigest(
           lastError: e instanceof Error ? e.message.slice(0, 500) : String(e).slice(0, 500),
           nextAttemptAt: new Date(now.getTime() + delay),
         })
-        .where(eq(digestSends.id, claimed.id));
+        .where(mine);
       summary.failed += 1;
     }
   }
