@@ -73,6 +73,8 @@ class Refused extends Error {
  * the same whether or not the account exists. Kept in Postgres, so limits hold across processes.
  */
 export async function beginAttempt(buckets: Bucket[]): Promise<Attempt> {
+  // Old rows are useless; about one attempt in 200 clears them, off the attempt's own path.
+  if (Math.random() < 0.005) void pruneThrottle().catch(() => {});
   let claimed: Claimed[];
   try {
     claimed = await db.transaction(async (tx) => {
