@@ -12,7 +12,7 @@ import * as health from "@/app/api/health/route";
 import { AppError } from "@/server/errors";
 import { MAX_HEAVY_ATOMS } from "@/lib/chem/parse";
 import { runChem } from "./prepare-pool";
-import { structureSvgOf } from "./drawings";
+import { drawingEtag, drawingResponse, structureSvgOf } from "./drawings";
 import { getImport, importView, startImport } from "./index";
 import * as compoundsRoute from "@/app/api/compounds/route";
 
@@ -95,6 +95,27 @@ describe("chemistry runs off the request thread", () => {
       result,
     );
     expect(performance.now() - t).toBeLessThan(50); // from the cache, no worker round trip
+  });
+
+  it("serves a drawing with an ETag and private caching, and answers a revalidation with 304 (no drawing)", async () => {
+    const prep = await runChem<{ properties: { structureKey: string } }>(
+      { kind: "prepare", input: { smiles: "CCOc1ccc(cc1)C(=O)NC" } },
+      "Preparing a small invented amide",
+    );
+    const key = prep.properties.structureKey;
+    const opts = { width: 120, height: 72, idPrefix: "t-" };
+    const first = await drawingResponse(new Request("http://127.0.0.1/x"), key, opts);
+    expect(first.status).toBe(200);
+    expect(first.headers.get("cache-control")).toBe("private, max-age=86400");
+    expect(first.headers.get("etag")).toBe(drawingEtag(key, opts));
+    expect(await first.text()).toMatch(/^<svg/);
+    const again = await drawingResponse(
+      new Request("http://127.0.0.1/x", { headers: { "if-none-match": drawingEtag(key, opts) } }),
+      key,
+      opts,
+    );
+    expect(again.status).toBe(304);
+    expect(await again.text()).toBe("");
   });
 
   it("refuses a valid 1,900-atom SMILES and a 5,000-atom molfile with the reason, quickly (400)", async () => {

@@ -78,7 +78,7 @@ function startWorker(): Promise<Worker> {
       eval: true,
       workerData: { file: path.join(WORKER_DIR, "compound-prepare.worker.ts") },
       // Bounds a runaway structure's memory to its worker (terminated on overrun).
-      resourceLimits: { maxOldGenerationSizeMb: 1024 },
+      resourceLimits: { maxOldGenerationSizeMb: 512 },
     });
     w.unref(); // an idle pool does not keep a test or CLI process alive
     const timer = setTimeout(() => {
