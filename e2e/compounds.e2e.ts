@@ -61,6 +61,10 @@ describe("compound registry", () => {
     await shot(page, "compound-page");
     await page.goto(`${APP_URL}/compounds`);
     await expect(page.getByRole("link", { name: "Register compound" }).count()).resolves.toBe(0);
+    // A partner-lab viewer reads only the compounds of their campaigns, and is told so.
+    await page.getByText("You see the compounds of your campaigns").waitFor({ timeout: 15_000 });
+    await page.getByTestId("result-count").waitFor({ timeout: 15_000 });
+    await shot(page, "compound-list-viewer");
     await page.close();
   });
 
