@@ -2,7 +2,8 @@
 // directory and every entry is inflated as a stream, counting the bytes that actually come out
 // (the sizes a zip declares can lie, so they are never trusted), and the worksheets' XML is
 // scanned as it inflates for rows and cells, so a zip bomb or a sheet over the row or column cap
-// stops within a few megabytes of crossing the limit, before any workbook is built.
+// stops within a few megabytes of crossing the limit, before any workbook is built. Each entry's
+// CRC-32 is checked too (exceljs does not), so a damaged file is not read as if it were whole.
 // Plain Node (no "server-only"): it runs inside the upload-parse worker thread.
 import zlib from "node:zlib";
 
@@ -32,6 +33,7 @@ interface Entry {
   method: number;
   compressedSize: number;
   localOffset: number;
+  crc32: number;
 }
 
 const refuse = (message: string): ZipGuardResult => ({ ok: false, message });
@@ -61,6 +63,7 @@ function entriesOf(bytes: Uint8Array): Entry[] | string {
       name,
       method: view.getUint16(p + 10, true),
       compressedSize: view.getUint32(p + 20, true),
+      crc32: view.getUint32(p + 16, true),
       localOffset: view.getUint32(p + 42, true),
     });
     p += 46 + nameLen + view.getUint16(p + 30, true) + view.getUint16(p + 32, true);
@@ -161,8 +164,10 @@ export async function guardXlsxZip(bytes: Uint8Array, limits: ZipGuardLimits): P
     const isSheet = /^xl\/worksheets\/[^/]+\.xml$/i.test(e.name);
     const scanner = isSheet ? new SheetScanner() : null;
     const sheetName = e.name.replace(/^xl\/worksheets\//i, "").slice(0, 60);
+    let crc = 0;
     const onChunk = (chunk: Buffer): string | undefined => {
       inflated += chunk.byteLength;
+      crc = zlib.crc32(chunk, crc);
       if (inflated > limits.maxInflatedBytes) return overInflated;
       if (!scanner) return undefined;
       scanner.feed(chunk);
@@ -180,6 +185,10 @@ export async function guardXlsxZip(bytes: Uint8Array, limits: ZipGuardLimits): P
     } else
       return refuse(
         `file is not a usable XLSX workbook: zip entry ${e.name.slice(0, 60)} uses an unsupported compression`,
+      );
+    if (crc >>> 0 !== e.crc32 >>> 0)
+      return refuse(
+        `file is not a readable XLSX workbook (damaged zip: ${e.name.slice(0, 60)} fails its CRC-32 check)`,
       );
     if (scanner) {
       rows = Math.max(rows, scanner.rows);
