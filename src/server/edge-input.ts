@@ -41,10 +41,14 @@ export const UUID_KEYS = new Set([
 /** Any UUID-shaped id (z.guid: 8-4-4-4-12 hex digits, any version), so a string of dashes never reaches a uuid cast. */
 const uuidParam = z.guid();
 
+/** Fields whose text is opaque (a password may well look like a date or a 17-digit number). */
+const OPAQUE_KEY = /password|secret|token|^current$/i;
+
 /** What is wrong with one text value, or null. `field` names it in the sentence. */
-export function textProblem(field: string, value: string): string | null {
+export function textProblem(field: string, value: string, opts: { opaque?: boolean } = {}): string | null {
   if (value.includes("\u0000")) return `${field} contains a NUL character, which is not allowed.`;
   if (!value.isWellFormed()) return `${field} contains text that is not valid Unicode (an unpaired surrogate).`;
+  if (opts.opaque) return null;
   const date = /^([+-]?\d{4,})-(\d{2})-(\d{2})(?:[T ]|$)/.exec(value);
   if (date) {
     const year = Number(date[1]);
@@ -63,7 +67,7 @@ export function textProblem(field: string, value: string): string | null {
 /** A keyed value (query or form field): the text rules, and the UUID shape for id fields. */
 export function fieldProblem(key: string, value: string): string | null {
   const name = `“${key.slice(0, 60)}”`;
-  const p = textProblem(name, key) ?? textProblem(name, value);
+  const p = textProblem(name, key) ?? textProblem(name, value, { opaque: OPAQUE_KEY.test(key) });
   if (p) return p;
   if (UUID_KEYS.has(key) && value !== "" && !uuidParam.safeParse(value).success) return `${name} must be a UUID.`;
   return null;
@@ -113,7 +117,7 @@ export function checkJson(value: unknown): void {
   const walk = (v: unknown, at: string, depth: number): void => {
     if (depth > EDGE_LIMITS.maxJsonDepth) throw bad(at, "is nested too deeply.");
     if (typeof v === "string") {
-      const p = textProblem(at || "The body", v);
+      const p = textProblem(at || "The body", v, { opaque: OPAQUE_KEY.test(at.split(".").at(-1) ?? "") });
       if (p) throw new AppError("bad_request", p, { details: [{ field: at || undefined, message: p }] });
     } else if (typeof v === "number") {
       if (!Number.isFinite(v) || Math.abs(v) > EDGE_LIMITS.maxAbsNumber)

@@ -146,6 +146,8 @@ describe("edge rules (unit)", () => {
     expect(fieldProblem("k", "1e308")).toMatch(/outside the accepted range/);
     expect(fieldProblem("k", "3.5")).toBeNull();
     expect(fieldProblem("from", "2026-12-02")).toBeNull();
+    expect(fieldProblem("password", "12345678901234567890")).toBeNull(); // opaque: only NUL and bad text refused
+    expect(fieldProblem("password", "a\u0000")).toMatch(/NUL/);
     expect(() => checkJson({ a: [{ b: 1e308 }] })).toThrow(/“a\[0\]\.b” is 1e\+308/);
     expect(() => checkJson({ a: "x\u0000" })).toThrow(/a contains a NUL/);
   });

@@ -27,7 +27,7 @@ export async function requeueStaleAnalyses(opts: { experimentId?: string } = {})
       .update(analyses)
       .set({
         status: sql`case when ${analyses.attempts} >= ${LIVENESS.maxAnalysisAttempts} then 'failed' else 'queued' end::analysis_status`,
-        error: sql`case when ${analyses.attempts} >= ${LIVENESS.maxAnalysisAttempts} then ${`The worker stopped ${LIVENESS.maxAnalysisAttempts} times while running this analysis; retry it, or ask an administrator to look at the worker's log.`} else null end`,
+        error: sql`case when ${analyses.attempts} >= ${LIVENESS.maxAnalysisAttempts} then ${`The worker stopped ${LIVENESS.maxAnalysisAttempts} times while running this analysis; retry it, or ask an administrator to look at the worker's log`} else null end`,
         finishedAt: sql`case when ${analyses.attempts} >= ${LIVENESS.maxAnalysisAttempts} then now() else null end`,
         progress: 0,
         heartbeatAt: null,
