@@ -1,6 +1,9 @@
 import Link from "next/link";
+import { connection } from "next/server";
 
-export default function NotFound() {
+export default async function NotFound() {
+  // Rendered per request, not prerendered: a prerendered page carries no CSP script nonce (src/proxy.ts).
+  await connection();
   return (
     <main className="mx-auto max-w-md px-6 py-16">
       <h1 className="mb-2">Not found</h1>

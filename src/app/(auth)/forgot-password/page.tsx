@@ -1,7 +1,8 @@
 import { ForgotForm } from "../_components/auth-forms";
 import { requestResetAction } from "../actions";
 
-export const dynamic = "force-dynamic"; // a fresh CSP nonce per request (see src/proxy.ts)
+// Rendered per request: a prerendered page would carry no CSP nonce (src/proxy.ts).
+export const dynamic = "force-dynamic";
 
 export const metadata = { title: "Reset password" };
 

@@ -4,6 +4,9 @@ import { roleLabels } from "@/lib/roles";
 import { AcceptInviteForm } from "../../_components/auth-forms";
 import { acceptInviteAction } from "../../actions";
 
+// Rendered per request: a page kept from an earlier request would carry that request's CSP nonce (src/proxy.ts).
+export const dynamic = "force-dynamic";
+
 export const metadata = { title: "Invitation" };
 
 export default async function InvitePage({ params }: { params: Promise<{ token: string }> }) {

@@ -2,6 +2,9 @@ import { OPT_OUT_LINK_DAYS, stopLinkTarget } from "@/server/services/digest";
 import { StopDigestForm } from "./stop-form";
 import { stopDigestAction } from "../../actions";
 
+// Rendered per request: a page kept from an earlier request would carry that request's CSP nonce (src/proxy.ts).
+export const dynamic = "force-dynamic";
+
 export const metadata = { title: "Stop the weekly digest" };
 
 export default async function StopDigestPage({ params }: { params: Promise<{ token: string }> }) {
