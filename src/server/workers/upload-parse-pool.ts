@@ -77,6 +77,17 @@ function limitError(job: Job, kind: "time" | "memory" | "crash"): AppError {
 }
 
 async function runOn(slot: Slot, job: Job): Promise<void> {
+  // A busy worker keeps the process alive (a command-line seed has nothing else to wait on); an
+  // idle one does not hold a finished process open.
+  slot.worker.ref();
+  try {
+    await runJob(slot, job);
+  } finally {
+    slot.worker.unref();
+  }
+}
+
+async function runJob(slot: Slot, job: Job): Promise<void> {
   try {
     await slot.ready;
   } catch (e) {
