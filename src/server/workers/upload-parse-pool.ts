@@ -15,7 +15,7 @@ import type { UploadParseTask } from "./upload-parse";
  * the upload is refused with 429 rather than waiting without end.
  */
 export const PARSE_TIME_LIMIT_MS = 20_000;
-/** Heap of one worker: exceljs holds about 10× a sheet's XML (chosen here; docs/benchmarks.md). */
+/** Heap of one worker: room for exceljs on a workbook at the 100 MB inflate cap (chosen here, not measured). */
 export const PARSE_HEAP_MB = 1024;
 const POOL_SIZE = 2;
 const MAX_QUEUED = 16;

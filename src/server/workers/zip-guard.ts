@@ -12,7 +12,7 @@ const MIB = 1024 * 1024;
 /**
  * Bytes all entries may inflate to together. A 1536-well plate with 100 reads in a long table is
  * about 25 MB of sheet XML; exceljs needs roughly 10× the XML in memory, so 100 MB keeps a
- * workbook within the worker's memory limit (chosen here, measured in docs/benchmarks.md).
+ * workbook within the worker's memory limit (chosen here; the 10× is an estimate, not measured).
  */
 export const MAX_INFLATED_BYTES = 100 * MIB;
 /** Entries in the zip: an XLSX has a dozen or so (chosen here). */
