@@ -53,7 +53,20 @@ beforeAll(async () => {
   w = await makeWorld();
 });
 afterAll(async () => {
-  for (const p of started) if (p.exitCode === null && p.signalCode === null) p.kill("SIGKILL");
+  // SIGTERM: tsx passes it on to the worker it runs (a SIGKILL to tsx would leave that worker
+  // running on, taking later tests' jobs), and the worker stops gracefully.
+  const live = started.filter((p) => p.exitCode === null && p.signalCode === null);
+  for (const p of live) p.kill("SIGTERM");
+  await Promise.all(
+    live.map(
+      (p) =>
+        new Promise((r) => {
+          if (p.exitCode !== null || p.signalCode !== null) return r(null);
+          const t = setTimeout(() => (p.kill("SIGKILL"), r(null)), 20_000);
+          p.once("exit", () => (clearTimeout(t), r(null)));
+        }),
+    ),
+  );
   await stopBoss();
 });
 
