@@ -6,3 +6,4 @@ export * from "./compounds";
 export * from "./digest";
 export * from "./hits";
 export * from "./workers";
+export * from "./plate-batches";
