@@ -20,6 +20,9 @@ export const auditLog = pgTable(
     before: jsonb("before"),
     after: jsonb("after"),
     reason: text("reason"),
+    // The personal API token the change came through (api_tokens.id; no foreign key, so the
+    // append-only rows never need an update), null for a browser session or a job.
+    tokenId: uuid("token_id"),
   },
   (t) => [index("audit_campaign_at").on(t.campaignId, t.at), index("audit_at").on(t.at)],
 );

@@ -7,3 +7,4 @@ export * from "./digest";
 export * from "./hits";
 export * from "./workers";
 export * from "./plate-batches";
+export * from "./tokens";
