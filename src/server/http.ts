@@ -26,7 +26,9 @@ export function route<P = Record<string, never>>(fn: (req: Request, params: P) =
     } catch (e) {
       if (isNextControlFlow(e)) throw e;
       const { status, body } = toPublicError(e);
-      return NextResponse.json(body, { status, headers: status === 429 ? { "retry-after": "900" } : undefined });
+      // A refusal for load or throttling says how long to wait (retryAfterSeconds, set where it is thrown).
+      const wait = typeof body.retryAfterSeconds === "number" ? Math.max(1, Math.ceil(body.retryAfterSeconds)) : 60;
+      return NextResponse.json(body, { status, headers: status === 429 ? { "retry-after": String(wait) } : undefined });
     }
   };
 }

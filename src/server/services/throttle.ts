@@ -121,7 +121,9 @@ export async function beginAttempt(buckets: Bucket[]): Promise<Attempt> {
     });
   } catch (e) {
     if (e instanceof Refused)
-      throw new AppError("throttled", `Too many failed attempts. Try again in ${waitWords(e.waitSeconds)}.`);
+      throw new AppError("throttled", `Too many failed attempts. Try again in ${waitWords(e.waitSeconds)}.`, {
+        extra: { retryAfterSeconds: e.waitSeconds },
+      });
     throw e;
   }
   return {

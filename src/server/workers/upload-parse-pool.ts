@@ -167,7 +167,9 @@ export function parseInWorker(
 ): Promise<Result> {
   if (queue.length >= MAX_QUEUED)
     return Promise.reject(
-      new AppError("throttled", "The server is parsing many uploads at the moment; please try again in a minute."),
+      new AppError("throttled", "The server is parsing many uploads at the moment; please try again in a minute.", {
+        extra: { retryAfterSeconds: 30 },
+      }),
     );
   return new Promise<Result>((resolve, reject) => {
     queue.push({ task, label, timeLimitMs: opts.timeLimitMs ?? PARSE_TIME_LIMIT_MS, resolve, reject });

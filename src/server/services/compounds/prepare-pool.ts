@@ -120,7 +120,9 @@ class ChemPool {
   run<T>(task: ChemTask, limitMs = STRUCTURE_TIME_LIMIT_MS, onProgress?: (index: number) => void): Promise<T> {
     if (this.queue.length >= MAX_QUEUE)
       return Promise.reject(
-        new AppError("throttled", "The structure service is busy with other requests; try again in a few seconds."),
+        new AppError("throttled", "The structure service is busy with other requests; try again in a few seconds.", {
+          extra: { retryAfterSeconds: 5 },
+        }),
       );
     const bulk = task.kind === "import";
     return new Promise<T>((resolve, reject) => {
@@ -153,7 +155,11 @@ class ChemPool {
             // Nobody else can serve the queue if no worker starts: refuse what waits.
             if (this.slots.every((s) => !s.worker && !s.starting))
               for (const j of this.queue.splice(0))
-                j.reject(new AppError("throttled", "The structure service could not start; try again in a minute."));
+                j.reject(
+                  new AppError("throttled", "The structure service could not start; try again in a minute.", {
+                    extra: { retryAfterSeconds: 60 },
+                  }),
+                );
           },
         );
         continue;

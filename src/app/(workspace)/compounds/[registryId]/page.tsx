@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { pageUser } from "@/server/auth/page-guard";
+import { pageParam, pageUser } from "@/server/auth/page-guard";
 import { canWriteCompounds, compoundScope } from "@/server/auth/compound-access";
 import { AppError } from "@/server/errors";
 import {
@@ -105,7 +105,7 @@ export default async function CompoundPage({ params }: { params: Promise<{ regis
   const { registryId } = await params;
   let c: CompoundDetail;
   try {
-    c = await getCompound(await compoundScope(user), decodeURIComponent(registryId));
+    c = await getCompound(await compoundScope(user), pageParam("registryId", registryId));
   } catch (e) {
     if (e instanceof AppError && e.code === "not_found") notFound();
     throw e;

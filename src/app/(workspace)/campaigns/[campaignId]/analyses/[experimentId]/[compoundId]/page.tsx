@@ -1,7 +1,7 @@
 import { engineOptionsFrom } from "@/lib/analysis/settings";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { pageCampaign } from "@/server/auth/page-guard";
+import { pageCampaign, pageParam } from "@/server/auth/page-guard";
 import { AppError } from "@/server/errors";
 import {
   analysisHistory,
@@ -52,7 +52,7 @@ export default async function CompoundResultPage({
     throw e;
   };
   const experiment = await getExperiment(campaignId, experimentId).catch(notFoundOnApp);
-  const r = await compoundResultDetail(experimentId, decodeURIComponent(compoundId)).catch(notFoundOnApp);
+  const r = await compoundResultDetail(experimentId, pageParam("compoundId", compoundId)).catch(notFoundOnApp);
   const [current, pending, runs, history] = await Promise.all([
     getAnalysis(campaignId, r.analysisId).catch(notFoundOnApp),
     currentInputs(campaign, experiment),
