@@ -5,7 +5,8 @@ import { Worker } from "node:worker_threads";
 import { AppError } from "@/server/errors";
 import type { ReaderExportResult } from "@/lib/plates/reader-export";
 import type { ImportParseResult } from "@/lib/chem/import-types";
-import type { UploadParseTask } from "./upload-parse";
+import type { PlateMapParseResult } from "@/lib/plates/plate-map";
+import type { UploadParseOutcome, UploadParseTask } from "./upload-parse";
 
 /**
  * Uploads are parsed in worker threads, never in the server's own thread: a small pool (two
@@ -21,7 +22,7 @@ const POOL_SIZE = 2;
 const MAX_QUEUED = 16;
 const WORKER_DIR = path.join(process.cwd(), "src", "server", "workers");
 
-type Result = ReaderExportResult | ImportParseResult;
+type Result = UploadParseOutcome;
 type Job = {
   task: UploadParseTask;
   label: string;
@@ -160,6 +161,11 @@ export function parseInWorker(
   label: string,
   opts?: { timeLimitMs?: number },
 ): Promise<ImportParseResult>;
+export function parseInWorker(
+  task: Extract<UploadParseTask, { kind: "plate-map-csv" | "plate-map-json" }>,
+  label: string,
+  opts?: { timeLimitMs?: number },
+): Promise<PlateMapParseResult>;
 export function parseInWorker(
   task: UploadParseTask,
   label: string,

@@ -7,15 +7,17 @@ import { emptyResult, type ImportFormat, type ImportParseResult } from "@/lib/ch
 import { parseCsvImport } from "@/lib/chem/import-table";
 import { parseSdfImport } from "@/lib/chem/import-sdf";
 import { decodeText } from "@/lib/plates/text-table";
+import { parsePlateMapCsv, plateMapFromJson, type PlateMapParseResult } from "@/lib/plates/plate-map";
+import type { PlateFormat } from "@/lib/plates/geometry";
 import { guardXlsxZip, MAX_INFLATED_BYTES } from "./zip-guard";
 
 export type UploadParseTask =
   | { kind: "plate-export"; bytes: Uint8Array; fileName: string; options: ParseExportOptions }
-  | { kind: "compound-import"; bytes: Uint8Array; format: ImportFormat };
+  | { kind: "compound-import"; bytes: Uint8Array; format: ImportFormat }
+  | { kind: "plate-map-csv"; bytes: Uint8Array; fileName: string; format: PlateFormat }
+  | { kind: "plate-map-json"; json: string };
 
-export type UploadParseResult<T extends UploadParseTask> = T extends { kind: "plate-export" }
-  ? ReaderExportResult
-  : ImportParseResult;
+export type UploadParseOutcome = ReaderExportResult | ImportParseResult | PlateMapParseResult;
 
 const LIMITS = { maxInflatedBytes: MAX_INFLATED_BYTES, maxRows: MAX_XLSX_ROWS, maxColumns: MAX_XLSX_COLUMNS };
 
@@ -29,7 +31,17 @@ function nulLine(bytes: Uint8Array): number {
   return line;
 }
 
-export async function runUploadParse(task: UploadParseTask): Promise<ReaderExportResult | ImportParseResult> {
+export async function runUploadParse(task: UploadParseTask): Promise<UploadParseOutcome> {
+  if (task.kind === "plate-map-csv") return parsePlateMapCsv(task.bytes, task.format, task.fileName);
+  if (task.kind === "plate-map-json") {
+    let raw: unknown;
+    try {
+      raw = JSON.parse(task.json);
+    } catch {
+      return { ok: false, issues: [issue({}, "The plate map could not be read (it is not JSON).")] };
+    }
+    return plateMapFromJson(raw);
+  }
   if (task.kind === "plate-export") {
     if (isZip(task.bytes)) {
       const g = await guardXlsxZip(task.bytes, LIMITS);
@@ -42,12 +54,20 @@ export async function runUploadParse(task: UploadParseTask): Promise<ReaderExpor
     const nul = nulLine(task.bytes);
     if (nul)
       return emptyResult(task.format, [`Line ${nul} contains a NUL character; the file looks like binary data.`]);
-    return task.format === "csv" ? parseCsvImport(task.bytes) : parseSdfImport(task.bytes);
+    return withoutRejected(task.format === "csv" ? parseCsvImport(task.bytes) : parseSdfImport(task.bytes));
   }
   if (isZip(task.bytes)) {
     const g = await guardXlsxZip(task.bytes, LIMITS);
     if (!g.ok) return emptyResult("xlsx", [`The ${g.message}.`]);
   }
   const { parseXlsxImport } = await import("@/lib/chem/import-xlsx");
-  return parseXlsxImport(task.bytes);
+  return withoutRejected(await parseXlsxImport(task.bytes));
+}
+
+/**
+ * The raw values of rejected records stay in the worker: nothing stores them (the preview and the
+ * report give field and reason), and a 20 MB cell would otherwise be copied to the server's thread.
+ */
+function withoutRejected(r: ImportParseResult): ImportParseResult {
+  return { ...r, rejected: [] };
 }

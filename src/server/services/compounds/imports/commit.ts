@@ -107,6 +107,7 @@ export async function commitImport(actor: Actor & ImportReader, id: string, mode
         name: x.data.name ?? null,
       })),
       notRegistered: notRegisteredFrom([...preview.issues, ...late].sort((a, b) => a.record - b.record)),
+      ...(preview.issuesNotStored ? { notListed: preview.issuesNotStored } : {}),
     };
     await tx
       .update(compoundImports)

@@ -5,25 +5,14 @@ import { db } from "@/server/db/client";
 import { compoundImportRows, compoundImports, compounds } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import { getObject } from "@/server/storage/s3";
-import {
-  MAX_IMPORT_RECORDS,
-  type ImportFormat,
-  type ImportIssue,
-  type ImportParseResult,
-} from "@/lib/chem/import-types";
-import { parseCsvImport } from "@/lib/chem/import-table";
-import { parseSdfImport } from "@/lib/chem/import-sdf";
+import { capMessage } from "@/server/workers/upload-refusal";
+import { parseInWorker } from "@/server/workers/upload-parse-pool";
+import { MAX_IMPORT_RECORDS, type ImportIssue, type ImportParseResult } from "@/lib/chem/import-types";
 import type { PreparedRecord } from "@/lib/chem/import-prepare";
 import { prepareAll } from "../prepare-pool";
 import type { PreparedCompound } from "../write";
+import { capIgnoredFields, capIssues } from "./caps";
 import type { ImportPreview } from "./types";
-
-async function parseFile(format: ImportFormat, bytes: Uint8Array): Promise<ImportParseResult> {
-  if (format === "csv") return parseCsvImport(bytes);
-  if (format === "sdf") return parseSdfImport(bytes);
-  const { parseXlsxImport } = await import("@/lib/chem/import-xlsx");
-  return parseXlsxImport(bytes);
-}
 
 function toPrepared(p: PreparedRecord): PreparedCompound {
   const hasBatch = !!p.batch && Object.values(p.batch).some((v) => v !== undefined);
@@ -40,11 +29,13 @@ function toPrepared(p: PreparedRecord): PreparedCompound {
 }
 
 /**
- * Step 2, in the background: read the stored file back (checking its SHA-256), parse it, prepare
- * every record (progress written to the job row), check the structures against the registry and
- * keep the prepared records beside the job. Any failure marks the job failed with a sentence.
+ * Step 2, in the background: take the file's records (the parse made in the upload-parse pool
+ * when the file was stored; without one, the stored file is read back, its SHA-256 checked and
+ * parsed in the pool), prepare every record (progress written to the job row), check the
+ * structures against the registry and keep the prepared records beside the job. Problems are
+ * stored capped (caps.ts). Any failure marks the job failed with a sentence.
  */
-export async function prepareJob(id: string): Promise<void> {
+export async function prepareJob(id: string, given?: { parsed: ImportParseResult; parseMs: number }): Promise<void> {
   const t0 = performance.now();
   try {
     const [job] = await db
@@ -52,16 +43,25 @@ export async function prepareJob(id: string): Promise<void> {
       .set({ status: "preparing", updatedAt: new Date() })
       .where(eq(compoundImports.id, id))
       .returning();
-    const bytes = await getObject(job!.s3Key);
-    const check = crypto.createHash("sha256").update(bytes).digest("hex");
-    if (check !== job!.sha256) throw new AppError("internal", "The stored file does not match its checksum.");
-    const tParse = performance.now();
-    const parsed = await parseFile(job!.format, bytes);
-    const parseMs = performance.now() - tParse;
+    let parsed: ImportParseResult;
+    let parseMs: number;
+    if (given) ({ parsed, parseMs } = given);
+    else {
+      const bytes = await getObject(job!.s3Key);
+      const check = crypto.createHash("sha256").update(bytes).digest("hex");
+      if (check !== job!.sha256) throw new AppError("internal", "The stored file does not match its checksum.");
+      const tParse = performance.now();
+      parsed = await parseInWorker({ kind: "compound-import", bytes, format: job!.format }, job!.fileName);
+      parseMs = performance.now() - tParse;
+    }
     if (parsed.fileErrors.length > 0) {
       await db
         .update(compoundImports)
-        .set({ status: "failed", error: `${job!.fileName}: ${parsed.fileErrors.join(" ")}`, updatedAt: new Date() })
+        .set({
+          status: "failed",
+          error: capMessage(`${job!.fileName}: ${parsed.fileErrors.join(" ")}`),
+          updatedAt: new Date(),
+        })
         .where(eq(compoundImports.id, id));
       return;
     }
@@ -135,15 +135,19 @@ export async function prepareJob(id: string): Promise<void> {
     issues.sort((a, b) => a.record - b.record || a.line - b.line);
     const invalidRecords = [...new Set(issues.map((i) => i.record))].sort((a, b) => a - b);
     const checkMs = performance.now() - tCheck;
+    const storedIssues = capIssues(issues);
+    const storedWarnings = capIssues(prep.warnings);
     const preview: ImportPreview = {
       format: parsed.format,
       totalRecords: parsed.totalRecords,
       valid: good.length,
       invalid: invalidRecords.length,
       invalidRecords,
-      issues,
-      warnings: prep.warnings,
-      ignoredFields: parsed.ignoredFields,
+      issues: storedIssues.kept,
+      issuesNotStored: storedIssues.notStored,
+      warnings: storedWarnings.kept,
+      warningsNotStored: storedWarnings.notStored,
+      ignoredFields: capIgnoredFields(parsed.ignoredFields),
       sample: good.slice(0, 50).map((p) => ({
         record: p.recordNo,
         line: p.line,
@@ -182,7 +186,7 @@ export async function prepareJob(id: string): Promise<void> {
   } catch (e) {
     const message =
       e instanceof AppError && e.code !== "internal"
-        ? e.message
+        ? capMessage(e.message)
         : "Preparing the file failed on our side; the error has been logged. Try again, or split the file.";
     console.error("[inhibitrack] compound import preparation failed", id, e);
     await db

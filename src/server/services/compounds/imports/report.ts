@@ -6,7 +6,8 @@ const HEADER = ["record", "line", "outcome", "registry_id", "name", "field", "re
 
 /**
  * The downloadable report: one line per record that was registered (with its registry ID) or
- * not (with the field and the reason). Before the commit it lists the preview's problems. Written
+ * not (with the field and the reason). Before the commit it lists the preview's problems (as stored:
+ * capped, with a last line counting those not kept). Written
  * by the one CSV writer (CRLF, formula-like text neutralised).
  */
 export function importReportCsv(job: ImportJob): string {
@@ -27,9 +28,18 @@ export function importReportCsv(job: ImportJob): string {
       });
   }
   out.sort((a, b) => a.record - b.record);
-  return toCsv(
-    HEADER,
-    out.map((l) => l.cells),
-    { eol: "\r\n" },
-  );
+  // Problems past the stored caps were counted, not kept: the report says so on its last line.
+  const notKept = result ? (result.notListed ?? 0) : (preview?.issuesNotStored ?? 0);
+  const cells = out.map((l) => l.cells);
+  if (notKept > 0)
+    cells.push([
+      "",
+      "",
+      "problems not stored",
+      "",
+      "",
+      "",
+      `${notKept} more problem${notKept === 1 ? "" : "s"} were found but not stored (too many to keep); fix the ones listed and upload the file again.`,
+    ]);
+  return toCsv(HEADER, cells, { eol: "\r\n" });
 }

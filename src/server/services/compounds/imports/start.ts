@@ -64,7 +64,7 @@ export async function startImport(
   const s3Key = importS3Key(sha256);
   const contentType = input.contentType || "application/octet-stream";
   await putObject(s3Key, input.bytes, contentType, sha256);
-  // Parsed first off the request thread with the upload limits: a tripped limit is refused (400)
+  // Parsed once, off the request thread with the upload limits: a tripped limit is refused (400)
   // and its stored copy goes unless another import uses the same bytes; a file that cannot be
   // imported at all becomes a failed job with its (capped) sentence, without a preparation.
   const check = await checkImportFile(fileName, format, input.bytes);
@@ -97,8 +97,11 @@ export async function startImport(
       })
       .returning(),
   );
-  if (check.error) return { job: job!, done: Promise.resolve() };
-  const done = prepareJob(job!.id).finally(() => running.delete(job!.id));
+  if (check.error || !check.parsed) return { job: job!, done: Promise.resolve() };
+  // The worker's parse is the one parse: the preparation takes its records as they are.
+  const done = prepareJob(job!.id, { parsed: check.parsed, parseMs: check.parseMs ?? 0 }).finally(() =>
+    running.delete(job!.id),
+  );
   running.set(job!.id, done);
   return { job: job!, done };
 }

@@ -5,7 +5,7 @@ import type { ImportFormat, ImportIssue } from "@/lib/chem/import-types";
 export type ImportMode = "all_or_nothing" | "valid_only";
 export type ImportJob = typeof compoundImports.$inferSelect;
 
-/** What the preview shows: counts, every per-record issue (record, line, field, reason) and warnings. */
+/** What the preview shows: counts, the per-record issues (record, line, field, reason) and warnings, capped. */
 export type ImportPreview = {
   format: ImportFormat;
   totalRecords: number;
@@ -13,8 +13,12 @@ export type ImportPreview = {
   invalid: number;
   /** Record numbers that cannot be registered, ascending. */
   invalidRecords: number[];
+  /** The stored problems: the first ones, each field and message capped (caps.ts). */
   issues: ImportIssue[];
+  /** Problems found but not stored (past the caps); absent in jobs prepared before the caps. */
+  issuesNotStored?: number;
   warnings: ImportIssue[];
+  warningsNotStored?: number;
   ignoredFields: string[];
   /** A sample of the valid records for the preview table. */
   sample: { record: number; line: number; name: string | null; smiles: string; formula: string; mw: number }[];
@@ -28,4 +32,6 @@ export type ImportResult = {
   mode: ImportMode;
   registered: { record: number; line: number; registryId: string; name: string | null }[];
   notRegistered: { record: number; line: number; field: string; reason: string }[];
+  /** Problems of the preview that were not stored (past its caps), so not listed in `notRegistered`. */
+  notListed?: number;
 };

@@ -141,7 +141,10 @@ export function ImportJob({ id, canWrite }: { id: string; canWrite: boolean }) {
               </div>
               {p.issuesTotal > p.issuesShown ? (
                 <p className="mt-1 text-xs text-ink-muted">
-                  First {p.issuesShown} of {p.issuesTotal} problems shown; the report lists them all.
+                  First {p.issuesShown} of {p.issuesTotal} problems shown;{" "}
+                  {p.issuesNotStored > 0
+                    ? `${p.issuesNotStored} more were found but not kept (too many to store): fix the ones listed and upload the file again.`
+                    : "the report lists them all."}
                 </p>
               ) : null}
             </>
