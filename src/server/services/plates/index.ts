@@ -2,6 +2,7 @@ import "server-only";
 /** Plate use cases: plate maps, uploads of reader exports, QC review (masks, decisions), and reading runs back. */
 export { issueDetails } from "./errors";
 export { createPlateMap, getPlateMap, listPlateMaps, updatePlateMap, type PlateMapInput } from "./plate-maps";
+export { readPlateMapCsv, readPlateMapJson } from "./plate-maps-import";
 export {
   previewRun,
   s3KeyFor,

@@ -3,7 +3,7 @@
 // The plates are INVENTED data (fixtures/plates/README.md; test helpers in src/test/plates.ts).
 import { describe, it, expect, beforeAll } from "vitest";
 import { eq } from "drizzle-orm";
-import { makeWorld, type World } from "@/test/harness";
+import { callAction, makeWorld, type World } from "@/test/harness";
 import { campaignRow, registryIds, smallExport, smallMap } from "@/test/plates";
 import { bytesOf, counts, dir, plateRoutes, truth } from "@/test/plate-routes";
 import { ensureCompoundsRegistered } from "@/test/compounds";
@@ -12,6 +12,8 @@ import { plateMaps } from "@/server/db/schema";
 import { AppError } from "@/server/errors";
 import { createPlateMap, updatePlateMap, uploadRun } from ".";
 import { plateMapToCsv } from "@/lib/plates";
+import { liveParseWorkers } from "@/server/workers/upload-parse-pool";
+import * as plateActions from "@/app/(workspace)/campaigns/[campaignId]/plates/actions";
 
 let w: World;
 beforeAll(async () => {
@@ -105,6 +107,37 @@ describe("plate maps", () => {
     expect(e.message).toBe(
       "Plate runs were uploaded against this plate map, so it is kept as it was. Save your changes as a new plate map.",
     );
+  });
+
+  it("reads the CSV and the editor's JSON in the upload-parse pool, with the same answers", async () => {
+    // Nothing in this file starts a parse worker but the plate-map reads (the first test imported a map).
+    expect(liveParseWorkers()).toBeGreaterThan(0);
+    const before = await counts();
+    const hostile = await postMap("Hostile header (invented)", 96, new TextEncoder().encode("w".repeat(1900 * 1024)));
+    expect(hostile.status).toBe(400);
+    expect((hostile.json as { error: string }).error.length).toBeLessThan(2100);
+    const bad = await callAction(
+      plateActions.savePlateMapAction,
+      { campaignId: w.campaignId, name: "Editor map (invented)", signalDirection: "falls", mapJson: "{not json" },
+      w.people.assay,
+    );
+    expect(bad).toMatchObject({
+      kind: "state",
+      state: { ok: false, error: "The plate map could not be read (it is not JSON)." },
+    });
+    expect(await counts()).toEqual(before);
+    const m = smallMap();
+    const good = await callAction(
+      plateActions.savePlateMapAction,
+      {
+        campaignId: w.campaignId,
+        name: "Editor map (invented)",
+        signalDirection: "falls",
+        mapJson: JSON.stringify({ format: 96, wells: m.wells.filter((x) => x.role !== "empty") }),
+      },
+      w.people.assay,
+    );
+    expect(good).toMatchObject({ kind: "state", state: { ok: true } });
   });
 
   it("refuses a second plate map with the same name (409)", async () => {

@@ -2,17 +2,16 @@
 import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { formAction } from "@/server/action";
-import { AppError } from "@/server/errors";
 import { requireCampaign } from "@/server/auth/guard";
 import {
   createPlateMap,
   decideRun,
   issueDetails,
   maskWell,
+  readPlateMapJson,
   unmaskWell,
   updatePlateMap,
 } from "@/server/services/plates";
-import { plateMapFromJson } from "@/lib/plates";
 import { REVIEW_DECISIONS, SIGNAL_DIRECTIONS } from "@/lib/plates/run-qc";
 
 const id = z.string().uuid();
@@ -35,13 +34,7 @@ const saveMapSchema = z.object({
 /** Save the plate map from the editor (new, or an existing one no run has used). */
 export const savePlateMapAction = formAction(saveMapSchema, async (input) => {
   const { user } = await requireCampaign(input.campaignId, "plate:write");
-  let raw: unknown;
-  try {
-    raw = JSON.parse(input.mapJson);
-  } catch {
-    throw new AppError("bad_request", "The plate map could not be read.");
-  }
-  const parsed = plateMapFromJson(raw);
+  const parsed = await readPlateMapJson(input.mapJson);
   if (!parsed.ok) {
     const d = issueDetails(parsed.issues);
     return {

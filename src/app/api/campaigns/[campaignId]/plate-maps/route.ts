@@ -2,8 +2,7 @@ import { requireCampaign } from "@/server/auth/guard";
 import { json, route } from "@/server/http";
 import { readMultipart } from "@/server/multipart";
 import { AppError } from "@/server/errors";
-import { createPlateMap, issueDetails, listPlateMaps } from "@/server/services/plates";
-import { parsePlateMapCsv } from "@/lib/plates";
+import { createPlateMap, listPlateMaps, readPlateMapCsv } from "@/server/services/plates";
 import { createPlateMapForm } from "./schema";
 
 export const dynamic = "force-dynamic";
@@ -23,14 +22,10 @@ export const POST = route<{ campaignId: string }>(async (req, { campaignId }) =>
   const form = await readMultipart(req, createPlateMapForm, MAP_CSV_LIMIT);
   if (form.file.size > MAP_CSV_LIMIT)
     throw new AppError("too_large", `${form.file.name}: a plate map CSV has at most 2 MB.`);
-  const parsed = parsePlateMapCsv(new Uint8Array(await form.file.arrayBuffer()), form.format, form.file.name);
-  if (!parsed.ok) {
-    const more = parsed.issues.length > 1 ? ` (and ${parsed.issues.length - 1} more)` : "";
-    throw new AppError("bad_request", `${parsed.issues[0]!.text}${more}`, { details: issueDetails(parsed.issues) });
-  }
+  const map = await readPlateMapCsv(new Uint8Array(await form.file.arrayBuffer()), form.format, form.file.name);
   const { id } = await createPlateMap(user, campaignId, {
     name: form.name,
-    map: parsed.map,
+    map,
     isTemplate: form.template,
     signalDirection: form.signalDirection,
   });
