@@ -577,6 +577,23 @@ export async function hostileCorpus(): Promise<HostileFile[]> {
   );
   add("smiles-1e308-fields.csv", "smiles,name,purity (%),amount (mg)\nCCO,e,1e308,-1e308\n", "1e308 in numeric fields");
   add("smiles-dup-columns.csv", "smiles,SMILES,name\nCCO,CCO,x\n", "two structure columns");
+  add(
+    "smiles-20mb-and-bad-rows.csv",
+    "smiles,name,purity_pct,amount,batch_date,stock_volume_ul\n" +
+      "C".repeat(20 * MB) +
+      ",huge,,,,\n" +
+      Array.from({ length: 9_999 }, (_, i) => `,bad-${i},abc,-5,2024-13-45,-1`).join("\n"),
+    "a 20 MB SMILES and 9,999 records with several problems each (stored problems capped)",
+  );
+
+  // Plate-map CSVs just under that endpoint's 2 MB cap, so they are parsed, not refused for size.
+  add("map-header-1900kb.csv", "w".repeat(1900 * 1024) + "\nA1,sample\n", "a 1.9 MB header line");
+  add(
+    "map-90000-rows.csv",
+    "well,role,compound\n" + "A1,sample,INH-000001\n".repeat(90_000),
+    "90,000 rows of one well",
+  );
+  add("map-quotes-1900kb.csv", '"' + '""'.repeat(950 * 1024) + '"\n', "one 1.9 MB quoted cell of escaped quotes");
 
   // Path-like, long and odd names on ordinary content.
   const plain = csvPlate(() => "100");

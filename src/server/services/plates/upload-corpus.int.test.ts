@@ -28,6 +28,8 @@ import * as healthRoute from "@/app/api/health/route";
 /** Generous: the goal (1 s) is met with room on an idle machine; this catches a stalled server. */
 const HEALTH_BOUND_MS = 3000;
 const MAX_ERROR_CHARS = 2048 + 20;
+/** A job's stored preview: 256 KiB of problems at most, plus counts, record numbers and a sample. */
+const MAX_PREVIEW_BYTES = 600_000;
 
 let w: World;
 let mapId = "";
@@ -182,6 +184,12 @@ describe("the hostile corpus against every upload endpoint", () => {
             const [job] = await db.select().from(compoundImports).where(eq(compoundImports.id, body.id));
             note = `job ${job?.status}${job?.error ? `: ${job.error.slice(0, 120)}` : ""}`;
             expect((job?.error ?? "").length, where).toBeLessThanOrEqual(MAX_ERROR_CHARS);
+            // What the job keeps of a hostile file's problems is bounded (imports/caps.ts).
+            const [size] = await db.execute<{ preview: number }>(
+              sql`select coalesce(octet_length(preview::text), 0)::int as preview from compound_imports where id = ${body.id}`,
+            );
+            expect(size!.preview, `${where}: preview stored as ${size!.preview} bytes`).toBeLessThan(MAX_PREVIEW_BYTES);
+            if (size!.preview > 0) note += ` (preview ${size!.preview} bytes)`;
           }
           outcomes.push(`${r.status} ${timing} ${where} accepted ${note}`);
         }
