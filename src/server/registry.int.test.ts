@@ -23,7 +23,6 @@ import { db } from "@/server/db/client";
 import { compounds, hitRows, memberships, plateMaps } from "@/server/db/schema";
 
 import * as health from "@/app/api/health/route";
-import * as openapiDoc from "@/app/api/openapi.json/route";
 import * as me from "@/app/api/me/route";
 import * as campaignsRoute from "@/app/api/campaigns/route";
 import * as authActions from "@/app/(auth)/actions";
@@ -69,6 +68,19 @@ import * as digestRoute from "@/app/api/campaigns/[campaignId]/digest/route";
 import * as digestLogRoute from "@/app/api/campaigns/[campaignId]/digest/log/route";
 import * as digestActions from "@/app/(workspace)/campaigns/[campaignId]/digest/actions";
 import * as stopDigest from "@/app/(auth)/digest/actions";
+// Issue 16 (2b) routes
+import * as compoundBatchesRoute from "@/app/api/compounds/[registryId]/batches/route";
+import * as compoundStocksRoute from "@/app/api/compounds/[registryId]/batches/[batchNumber]/stocks/route";
+import * as librariesRoute from "@/app/api/libraries/route";
+import * as libraryRoute from "@/app/api/libraries/[libraryId]/route";
+import * as libraryMembersRoute from "@/app/api/libraries/[libraryId]/members/route";
+import * as libraryMemberRoute from "@/app/api/libraries/[libraryId]/members/[registryId]/route";
+import * as thresholdsRoute from "@/app/api/campaigns/[campaignId]/thresholds/route";
+import * as membersRoute from "@/app/api/campaigns/[campaignId]/members/route";
+import * as memberRoute from "@/app/api/campaigns/[campaignId]/members/[userId]/route";
+import * as auditRoute from "@/app/api/audit/route";
+import * as myDigestRoute from "@/app/api/me/digest/route";
+// End of issue 16 (2b) routes
 
 type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
 
@@ -79,7 +91,6 @@ const route =
 
 const invokers: Record<string, Invoke> = {
   "src/app/api/health/route.ts#GET": route(health.GET, "/api/health"),
-  "src/app/api/openapi.json/route.ts#GET": route(openapiDoc.GET, "/api/openapi.json"),
   "src/app/api/me/route.ts#GET": route(me.GET, "/api/me"),
   "src/app/api/campaigns/route.ts#GET": route(campaignsRoute.GET, "/api/campaigns"),
   "src/app/(auth)/actions.ts#signInAction": async (actor, w) => {
@@ -766,6 +777,174 @@ const invokers: Record<string, Invoke> = {
     deniedAction(
       await callAction(stopDigest.stopDigestAction, { token: "not-a-valid-token.at-all" }, userOf(w, actor)),
     ),
+  // Issue 16 (2b): allowed callers get 2xx with valid input; refused ones 401/403/404.
+  "src/app/api/compounds/[registryId]/route.ts#PATCH": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    const r = await callRoute(compoundRoute.PATCH, {
+      user: userOf(w, actor),
+      method: "PATCH",
+      path: `/api/compounds/${registryId}`,
+      params: { registryId },
+      body: { name: `Renamed by ${actor} (invented)` },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/compounds/[registryId]/batches/route.ts#GET": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    const path = `/api/compounds/${registryId}/batches`;
+    return deniedRoute(
+      (await callRoute(compoundBatchesRoute.GET, { user: userOf(w, actor), path, params: { registryId } })).status,
+    );
+  },
+  "src/app/api/compounds/[registryId]/batches/route.ts#POST": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    const r = await callRoute(compoundBatchesRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/compounds/${registryId}/batches`,
+      params: { registryId },
+      body: { batch: { supplier: `Supplier ${actor} (invented)`, purityPct: 97 } },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/compounds/[registryId]/batches/[batchNumber]/stocks/route.ts#GET": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    const params = { registryId, batchNumber: "1" };
+    const path = `/api/compounds/${registryId}/batches/1/stocks`;
+    return deniedRoute((await callRoute(compoundStocksRoute.GET, { user: userOf(w, actor), path, params })).status);
+  },
+  "src/app/api/compounds/[registryId]/batches/[batchNumber]/stocks/route.ts#POST": async (actor, w) => {
+    const { registryId } = await compoundsWorld(w);
+    const r = await callRoute(compoundStocksRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/compounds/${registryId}/batches/1/stocks`,
+      params: { registryId, batchNumber: "1" },
+      body: { concentrationMm: 10, solvent: "DMSO" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/libraries/route.ts#GET": route(librariesRoute.GET, "/api/libraries"),
+  "src/app/api/libraries/route.ts#POST": async (actor, w) =>
+    deniedRoute(
+      (
+        await callRoute(librariesRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: "/api/libraries",
+          body: { name: `API library ${actor} ${w.tag}` },
+        })
+      ).status,
+    ),
+  "src/app/api/libraries/[libraryId]/route.ts#GET": async (actor, w) => {
+    const { libraryId } = await compoundsWorld(w);
+    const path = `/api/libraries/${libraryId}`;
+    return deniedRoute(
+      (await callRoute(libraryRoute.GET, { user: userOf(w, actor), path, params: { libraryId } })).status,
+    );
+  },
+  "src/app/api/libraries/[libraryId]/members/route.ts#POST": async (actor, w) => {
+    const { registryId, libraryId } = await compoundsWorld(w);
+    const r = await callRoute(libraryMembersRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/libraries/${libraryId}/members`,
+      params: { libraryId },
+      body: { registryIds: [registryId] },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/libraries/[libraryId]/members/[registryId]/route.ts#DELETE": async (actor, w) => {
+    const { registryId, libraryId } = await compoundsWorld(w);
+    await addToLibrary(w.people.admin, libraryId, registryId);
+    const r = await callRoute(libraryMemberRoute.DELETE, {
+      user: userOf(w, actor),
+      method: "DELETE",
+      path: `/api/libraries/${libraryId}/members/${registryId}`,
+      params: { libraryId, registryId },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/route.ts#POST": route(campaignsRoute.POST, "/api/campaigns", "POST", {
+    name: "Matrix API campaign (invented)",
+    targetEnzyme: "Invented enzyme",
+  }),
+  "src/app/api/campaigns/[campaignId]/thresholds/route.ts#GET": async (actor, w) => {
+    const params = { campaignId: w.campaignId };
+    const path = `/api/campaigns/${w.campaignId}/thresholds`;
+    return deniedRoute((await callRoute(thresholdsRoute.GET, { user: userOf(w, actor), path, params })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/thresholds/route.ts#PATCH": async (actor, w) => {
+    const r = await callRoute(thresholdsRoute.PATCH, {
+      user: userOf(w, actor),
+      method: "PATCH",
+      path: `/api/campaigns/${w.campaignId}/thresholds`,
+      params: { campaignId: w.campaignId },
+      body: { qcMinZPrime: 0.5 },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/digest/route.ts#PATCH": async (actor, w) => {
+    const r = await callRoute(digestRoute.PATCH, {
+      user: userOf(w, actor),
+      method: "PATCH",
+      path: `/api/campaigns/${w.campaignId}/digest`,
+      params: { campaignId: w.campaignId },
+      body: { digestHour: 7 },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/members/route.ts#GET": async (actor, w) => {
+    const params = { campaignId: w.campaignId };
+    const path = `/api/campaigns/${w.campaignId}/members`;
+    return deniedRoute((await callRoute(membersRoute.GET, { user: userOf(w, actor), path, params })).status);
+  },
+  "src/app/api/campaigns/[campaignId]/members/route.ts#POST": async (actor, w) => {
+    const r = await callRoute(membersRoute.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/members`,
+      params: { campaignId: w.campaignId },
+      body: { email: `api-invitee-${actor}-${w.tag}@test.invalid`, role: "viewer" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/members/[userId]/route.ts#PATCH": async (actor, w) => {
+    const userId = w.people.viewer.id;
+    const r = await callRoute(memberRoute.PATCH, {
+      user: userOf(w, actor),
+      method: "PATCH",
+      path: `/api/campaigns/${w.campaignId}/members/${userId}`,
+      params: { campaignId: w.campaignId, userId },
+      body: { role: "viewer" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/members/[userId]/route.ts#DELETE": async (actor, w) => {
+    const target = await newTestUser(`api-removable-${actor}`);
+    await db.insert(memberships).values({ campaignId: w.campaignId, userId: target.id, role: "viewer" });
+    const r = await callRoute(memberRoute.DELETE, {
+      user: userOf(w, actor),
+      method: "DELETE",
+      path: `/api/campaigns/${w.campaignId}/members/${target.id}`,
+      params: { campaignId: w.campaignId, userId: target.id },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/audit/route.ts#GET": route(auditRoute.GET, "/api/audit?limit=5"),
+  "src/app/api/me/digest/route.ts#GET": route(myDigestRoute.GET, "/api/me/digest"),
+  "src/app/api/me/digest/route.ts#PUT": async (actor, w) =>
+    deniedRoute(
+      (
+        await callRoute(myDigestRoute.PUT, {
+          user: userOf(w, actor),
+          method: "PUT",
+          path: "/api/me/digest",
+          body: { campaignId: w.campaignId, receive: true },
+        })
+      ).status,
+    ),
+  // End of issue 16 (2b).
 };
 
 function walk(dir: string, out: string[] = []): string[] {

@@ -23,8 +23,6 @@ export type RegistryEntry = {
 export const registry: RegistryEntry[] = [
   // Foundation and accounts
   { id: "src/app/api/health/route.ts#GET", what: "service health (public, no data)", allow: everyone },
-  // API document: public like health (shapes and roles only, no data)
-  { id: "src/app/api/openapi.json/route.ts#GET", what: "the OpenAPI 3.1 document (public, no data)", allow: everyone },
   { id: "src/app/api/me/route.ts#GET", what: "the signed-in user and memberships", allow: signedIn },
   { id: "src/app/api/campaigns/route.ts#GET", what: "campaigns the user belongs to", allow: signedIn },
   { id: "src/app/(auth)/actions.ts#signInAction", what: "sign in (public)", allow: everyone },
@@ -322,6 +320,94 @@ export const registry: RegistryEntry[] = [
     what: "stop the digest from the e-mail's signed link (public)",
     allow: everyone,
   },
+  // Issue 16 (2b), JSON API over the same services as the forms: compounds (batches, stocks,
+  // structure edit), libraries, campaigns, thresholds, digest schedule, team, audit, my digest.
+  {
+    id: "src/app/api/compounds/[registryId]/route.ts#PATCH",
+    what: "edit a compound's structure (with a reason) or names (audited)",
+    allow: ["chemist", "admin"],
+  },
+  {
+    id: "src/app/api/compounds/[registryId]/batches/route.ts#GET",
+    what: "a compound's batches with their stocks (same visibility as the compound)",
+    allow: ["chemist", "admin"],
+  },
+  {
+    id: "src/app/api/compounds/[registryId]/batches/route.ts#POST",
+    what: "add a batch, optionally with a stock (audited)",
+    allow: ["chemist", "admin"],
+  },
+  {
+    id: "src/app/api/compounds/[registryId]/batches/[batchNumber]/stocks/route.ts#GET",
+    what: "one batch's stock solutions (same visibility as the compound)",
+    allow: ["chemist", "admin"],
+  },
+  {
+    id: "src/app/api/compounds/[registryId]/batches/[batchNumber]/stocks/route.ts#POST",
+    what: "record a stock solution of a batch (audited)",
+    allow: ["chemist", "admin"],
+  },
+  { id: "src/app/api/libraries/route.ts#GET", what: "libraries with visible member counts", allow: signedIn },
+  { id: "src/app/api/libraries/route.ts#POST", what: "create a library (audited)", allow: ["chemist", "admin"] },
+  {
+    id: "src/app/api/libraries/[libraryId]/route.ts#GET",
+    what: "a library with the members the reader may see",
+    allow: signedIn,
+  },
+  {
+    id: "src/app/api/libraries/[libraryId]/members/route.ts#POST",
+    what: "add compounds to a library (one transaction, audited)",
+    allow: ["chemist", "admin"],
+  },
+  {
+    id: "src/app/api/libraries/[libraryId]/members/[registryId]/route.ts#DELETE",
+    what: "remove a compound from a library (audited)",
+    allow: ["chemist", "admin"],
+  },
+  { id: "src/app/api/campaigns/route.ts#POST", what: "create a campaign (audited)", allow: ["admin"] },
+  {
+    id: "src/app/api/campaigns/[campaignId]/thresholds/route.ts#GET",
+    what: "the QC and hit thresholds",
+    allow: members,
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/thresholds/route.ts#PATCH",
+    what: "set QC and hit thresholds (audited)",
+    allow: ["lead", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/digest/route.ts#PATCH",
+    what: "set the digest's weekday, hour and zone (audited)",
+    allow: ["lead", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/members/route.ts#GET",
+    what: "the team (leads and admins with e-mails and invitations; others names and roles)",
+    allow: members,
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/members/route.ts#POST",
+    what: "invite a person (audited)",
+    allow: ["admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/members/[userId]/route.ts#PATCH",
+    what: "change a member's role (audited)",
+    allow: ["admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/members/[userId]/route.ts#DELETE",
+    what: "remove a member (audited; their sessions end)",
+    allow: ["admin"],
+  },
+  { id: "src/app/api/audit/route.ts#GET", what: "read the audit log (paged, filtered)", allow: ["admin"] },
+  { id: "src/app/api/me/digest/route.ts#GET", what: "my digest setting per campaign", allow: signedIn },
+  {
+    id: "src/app/api/me/digest/route.ts#PUT",
+    what: "stop or resume my digest of a campaign of mine (audited)",
+    allow: members,
+  },
+  // End of issue 16 (2b).
 ];
 
 export const registryGroups = { everyone, signedIn, members };

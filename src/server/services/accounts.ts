@@ -146,8 +146,9 @@ export async function invite(
   campaignId: string,
   email: string,
   role: CampaignRole,
-): Promise<{ id: string; link: string }> {
+): Promise<{ id: string; link: string; expiresAt: Date }> {
   const { token, hash } = newToken();
+  const expiresAt = new Date(Date.now() + INVITE_HOURS * 3600_000);
   const campaign = await db.query.campaigns.findFirst({ where: eq(campaigns.id, campaignId) });
   if (!campaign) throw new AppError("not_found", "No such campaign.");
   const id = await db.transaction(async (tx) => {
@@ -159,7 +160,7 @@ export async function invite(
         role,
         tokenHash: hash,
         invitedBy: actor.id,
-        expiresAt: new Date(Date.now() + INVITE_HOURS * 3600_000),
+        expiresAt,
       })
       .returning({ id: invitations.id });
     await audit(tx, actor, {
@@ -178,7 +179,7 @@ export async function invite(
     text: `${actor.name} invited you to the campaign "${campaign.name}" (target: ${campaign.targetEnzyme}) as ${roleLabels[role]}.\n\nAccept within ${INVITE_HOURS} hours: ${link}\n\nThe link works once.`,
     html: `<p>${escapeHtml(actor.name)} invited you to the campaign <b>${escapeHtml(campaign.name)}</b> (target: ${escapeHtml(campaign.targetEnzyme)}) as ${roleLabels[role]}.</p><p><a href="${link}">Accept the invitation</a> within ${INVITE_HOURS} hours. The link works once.</p>`,
   });
-  return { id, link };
+  return { id, link, expiresAt };
 }
 
 export async function findInvitation(token: string) {

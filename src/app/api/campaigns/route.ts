@@ -1,6 +1,7 @@
-import { requireUser } from "@/server/auth/guard";
-import { campaignsFor } from "@/server/services/campaigns";
-import { json, route } from "@/server/http";
+import { requireAdmin, requireUser } from "@/server/auth/guard";
+import { campaignsFor, createCampaign } from "@/server/services/campaigns";
+import { json, parseJson, route } from "@/server/http";
+import { PostCampaignBody } from "./schema";
 
 export const dynamic = "force-dynamic";
 
@@ -17,4 +18,13 @@ export const GET = route(async () => {
       createdAt: c.createdAt.toISOString(),
     })),
   });
+});
+
+/** Creates a campaign (administrators; audited). 201 `{ id, name, targetEnzyme }`; members are then invited. */
+export const POST = route(async (req) => {
+  await requireUser();
+  const body = await parseJson(req, PostCampaignBody);
+  const user = await requireAdmin();
+  const id = await createCampaign(user, body);
+  return json({ id, name: body.name, targetEnzyme: body.targetEnzyme }, 201);
 });

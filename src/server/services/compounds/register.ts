@@ -156,27 +156,31 @@ export async function addBatch(
   });
 }
 
-/** Records a stock solution made from batch `batchNumber` of a compound. */
+/** Records a stock solution made from batch `batchNumber` of a compound; returns the new stock's id. */
 export async function addStock(
   actor: Actor,
   registryId: string,
   batchNumber: number,
   stock: StockInput,
-): Promise<void> {
-  await db.transaction(async (tx) => {
+): Promise<{ id: string }> {
+  return db.transaction(async (tx) => {
     const c = await compoundByRegistryId(tx, registryId);
     const [b] = await tx
       .select({ id: compoundBatches.id })
       .from(compoundBatches)
       .where(and(eq(compoundBatches.compoundId, c.id), eq(compoundBatches.batchNumber, batchNumber)));
     if (!b) throw new AppError("not_found", `${c.registryId} has no batch ${batchNumber}.`);
-    await tx.insert(stockSolutions).values(stockValues(b.id, stock, actor));
+    const [row] = await tx
+      .insert(stockSolutions)
+      .values(stockValues(b.id, stock, actor))
+      .returning({ id: stockSolutions.id });
     await audit(tx, actor, {
       action: "compound.stock.add",
       entityType: "compound",
       entityId: c.registryId,
       after: { batchNumber, ...stock },
     });
+    return { id: row!.id };
   });
 }
 

@@ -1,8 +1,8 @@
-import { requireCampaign } from "@/server/auth/guard";
-import { json, route } from "@/server/http";
-import { previewDigest, sendCampaignDigest } from "@/server/services/digest";
+import { requireCampaign, requireUser } from "@/server/auth/guard";
+import { json, parseJson, route } from "@/server/http";
+import { previewDigest, sendCampaignDigest, setSchedule } from "@/server/services/digest";
 import { AppError } from "@/server/errors";
-import { postBody } from "./schema";
+import { PatchDigestBody, postBody } from "./schema";
 
 export const dynamic = "force-dynamic";
 
@@ -27,4 +27,21 @@ export const POST = route<{ campaignId: string }>(async (req, { campaignId }) =>
   }
   const summary = await sendCampaignDigest(campaignId, { trigger: "send-now", actor: user });
   return json(summary);
+});
+
+/**
+ * Sets when the weekly digest goes out (lead or admin; audited): the ISO weekday, the local hour
+ * and the campaign's time zone. Fields left out keep their value; answers the whole schedule.
+ */
+export const PATCH = route<{ campaignId: string }>(async (req, { campaignId }) => {
+  await requireUser();
+  const body = await parseJson(req, PatchDigestBody);
+  const { user, campaign } = await requireCampaign(campaignId, "digest:send");
+  const s = {
+    digestWeekday: body.digestWeekday ?? campaign.digestWeekday,
+    digestHour: body.digestHour ?? campaign.digestHour,
+    timeZone: body.timeZone ?? campaign.timeZone,
+  };
+  await setSchedule(user, campaignId, s);
+  return json(s);
 });

@@ -1,0 +1,14 @@
+import { z } from "zod";
+import { email, roleSchema } from "@/lib/validation/auth";
+
+/** Body of POST /api/campaigns/{campaignId}/members: invite a person by e-mail with a campaign role. */
+export const PostMemberBody = z.strictObject({ email, role: roleSchema });
+
+/** Path of …/members/{userId}. */
+export const memberParams = z.object({
+  campaignId: z.string().uuid(),
+  userId: z.string().trim().min(1, "userId is empty.").max(100, "userId is too long."),
+});
+
+/** Body of PATCH …/members/{userId}: the member's new campaign role. */
+export const PatchMemberBody = z.strictObject({ role: roleSchema });
