@@ -54,6 +54,15 @@ import * as resultsRoute from "@/app/api/campaigns/[campaignId]/experiments/[exp
 import * as analysisRetryRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/analyses/[analysisId]/retry/route";
 import * as analysisActions from "@/app/(workspace)/campaigns/[campaignId]/analyses/actions";
 import { analysesWorld } from "@/test/analyses";
+import * as plateRunDecision from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/decision/route";
+import * as plateRunMasks from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/masks/route";
+import * as plateRunMask from "@/app/api/campaigns/[campaignId]/plate-runs/[runId]/masks/[well]/route";
+import * as plateMapRoute from "@/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route";
+import * as plateMapCopy from "@/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/copy/route";
+import * as experimentRoute from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/route";
+import * as resultOverride from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/[registryId]/override/route";
+import * as resultPlan from "@/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/[registryId]/plan/route";
+import { createPlateMap } from "@/server/services/plates";
 import { DEFAULT_REGISTRY_PREFIX, formatRegistryId } from "@/lib/registry-id";
 import * as hitsRoute from "@/app/api/campaigns/[campaignId]/hits/route";
 import * as hitRoute from "@/app/api/campaigns/[campaignId]/hits/[registryId]/route";
@@ -601,6 +610,127 @@ const invokers: Record<string, Invoke> = {
       ),
     );
   },
+  // Plate runs, plate maps, experiments, overrides and the planner in the JSON API. Allowed
+  // callers get 2xx, or 409/400 where an earlier caller changed the same thing; refused ones 401/403/404.
+  "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/decision/route.ts#POST": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    const path = `/api/campaigns/${w.campaignId}/plate-runs/${runId}/decision`;
+    const r = await callRoute(plateRunDecision.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path,
+      params: { campaignId: w.campaignId, runId },
+      body: { decision: "accept", reason: "role-matrix check: QC passes" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/masks/route.ts#POST": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    const r = await callRoute(plateRunMasks.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}/masks`,
+      params: { campaignId: w.campaignId, runId },
+      body: { wells: ["C12"], reason: "role-matrix check" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/masks/[well]/route.ts#DELETE": async (actor, w) => {
+    const { runId } = await platesWorld(w);
+    const r = await callRoute(plateRunMask.DELETE, {
+      user: userOf(w, actor),
+      method: "DELETE",
+      path: `/api/campaigns/${w.campaignId}/plate-runs/${runId}/masks/C12`,
+      params: { campaignId: w.campaignId, runId, well: "C12" },
+      body: { reason: "role-matrix check" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route.ts#GET": async (actor, w) => {
+    const { mapId } = await platesWorld(w);
+    const r = await callRoute(plateMapRoute.GET, {
+      user: userOf(w, actor),
+      path: `/api/campaigns/${w.campaignId}/plate-maps/${mapId}`,
+      params: { campaignId: w.campaignId, plateMapId: mapId },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route.ts#PATCH": async (actor, w) => {
+    const { mapId } = await platesWorld(w); // runs use it: allowed callers reach that check (409)
+    const r = await callRoute(plateMapRoute.PATCH, {
+      user: userOf(w, actor),
+      method: "PATCH",
+      path: `/api/campaigns/${w.campaignId}/plate-maps/${mapId}`,
+      params: { campaignId: w.campaignId, plateMapId: mapId },
+      body: { name: `Renamed ${actor} ${w.tag}` },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route.ts#DELETE": async (actor, w) => {
+    await platesWorld(w);
+    const { id } = await createPlateMap(w.people.assay, w.campaignId, { name: `Unused ${actor}`, map: smallMap() });
+    const r = await callRoute(plateMapRoute.DELETE, {
+      user: userOf(w, actor),
+      method: "DELETE",
+      path: `/api/campaigns/${w.campaignId}/plate-maps/${id}`,
+      params: { campaignId: w.campaignId, plateMapId: id },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/copy/route.ts#POST": async (actor, w) => {
+    const { mapId } = await platesWorld(w);
+    const r = await callRoute(plateMapCopy.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/plate-maps/${mapId}/copy`,
+      params: { campaignId: w.campaignId, plateMapId: mapId },
+      body: { name: `Copy ${actor} ${w.tag}` },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/route.ts#PATCH": async (actor, w) => {
+    const { experimentId, runId } = await analysesWorld(w); // the same run set: nothing changes
+    const r = await callRoute(experimentRoute.PATCH, {
+      user: userOf(w, actor),
+      method: "PATCH",
+      path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}`,
+      params: { campaignId: w.campaignId, experimentId },
+      body: { runIds: [runId] },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/[registryId]/override/route.ts#POST": async (
+    actor,
+    w,
+  ) => {
+    // A single-dose experiment has no model choice: allowed callers reach that check (400).
+    const { experimentId } = await analysesWorld(w);
+    const registryId = formatRegistryId(DEFAULT_REGISTRY_PREFIX, 1);
+    const r = await callRoute(resultOverride.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}/results/${registryId}/override`,
+      params: { campaignId: w.campaignId, experimentId, registryId },
+      body: { model: "mixed", reason: "matrix test reason" },
+    });
+    return deniedRoute(r.status);
+  },
+  "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/[registryId]/plan/route.ts#POST": async (
+    actor,
+    w,
+  ) => {
+    const { experimentId } = await analysesWorld(w);
+    const registryId = formatRegistryId(DEFAULT_REGISTRY_PREFIX, 1);
+    const r = await callRoute(resultPlan.POST, {
+      user: userOf(w, actor),
+      method: "POST",
+      path: `/api/campaigns/${w.campaignId}/experiments/${experimentId}/results/${registryId}/plan`,
+      params: { campaignId: w.campaignId, experimentId, registryId },
+      body: { name: `API plan ${actor} ${w.tag}`, format: 384, ic50Um: 2, kmUm: 20 },
+    });
+    return deniedRoute(r.status);
+  },
+  // End of plate runs, plate maps, experiments, overrides and the planner in the JSON API
   // Hit triage: the world's single-dose analysis gives INH-000001…INH-000012 hit rows.
   "src/app/api/campaigns/[campaignId]/hits/route.ts#GET": async (actor, w) => {
     await analysesWorld(w);

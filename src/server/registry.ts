@@ -112,6 +112,59 @@ export const registry: RegistryEntry[] = [
     what: "accept or reject a run's QC",
     allow: ["assay", "admin"],
   },
+  // Plate runs, plate maps, experiments, overrides and the planner in the JSON API: the same
+  // services and capabilities as the pages' actions (members read; writes as the action's entry)
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/decision/route.ts#POST",
+    what: "accept or reject a plate run (audited)",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/masks/route.ts#POST",
+    what: "mask wells of a run with a reason (audited)",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-runs/[runId]/masks/[well]/route.ts#DELETE",
+    what: "unmask a well with a reason (audited)",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route.ts#GET",
+    what: "one plate map with its layout",
+    allow: members,
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route.ts#PATCH",
+    what: "change a plate map no run uses",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/route.ts#DELETE",
+    what: "delete a plate map no run uses",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-maps/[plateMapId]/copy/route.ts#POST",
+    what: "copy a plate map as a template",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/route.ts#PATCH",
+    what: "change an experiment's runs or settings (audited)",
+    allow: ["assay", "lead", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/[registryId]/override/route.ts#POST",
+    what: "override a mechanism call with a reason (audited)",
+    allow: ["assay", "lead", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/experiments/[experimentId]/results/[registryId]/plan/route.ts#POST",
+    what: "plan a mechanism study as a new plate map",
+    allow: ["assay", "admin"],
+  },
+  // End of plate runs, plate maps, experiments, overrides and the planner in the JSON API
   // Compounds: not campaign-scoped. Chemists (in any campaign) and admins read the whole registry
   // and write; anyone else reads only compounds of their campaigns (compound-access.ts; outside
   // them 404). The world's compound appears in no campaign, and its imports were uploaded by the

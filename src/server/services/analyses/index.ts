@@ -20,3 +20,5 @@ export {
   type OverrideRow,
 } from "./results";
 export { overrideMechanism } from "./overrides";
+export { updateExperiment } from "./experiment-update";
+export { planFromResult, planMechanismPlate, type PlanRequest } from "./plan";

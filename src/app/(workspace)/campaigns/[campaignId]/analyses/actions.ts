@@ -9,14 +9,12 @@ import {
   experimentRunList,
   getExperiment,
   overrideMechanism,
+  planMechanismPlate,
   requestAnalysis,
 } from "@/server/services/analyses";
-import { changeMasks, createPlateMap } from "@/server/services/plates";
-import { planMechanismStudy } from "@/lib/analysis/planner";
-import { plateMapFromWells } from "@/lib/plates";
+import { changeMasks } from "@/server/services/plates";
 import { EXPERIMENT_KINDS } from "@/lib/analysis/kinds";
 import { INHIBITION_MODELS } from "@/lib/kinetics";
-import { campaignKmUm } from "@/lib/units";
 import { ANALYSIS_WEIGHTINGS, DEFAULT_ANALYSIS_WEIGHTING } from "@/lib/analysis/settings";
 
 const optPos = z.preprocess(
@@ -114,23 +112,13 @@ export const planMechanismPlateAction = formAction(
   }),
   async (f) => {
     const { user, campaign } = await requireCampaign(f.campaignId, "plate:write");
-    const kmUm = f.kmUm ?? campaignKmUm(campaign);
-    if (!kmUm)
-      return {
-        ok: false,
-        error: "Set the target's Km (in the campaign or here) to plan a mechanism study.",
-        status: 400,
-      };
-    const plan = planMechanismStudy({
-      compound: f.compoundId,
+    const { id } = await planMechanismPlate(user, campaign, {
+      compoundId: f.compoundId,
       ic50Um: f.ic50Um,
-      kmUm,
+      kmUm: f.kmUm,
       assaySubstrateUm: f.assaySubstrateUm,
       format: f.format,
-    });
-    const { id } = await createPlateMap(user, f.campaignId, {
       name: f.name,
-      map: plateMapFromWells(plan.format, plan.wells),
     });
     redirect(`/campaigns/${f.campaignId}/plates/maps/${id}`);
   },

@@ -1,0 +1,1 @@
+export { PostPlateMapCopyBody } from "../schema";
