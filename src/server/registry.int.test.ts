@@ -23,6 +23,7 @@ import { db } from "@/server/db/client";
 import { compounds, hitRows, memberships, plateMaps } from "@/server/db/schema";
 
 import * as health from "@/app/api/health/route";
+import * as openapiDoc from "@/app/api/openapi.json/route";
 import * as me from "@/app/api/me/route";
 import * as campaignsRoute from "@/app/api/campaigns/route";
 import * as authActions from "@/app/(auth)/actions";
@@ -100,6 +101,7 @@ const route =
 
 const invokers: Record<string, Invoke> = {
   "src/app/api/health/route.ts#GET": route(health.GET, "/api/health"),
+  "src/app/api/openapi.json/route.ts#GET": route(openapiDoc.GET, "/api/openapi.json"),
   "src/app/api/me/route.ts#GET": route(me.GET, "/api/me"),
   "src/app/api/campaigns/route.ts#GET": route(campaignsRoute.GET, "/api/campaigns"),
   "src/app/(auth)/actions.ts#signInAction": async (actor, w) => {

@@ -23,6 +23,8 @@ export type RegistryEntry = {
 export const registry: RegistryEntry[] = [
   // Foundation and accounts
   { id: "src/app/api/health/route.ts#GET", what: "service health (public, no data)", allow: everyone },
+  // API document: public like health (shapes and roles only, no data)
+  { id: "src/app/api/openapi.json/route.ts#GET", what: "the OpenAPI 3.1 document (public, no data)", allow: everyone },
   { id: "src/app/api/me/route.ts#GET", what: "the signed-in user and memberships", allow: signedIn },
   { id: "src/app/api/campaigns/route.ts#GET", what: "campaigns the user belongs to", allow: signedIn },
   { id: "src/app/(auth)/actions.ts#signInAction", what: "sign in (public)", allow: everyone },
