@@ -1,7 +1,8 @@
 import { requireAdmin } from "@/server/auth/guard";
 import { json, parseQuery, route } from "@/server/http";
 import { auditEntries } from "@/server/services/campaigns";
-import { GetAuditQuery } from "./schema";
+import { GetAuditQuery, GetAuditResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -38,5 +39,5 @@ export const GET = route(async (req) => {
     total,
     limit: q.limit,
     offset: q.offset,
-  });
+  } satisfies z.infer<typeof GetAuditResponse>);
 });

@@ -21,3 +21,26 @@ export const GetAuditQuery = z.strictObject({
     .max(10_000_000, "offset is too large")
     .default(0),
 });
+
+/** Answer of GET /api/audit: a page of rows, newest first, and the count of all matching rows. */
+export const GetAuditResponse = z.object({
+  items: z.array(
+    z.object({
+      id: z.number().int(),
+      at: z.string().datetime(),
+      actorId: z.string().nullable(),
+      actorEmail: z.string().nullable(),
+      campaignId: z.string().uuid().nullable(),
+      campaignName: z.string().nullable(),
+      action: z.string(),
+      entityType: z.string(),
+      entityId: z.string().nullable(),
+      before: z.unknown(),
+      after: z.unknown(),
+      reason: z.string().nullable(),
+    }),
+  ),
+  total: z.number().int(),
+  limit: z.number().int(),
+  offset: z.number().int(),
+});

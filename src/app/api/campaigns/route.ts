@@ -1,7 +1,8 @@
 import { requireAdmin, requireUser } from "@/server/auth/guard";
 import { campaignsFor, createCampaign } from "@/server/services/campaigns";
 import { json, parseJson, route } from "@/server/http";
-import { PostCampaignBody } from "./schema";
+import { PostCampaignBody, PostCampaignResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -26,5 +27,8 @@ export const POST = route(async (req) => {
   const body = await parseJson(req, PostCampaignBody);
   const user = await requireAdmin();
   const id = await createCampaign(user, body);
-  return json({ id, name: body.name, targetEnzyme: body.targetEnzyme }, 201);
+  return json(
+    { id, name: body.name, targetEnzyme: body.targetEnzyme } satisfies z.infer<typeof PostCampaignResponse>,
+    201,
+  );
 });

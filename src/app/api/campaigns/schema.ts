@@ -1,3 +1,4 @@
+import { z } from "zod";
 import { campaignSchema } from "@/lib/validation/auth";
 import { knownTimeZone } from "./[campaignId]/digest/schema";
 
@@ -7,3 +8,6 @@ import { knownTimeZone } from "./[campaignId]/digest/schema";
  * and 1, CV in %; the time zone must be one the runtime knows.
  */
 export const PostCampaignBody = campaignSchema.strict().extend({ timeZone: knownTimeZone.default("UTC") });
+
+/** Answer of POST /api/campaigns (201). */
+export const PostCampaignResponse = z.object({ id: z.string().uuid(), name: z.string(), targetEnzyme: z.string() });

@@ -2,7 +2,8 @@ import { requireCapabilityAnywhere, requireUser } from "@/server/auth/guard";
 import { requireRegistryReader } from "@/server/auth/compound-access";
 import { json, parseJson, route } from "@/server/http";
 import { createLibrary, listLibraries } from "@/server/services/compounds";
-import { PostLibraryBody } from "./schema";
+import { PostLibraryBody, PostLibraryResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -23,5 +24,5 @@ export const POST = route(async (req) => {
     description: body.description,
     ids: body.registryIds?.join("\n"),
   });
-  return json({ id, name: body.name, added }, 201);
+  return json({ id, name: body.name, added } satisfies z.infer<typeof PostLibraryResponse>, 201);
 });

@@ -24,3 +24,6 @@ export const PostLibraryBody = z.strictObject({
   description: safeText(1000),
   registryIds: registryIds.optional(),
 });
+
+/** Answer of POST /api/libraries (201): `added` counts the members it was created with. */
+export const PostLibraryResponse = z.object({ id: z.string().uuid(), name: z.string(), added: z.number().int() });

@@ -14,6 +14,9 @@ import * as libraryRoute from "@/app/api/libraries/[libraryId]/route";
 import * as membersRoute from "@/app/api/libraries/[libraryId]/members/route";
 import * as memberRoute from "@/app/api/libraries/[libraryId]/members/[registryId]/route";
 import * as auditRoute from "@/app/api/audit/route";
+import { PostBatchResponse } from "./batches/schema";
+import { PostStockResponse } from "./batches/[batchNumber]/stocks/schema";
+import { PostLibraryResponse } from "@/app/api/libraries/schema";
 
 type Json = Record<string, unknown>;
 
@@ -58,7 +61,7 @@ describe("batches and stocks", () => {
       },
     });
     expect(post.status).toBe(201);
-    expect(post.json).toEqual({ registryId, batchNumber: 2 });
+    expect(PostBatchResponse.parse(post.json)).toEqual({ registryId, batchNumber: 2 });
 
     const get = await callRoute(batchesRoute.GET, {
       user: chemist,
@@ -84,7 +87,7 @@ describe("batches and stocks", () => {
       body: { concentrationMm: 20, solvent: "DMSO", location: "Freezer 2 / Rack B / A07" },
     });
     expect(post.status).toBe(201);
-    const id = (post.json as { id: string }).id;
+    const { id } = PostStockResponse.parse(post.json);
     expect(id).toMatch(/^[0-9a-f-]{36}$/);
     const get = await callRoute(stocksRoute.GET, {
       user: chemist,
@@ -249,7 +252,7 @@ describe("libraries", () => {
       body: { name: `API library ${w.tag}`, description: "Invented test set", registryIds: [registryId] },
     });
     expect(created.status).toBe(201);
-    const { id: libraryId, added } = created.json as { id: string; added: number };
+    const { id: libraryId, added } = PostLibraryResponse.parse(created.json);
     expect(added).toBe(1);
 
     const list = await callRoute(librariesRoute.GET, { user: chemist, path: "/api/libraries" });

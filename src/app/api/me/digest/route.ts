@@ -2,7 +2,8 @@ import { requireCampaign, requireUser } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { campaignsFor } from "@/server/services/campaigns";
 import { optIn, optOut, optOutsOf } from "@/server/services/digest";
-import { PutMyDigestBody } from "./schema";
+import { GetMyDigestResponse, PutMyDigestBody, PutMyDigestResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -14,7 +15,7 @@ export const GET = route(async () => {
     items: list
       .filter((c) => c.role !== null)
       .map((c) => ({ campaignId: c.id, campaignName: c.name, receive: !out.has(c.id) })),
-  });
+  } satisfies z.infer<typeof GetMyDigestResponse>);
 });
 
 /** Stops or resumes my own digest of one campaign of mine (audited). Answers the new setting. */
@@ -24,5 +25,5 @@ export const PUT = route(async (req) => {
   await requireCampaign(body.campaignId);
   if (body.receive) await optIn(user.id, body.campaignId);
   else await optOut(user.id, body.campaignId, "settings");
-  return json({ campaignId: body.campaignId, receive: body.receive });
+  return json({ campaignId: body.campaignId, receive: body.receive } satisfies z.infer<typeof PutMyDigestResponse>);
 });

@@ -2,7 +2,8 @@ import { requireCampaign, requireUser } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { previewDigest, sendCampaignDigest, setSchedule } from "@/server/services/digest";
 import { AppError } from "@/server/errors";
-import { PatchDigestBody, postBody } from "./schema";
+import { DigestScheduleResponse, PatchDigestBody, postBody } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -37,7 +38,7 @@ export const PATCH = route<{ campaignId: string }>(async (req, { campaignId }) =
   await requireUser();
   const body = await parseJson(req, PatchDigestBody);
   const { user, campaign } = await requireCampaign(campaignId, "digest:send");
-  const s = {
+  const s: z.infer<typeof DigestScheduleResponse> = {
     digestWeekday: body.digestWeekday ?? campaign.digestWeekday,
     digestHour: body.digestHour ?? campaign.digestHour,
     timeZone: body.timeZone ?? campaign.timeZone,

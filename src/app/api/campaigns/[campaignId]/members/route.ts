@@ -2,7 +2,8 @@ import { requireCampaign, requireUser } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { memberNamesOf, membersOf, pendingInvitations } from "@/server/services/campaigns";
 import { invite } from "@/server/services/accounts";
-import { PostMemberBody } from "./schema";
+import { PostMemberBody, PostMemberResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -34,5 +35,11 @@ export const POST = route<{ campaignId: string }>(async (req, { campaignId }) =>
   const body = await parseJson(req, PostMemberBody);
   const { user } = await requireCampaign(campaignId, "team:manage");
   const { id, expiresAt } = await invite(user, campaignId, body.email, body.role);
-  return json({ invitationId: id, email: body.email, role: body.role, expiresAt: expiresAt.toISOString() }, 201);
+  const answer: z.infer<typeof PostMemberResponse> = {
+    invitationId: id,
+    email: body.email,
+    role: body.role,
+    expiresAt: expiresAt.toISOString(),
+  };
+  return json(answer, 201);
 });

@@ -12,3 +12,14 @@ export const memberParams = z.object({
 
 /** Body of PATCH …/members/{userId}: the member's new campaign role. */
 export const PatchMemberBody = z.strictObject({ role: roleSchema });
+
+/** Answer of POST …/members (201): the invitation (its link goes only to the invitee). */
+export const PostMemberResponse = z.object({
+  invitationId: z.string().uuid(),
+  email: z.string(),
+  role: roleSchema,
+  expiresAt: z.string().datetime(),
+});
+
+/** Answer of PATCH …/members/{userId}. */
+export const PatchMemberResponse = z.object({ userId: z.string(), role: roleSchema });

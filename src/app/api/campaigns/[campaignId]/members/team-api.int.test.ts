@@ -13,6 +13,10 @@ import * as membersRoute from "./route";
 import * as memberRoute from "./[userId]/route";
 import * as auditRoute from "@/app/api/audit/route";
 import * as myDigestRoute from "@/app/api/me/digest/route";
+import { PostMemberResponse } from "./schema";
+import { GetAuditResponse } from "@/app/api/audit/schema";
+import { GetMyDigestResponse } from "@/app/api/me/digest/schema";
+import { ThresholdsResponse } from "../thresholds/schema";
 
 type Json = Record<string, unknown>;
 let w: World;
@@ -92,6 +96,7 @@ describe("thresholds and digest schedule", () => {
       body: { hitThresholdPct: 35 },
     });
     expect(r.status).toBe(200);
+    ThresholdsResponse.parse(r.json);
     expect(r.json).toMatchObject({
       qcMinZPrime: before.qcMinZPrime,
       qcMaxCvPct: before.qcMaxCvPct,
@@ -182,7 +187,7 @@ describe("team", () => {
       body: { email: email.toUpperCase(), role: "chemist" },
     });
     expect(r.status).toBe(201);
-    const j = r.json as { invitationId: string; email: string; role: string; expiresAt: string };
+    const j = PostMemberResponse.parse(r.json); // the documented answer shape
     expect(j).toMatchObject({ email, role: "chemist" });
     const hours = (Date.parse(j.expiresAt) - Date.now()) / 3600_000;
     expect(hours).toBeGreaterThan(71.9);
@@ -243,6 +248,7 @@ describe("audit log", () => {
       (await callRoute(auditRoute.GET, { user: w.people.admin, path: `/api/audit?campaignId=${w.campaignId}&${qs}` }))
         .json as { items: Json[]; total: number };
     const all = await page("limit=200");
+    GetAuditResponse.parse(all);
     expect(all.total).toBe(all.items.length);
     expect(all.total).toBeGreaterThanOrEqual(5);
     const ats = all.items.map((i) => i.at as string);
@@ -271,7 +277,7 @@ describe("my digest", () => {
     const put = (user: TestUser, body: unknown) =>
       callRoute(myDigestRoute.PUT, { user, method: "PUT", path: "/api/me/digest", body });
     const get = async () =>
-      ((await callRoute(myDigestRoute.GET, { user: me, path: "/api/me/digest" })).json as { items: Json[] }).items;
+      GetMyDigestResponse.parse((await callRoute(myDigestRoute.GET, { user: me, path: "/api/me/digest" })).json).items;
     expect(await get()).toEqual([{ campaignId: w.campaignId, campaignName: `Test campaign ${w.tag}`, receive: true }]);
     const off = await put(me, { campaignId: w.campaignId, receive: false });
     expect(off.status).toBe(200);

@@ -1,12 +1,13 @@
 import { requireCampaign, requireUser } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { updateThresholds, type Thresholds } from "@/server/services/campaigns";
-import { PatchThresholdsBody } from "./schema";
+import { PatchThresholdsBody, ThresholdsResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
 const units = { qcMinZPrime: "dimensionless", qcMaxCvPct: "%", hitThresholdPct: "% inhibition" } as const;
-const answer = (t: Thresholds) => ({
+const answer = (t: Thresholds): z.infer<typeof ThresholdsResponse> => ({
   qcMinZPrime: t.qcMinZPrime,
   qcMaxCvPct: t.qcMaxCvPct,
   hitThresholdPct: t.hitThresholdPct,

@@ -3,7 +3,8 @@ import { requireRegistryReader } from "@/server/auth/compound-access";
 import { json, parseJson, route } from "@/server/http";
 import { addBatch, getCompound } from "@/server/services/compounds";
 import { registryIdParam } from "../schema";
-import { PostBatchBody } from "./schema";
+import { PostBatchBody, PostBatchResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -26,5 +27,5 @@ export const POST = route<{ registryId: string }>(async (req, params) => {
   const body = await parseJson(req, PostBatchBody);
   const user = await requireCapabilityAnywhere("compound:write");
   const { batchNumber } = await addBatch(user, registryId, body.batch ?? {}, body.stock);
-  return json({ registryId: registryId.toUpperCase(), batchNumber }, 201);
+  return json({ registryId: registryId.toUpperCase(), batchNumber } satisfies z.infer<typeof PostBatchResponse>, 201);
 });

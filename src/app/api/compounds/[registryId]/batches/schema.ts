@@ -6,3 +6,6 @@ import { batchSchema, stockSchema } from "@/lib/chem/validation";
  * number is the next free one) and, optionally, a stock solution made from it.
  */
 export const PostBatchBody = z.strictObject({ batch: batchSchema.optional(), stock: stockSchema.optional() });
+
+/** Answer of POST …/batches (201). */
+export const PostBatchResponse = z.object({ registryId: z.string(), batchNumber: z.number().int().min(1) });

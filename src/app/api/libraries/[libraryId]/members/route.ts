@@ -1,7 +1,8 @@
 import { requireCapabilityAnywhere, requireUser } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { addToLibrary } from "@/server/services/compounds";
-import { PostLibraryMembersBody } from "./schema";
+import { PostLibraryMembersBody, PostLibraryMembersResponse } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -15,5 +16,5 @@ export const POST = route<{ libraryId: string }>(async (req, { libraryId }) => {
   const body = await parseJson(req, PostLibraryMembersBody);
   const user = await requireCapabilityAnywhere("compound:write");
   const r = await addToLibrary(user, libraryId, body.registryIds.join("\n"));
-  return json({ libraryId, added: r.added, already: r.already });
+  return json({ libraryId, added: r.added, already: r.already } satisfies z.infer<typeof PostLibraryMembersResponse>);
 });

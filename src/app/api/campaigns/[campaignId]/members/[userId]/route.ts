@@ -1,7 +1,8 @@
 import { requireCampaign, requireUser } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { changeRole, removeMember } from "@/server/services/campaigns";
-import { memberParams, PatchMemberBody } from "../schema";
+import { memberParams, PatchMemberBody, PatchMemberResponse } from "../schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -14,7 +15,7 @@ export const PATCH = route<P>(async (req, params) => {
   const body = await parseJson(req, PatchMemberBody);
   const { user } = await requireCampaign(campaignId, "team:manage");
   await changeRole(user, campaignId, userId, body.role);
-  return json({ userId, role: body.role });
+  return json({ userId, role: body.role } satisfies z.infer<typeof PatchMemberResponse>);
 });
 
 /** Removes a member (administrators; audited) and ends their sessions. 404 for a non-member. */

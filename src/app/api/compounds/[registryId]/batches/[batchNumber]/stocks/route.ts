@@ -3,7 +3,8 @@ import { requireRegistryReader } from "@/server/auth/compound-access";
 import { json, parseJson, route } from "@/server/http";
 import { AppError } from "@/server/errors";
 import { addStock, getCompound } from "@/server/services/compounds";
-import { PostStockBody, stocksParams } from "./schema";
+import { PostStockBody, PostStockResponse, stocksParams } from "./schema";
+import type { z } from "zod";
 
 export const dynamic = "force-dynamic";
 
@@ -31,5 +32,8 @@ export const POST = route<P>(async (req, params) => {
   const body = await parseJson(req, PostStockBody);
   const user = await requireCapabilityAnywhere("compound:write");
   const { id } = await addStock(user, registryId, batchNumber, body);
-  return json({ id, registryId: registryId.toUpperCase(), batchNumber }, 201);
+  return json(
+    { id, registryId: registryId.toUpperCase(), batchNumber } satisfies z.infer<typeof PostStockResponse>,
+    201,
+  );
 });

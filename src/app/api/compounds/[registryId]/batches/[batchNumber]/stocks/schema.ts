@@ -15,3 +15,10 @@ export const stocksParams = registryIdParam.extend({
 export const PostStockBody = stockSchema.strict().refine((s) => Object.values(s).some((v) => v !== undefined), {
   message: "Give at least one of concentrationMm, solvent, volumeUl, location, date.",
 });
+
+/** Answer of POST …/stocks (201). */
+export const PostStockResponse = z.object({
+  id: z.string().uuid(),
+  registryId: z.string(),
+  batchNumber: z.number().int().min(1),
+});
