@@ -7,6 +7,9 @@ import { hitQueryString, type HitQueryParams } from "@/lib/hits/query";
 const enc = encodeURIComponent;
 
 export const apiPaths = {
+  tokens: "/api/tokens",
+  token: (id: string) => `/api/tokens/${enc(id)}`,
+
   compounds: "/api/compounds",
   compoundImports: "/api/compound-imports",
   compoundImport: (id: string) => `/api/compound-imports/${enc(id)}`,

@@ -16,3 +16,6 @@ export const TOKEN_MAX_DAYS = 365;
 
 /** Every token starts with this, so a leaked one is recognisable (for example by secret scanners). */
 export const TOKEN_PREFIX = "itk_";
+
+/** The capabilities a read token keeps; every other capability is a write and needs read-write. */
+export const READ_CAPABILITIES = ["campaign:read"] as const;

@@ -3,6 +3,7 @@ import { NextResponse } from "next/server";
 import type { z } from "zod";
 import { AppError, isNextControlFlow, toPublicError } from "./errors";
 import { requireSameOrigin } from "./auth/guard";
+import { inRouteScope } from "./auth/route-scope";
 import { checkJson, checkParams, checkQuery } from "./edge-input";
 import { readBodyCapped } from "./multipart";
 
@@ -22,7 +23,8 @@ export function route<P = Record<string, never>>(fn: (req: Request, params: P) =
       const params = ctx ? await ctx.params : ({} as P);
       checkParams((params ?? {}) as Record<string, unknown>);
       checkQuery(req.url);
-      return await fn(req, params);
+      // The scope lets the guard accept `Authorization: Bearer` here, and only here (not in actions or pages).
+      return await inRouteScope(req, () => fn(req, params));
     } catch (e) {
       if (isNextControlFlow(e)) throw e;
       const { status, body } = toPublicError(e);

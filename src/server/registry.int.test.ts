@@ -92,6 +92,9 @@ import * as auditRoute from "@/app/api/audit/route";
 import * as myDigestRoute from "@/app/api/me/digest/route";
 // End of issue 16 (2b) routes
 
+// Personal API tokens: their routes' invokers and the matrix run with tokens
+import { tokenInvokers, tokenMatrix } from "@/test/token-matrix";
+
 type Invoke = (actor: RegistryActor, w: World) => Promise<boolean>; // true = denied
 
 const route =
@@ -100,6 +103,7 @@ const route =
     deniedRoute((await callRoute(mod, { user: userOf(w, actor), path, method, body })).status);
 
 const invokers: Record<string, Invoke> = {
+  ...tokenInvokers,
   "src/app/api/health/route.ts#GET": route(health.GET, "/api/health"),
   "src/app/api/openapi.json/route.ts#GET": route(openapiDoc.GET, "/api/openapi.json"),
   "src/app/api/me/route.ts#GET": route(me.GET, "/api/me"),
@@ -1140,6 +1144,8 @@ describe("role matrix", () => {
     }
   }
 });
+
+tokenMatrix(invokers);
 
 // Items 9–10 of the hardening issue: who reads which compound, and whose import jobs. People: a
 // viewer of campaign A (a partner lab), a chemist of A (registry role), an assay scientist of

@@ -18,6 +18,11 @@ export type RegistryEntry = {
   id: string;
   what: string;
   allow: readonly RegistryActor[];
+  /**
+   * Route handlers also accept personal API tokens: a read-write token is allowed what its owner
+   * is, a read token only on GET. `sessionOnly` routes refuse every token.
+   */
+  sessionOnly?: true;
 };
 
 export const registry: RegistryEntry[] = [
@@ -375,6 +380,16 @@ export const registry: RegistryEntry[] = [
     what: "stop the digest from the e-mail's signed link (public)",
     allow: everyone,
   },
+  // Personal API tokens: one's own, for anyone signed in; minting needs a browser session
+  { id: "src/app/api/tokens/route.ts#GET", what: "one's own API tokens", allow: signedIn },
+  {
+    id: "src/app/api/tokens/route.ts#POST",
+    what: "create an API token (session only)",
+    allow: signedIn,
+    sessionOnly: true,
+  },
+  { id: "src/app/api/tokens/[tokenId]/route.ts#DELETE", what: "revoke one's own API token", allow: signedIn },
+  // End of personal API tokens
   // Issue 16 (2b), JSON API over the same services as the forms: compounds (batches, stocks,
   // structure edit), libraries, campaigns, thresholds, digest schedule, team, audit, my digest.
   {

@@ -81,6 +81,16 @@ export async function as<T>(
 
 type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
 
+/**
+ * While set, callRoute authenticates each signed-in caller with `Authorization: Bearer` (the
+ * secret `mint` returns for that person) instead of a session cookie, and sends no Origin: so the
+ * role matrix can call every route as a script would. Server actions keep their cookies.
+ */
+let bearerFor: ((user: TestUser) => Promise<string>) | null = null;
+export function useBearerTokens(mint: ((user: TestUser) => Promise<string>) | null): void {
+  bearerFor = mint;
+}
+
 export async function callRoute(
   handler: unknown,
   opts: {
@@ -93,9 +103,11 @@ export async function callRoute(
   },
 ): Promise<{ status: number; json: unknown; response: Response }> {
   const method = opts.method ?? "GET";
+  const bearer = bearerFor && opts.user ? await bearerFor(opts.user) : null;
   const headers: Record<string, string> = {
     host: HOST,
-    ...(method !== "GET" ? { origin: `http://${HOST}` } : {}),
+    ...(method !== "GET" && !bearer ? { origin: `http://${HOST}` } : {}),
+    ...(bearer ? { authorization: `Bearer ${bearer}` } : {}),
     ...(opts.headers ?? {}),
   };
   let body: BodyInit | undefined;
@@ -105,7 +117,7 @@ export async function callRoute(
     headers["content-type"] = "application/json";
   }
   return as(
-    opts.user,
+    bearer ? null : opts.user,
     async () => {
       const req = new Request(`http://${HOST}${opts.path}`, { method, headers, body });
       const response = await (handler as Handler)(req, { params: Promise.resolve(opts.params ?? {}) });

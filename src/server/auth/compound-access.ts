@@ -7,6 +7,7 @@ import { AppError } from "@/server/errors";
 import { can } from "@/lib/roles";
 import type { SessionUser } from "./session";
 import { requireCapabilityAnywhere, requireUser } from "./guard";
+import { routeScope } from "./route-scope";
 
 /**
  * The one owner of who may read which compounds of the registry (structures, molfiles, batches,
@@ -22,13 +23,17 @@ import { requireCapabilityAnywhere, requireUser } from "./guard";
  */
 export type RegistryReader = Pick<SessionUser, "id" | "globalRole">;
 
-export type CompoundScope = { user: RegistryReader; all: boolean };
+/** `campaignIds`: a personal API token limited to these campaigns reads only through them. */
+export type CompoundScope = { user: RegistryReader; all: boolean; campaignIds?: string[] | null };
 
-/** Admin, or chemist in at least one campaign. */
-export async function hasRegistryRole(user: RegistryReader): Promise<boolean> {
+/** Admin, or chemist in at least one campaign (of `onlyIn`, when a token limits the campaigns). */
+export async function hasRegistryRole(user: RegistryReader, onlyIn: string[] | null = null): Promise<boolean> {
   if (user.globalRole === "admin") return true;
-  const roles = await db.select({ role: memberships.role }).from(memberships).where(eq(memberships.userId, user.id));
-  return roles.some((r) => can("member", r.role, "compound:write"));
+  const roles = await db
+    .select({ role: memberships.role, campaignId: memberships.campaignId })
+    .from(memberships)
+    .where(eq(memberships.userId, user.id));
+  return roles.some((r) => can("member", r.role, "compound:write") && (!onlyIn || onlyIn.includes(r.campaignId)));
 }
 
 /** The signed-in user and what of the registry they may read (401 when signed out). */
@@ -38,7 +43,8 @@ export async function requireRegistryReader(): Promise<CompoundScope> {
 }
 
 export async function compoundScope(user: RegistryReader): Promise<CompoundScope> {
-  return { user, all: await hasRegistryRole(user) };
+  const campaignIds = routeScope()?.grant?.campaignIds ?? null;
+  return { user, all: await hasRegistryRole(user, campaignIds), campaignIds };
 }
 
 /**
@@ -50,12 +56,18 @@ export async function compoundScope(user: RegistryReader): Promise<CompoundScope
 export function visibleCompoundSql(scope: CompoundScope, registryId: AnyPgColumn | SQL): SQL {
   if (scope.all) return sql`true`;
   const u = scope.user.id;
+  const only = scope.campaignIds?.length
+    ? sql` and m.campaign_id in (${sql.join(
+        scope.campaignIds.map((id) => sql`${id}::uuid`),
+        sql`, `,
+      )})`
+    : sql``;
   return sql`${registryId} in (
-    select h.compound_id from hit_rows h join memberships m on m.campaign_id = h.campaign_id and m.user_id = ${u}
+    select h.compound_id from hit_rows h join memberships m on m.campaign_id = h.campaign_id and m.user_id = ${u}${only}
     union
-    select r.compound_id from compound_results r join memberships m on m.campaign_id = r.campaign_id and m.user_id = ${u}
+    select r.compound_id from compound_results r join memberships m on m.campaign_id = r.campaign_id and m.user_id = ${u}${only}
     union
-    select w.value->>'compound' from plate_maps pm join memberships m on m.campaign_id = pm.campaign_id and m.user_id = ${u}
+    select w.value->>'compound' from plate_maps pm join memberships m on m.campaign_id = pm.campaign_id and m.user_id = ${u}${only}
       cross join lateral jsonb_array_elements(pm.wells) w
   )`;
 }

@@ -2,6 +2,7 @@ import "server-only";
 import type { Tx } from "@/server/db/client";
 import { auditLog } from "@/server/db/schema";
 import type { SessionUser } from "@/server/auth/session";
+import { currentTokenId } from "@/server/auth/route-scope";
 
 export type AuditEntry = {
   campaignId?: string | null;
@@ -25,5 +26,7 @@ export async function audit(tx: Tx, actor: Pick<SessionUser, "id" | "email"> | n
     before: e.before === undefined ? null : (e.before as object),
     after: e.after === undefined ? null : (e.after as object),
     reason: e.reason ?? null,
+    // A change made through a personal API token names the token.
+    tokenId: currentTokenId(),
   });
 }

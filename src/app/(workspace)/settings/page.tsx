@@ -4,6 +4,7 @@ import { changePasswordAction, setMyDigestAction } from "./actions";
 import { campaignsFor } from "@/server/services/campaigns";
 import { optOutsOf } from "@/server/services/digest";
 import { DigestToggle } from "./digest-toggle";
+import { TokenPanel } from "./token-panel";
 
 export const metadata = { title: "Your settings" };
 
@@ -13,7 +14,7 @@ export default async function SettingsPage({ searchParams }: { searchParams: Pro
   const [mine, stopped] = await Promise.all([campaignsFor(user), optOutsOf(user.id)]);
   const memberOf = mine.filter((c) => c.role !== null);
   return (
-    <main className="mx-auto w-full max-w-3xl px-6 py-6">
+    <main className="mx-auto w-full max-w-5xl px-6 py-6">
       <h1 className="mb-1">Your settings</h1>
       <p className="mb-5 text-sm text-ink-muted">
         {user.name} · {user.email}
@@ -45,6 +46,10 @@ export default async function SettingsPage({ searchParams }: { searchParams: Pro
             </tbody>
           </table>
         )}
+      </section>
+      <section className="mt-8">
+        <h3 className="mb-2">API tokens</h3>
+        <TokenPanel campaigns={mine.map((c) => ({ id: c.id, name: c.name }))} />
       </section>
     </main>
   );

@@ -1,0 +1,3 @@
+export * from "./authenticate";
+export * from "./manage";
+export { newTokenSecret, tokenHashOf } from "./secret";
