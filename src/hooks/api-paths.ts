@@ -20,6 +20,13 @@ export const apiPaths = {
   plateRunPreview: (campaignId: string) => `/api/campaigns/${enc(campaignId)}/plate-runs/preview`,
   plateRunFile: (campaignId: string, runId: string) =>
     `/api/campaigns/${enc(campaignId)}/plate-runs/${enc(runId)}/file`,
+  plateBatches: (campaignId: string) => `/api/campaigns/${enc(campaignId)}/plate-batches`,
+  plateBatch: (campaignId: string, batchId: string) =>
+    `/api/campaigns/${enc(campaignId)}/plate-batches/${enc(batchId)}`,
+  plateBatchAcceptPassing: (campaignId: string, batchId: string) =>
+    `/api/campaigns/${enc(campaignId)}/plate-batches/${enc(batchId)}/accept-passing`,
+  plateBatchAssign: (campaignId: string, batchId: string, fileId: string) =>
+    `/api/campaigns/${enc(campaignId)}/plate-batches/${enc(batchId)}/files/${enc(fileId)}/assign`,
 
   analysis: (campaignId: string, experimentId: string, analysisId: string) =>
     `/api/campaigns/${enc(campaignId)}/experiments/${enc(experimentId)}/analyses/${enc(analysisId)}`,

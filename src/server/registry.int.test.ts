@@ -92,6 +92,14 @@ import * as auditRoute from "@/app/api/audit/route";
 import * as myDigestRoute from "@/app/api/me/digest/route";
 // End of issue 16 (2b) routes
 
+// Issue 16 (4) routes
+import * as plateBatchesRoute from "@/app/api/campaigns/[campaignId]/plate-batches/route";
+import * as plateBatchRoute from "@/app/api/campaigns/[campaignId]/plate-batches/[batchId]/route";
+import * as plateBatchAssign from "@/app/api/campaigns/[campaignId]/plate-batches/[batchId]/files/[fileId]/assign/route";
+import * as plateBatchAccept from "@/app/api/campaigns/[campaignId]/plate-batches/[batchId]/accept-passing/route";
+import { batchWorld, unmatchedFile } from "@/test/plate-batches";
+// End of issue 16 (4) routes
+
 // Personal API tokens: their routes' invokers and the matrix run with tokens
 import { tokenInvokers, tokenMatrix } from "@/test/token-matrix";
 
@@ -1081,6 +1089,69 @@ const invokers: Record<string, Invoke> = {
       ).status,
     ),
   // End of issue 16 (2b).
+  // Issue 16 (4): allowed callers get 2xx; refused ones 401/403/404.
+  "src/app/api/campaigns/[campaignId]/plate-batches/route.ts#POST": async (actor, w) => {
+    const { mapId } = await platesWorld(w);
+    const form = new FormData();
+    form.append("plateMapId", mapId);
+    form.append("file", new File([smallExport(3000 + actor.length)], `batch-${actor}-a.csv`, { type: "text/csv" }));
+    form.append("file", new File([smallExport(3100 + actor.length)], `batch-${actor}-b.csv`, { type: "text/csv" }));
+    return deniedRoute(
+      (
+        await callRoute(plateBatchesRoute.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/plate-batches?wait=true`,
+          params: { campaignId: w.campaignId },
+          body: form,
+        })
+      ).status,
+    );
+  },
+  "src/app/api/campaigns/[campaignId]/plate-batches/[batchId]/route.ts#GET": async (actor, w) => {
+    const { batchId } = await batchWorld(w);
+    return deniedRoute(
+      (
+        await callRoute(plateBatchRoute.GET, {
+          user: userOf(w, actor),
+          path: `/api/campaigns/${w.campaignId}/plate-batches/${batchId}`,
+          params: { campaignId: w.campaignId, batchId },
+        })
+      ).status,
+    );
+  },
+  "src/app/api/campaigns/[campaignId]/plate-batches/[batchId]/files/[fileId]/assign/route.ts#POST": async (
+    actor,
+    w,
+  ) => {
+    const { batchId, fileId, mapId } = await unmatchedFile(w, 4000 + actor.length * 7 + actor.charCodeAt(0));
+    return deniedRoute(
+      (
+        await callRoute(plateBatchAssign.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/plate-batches/${batchId}/files/${fileId}/assign`,
+          params: { campaignId: w.campaignId, batchId, fileId },
+          body: { plateMapId: mapId },
+        })
+      ).status,
+    );
+  },
+  "src/app/api/campaigns/[campaignId]/plate-batches/[batchId]/accept-passing/route.ts#POST": async (actor, w) => {
+    const { batchId } = await batchWorld(w);
+    return deniedRoute(
+      (
+        await callRoute(plateBatchAccept.POST, {
+          user: userOf(w, actor),
+          method: "POST",
+          path: `/api/campaigns/${w.campaignId}/plate-batches/${batchId}/accept-passing`,
+          params: { campaignId: w.campaignId, batchId },
+          body: { reason: "Controls and Z′ within limits (role matrix)" },
+        })
+      ).status,
+    );
+  },
+  // End of issue 16 (4).
 };
 
 function walk(dir: string, out: string[] = []): string[] {

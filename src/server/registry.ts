@@ -478,6 +478,28 @@ export const registry: RegistryEntry[] = [
     allow: members,
   },
   // End of issue 16 (2b).
+  // Issue 16 (4): a day's plates in one upload.
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-batches/route.ts#POST",
+    what: "upload a day's plate exports (files or one zip, optional manifest)",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-batches/[batchId]/route.ts#GET",
+    what: "a plate batch: each file's outcome and the runs' QC",
+    allow: members,
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-batches/[batchId]/files/[fileId]/assign/route.ts#POST",
+    what: "give an unmatched batch file its plate map and upload it",
+    allow: ["assay", "admin"],
+  },
+  {
+    id: "src/app/api/campaigns/[campaignId]/plate-batches/[batchId]/accept-passing/route.ts#POST",
+    what: "accept every undecided run of a batch that passes QC (one reason, audited)",
+    allow: ["assay", "admin"],
+  },
+  // End of issue 16 (4).
 ];
 
 export const registryGroups = { everyone, signedIn, members };

@@ -52,7 +52,7 @@ function checkSize(fileName: string, size: number): void {
     );
 }
 
-function cleanFileName(name: string): string {
+export function cleanFileName(name: string): string {
   // Keep the name people recognise, without path parts or control characters.
   const base = name.split(/[\\/]/).pop() ?? "export";
   const cleaned = [...base]

@@ -5,6 +5,8 @@ import { listPlateMaps, listRuns } from "@/server/services/plates";
 import { can } from "@/lib/roles";
 import { ZPrimeTrend } from "@/components/plots/z-prime-trend";
 import { DecisionChip, VerdictChip, fmtDate, fmtNum } from "./_components/status";
+import { listBatches } from "@/server/services/plates/batches";
+import { BatchUpload } from "./_components/batch-upload";
 
 export const metadata = { title: "Plates" };
 
@@ -12,7 +14,11 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
   const { campaignId } = await params;
   const { user, role, campaign } = await pageCampaign(campaignId);
   const writer = can(user.globalRole, role, "plate:write");
-  const [maps, runs] = await Promise.all([listPlateMaps(campaignId), listRuns(campaignId)]);
+  const [maps, runs, batches] = await Promise.all([
+    listPlateMaps(campaignId),
+    listRuns(campaignId),
+    listBatches(campaignId),
+  ]);
   const base = `/campaigns/${campaignId}/plates`;
   const passed = runs.filter((r) => r.qcVerdict === "pass").length;
   const accepted = runs.filter((r) => r.decision === "accepted").length;
@@ -48,6 +54,25 @@ export default async function PlatesPage({ params }: { params: Promise<{ campaig
           </div>
         ) : null}
       </div>
+
+      {writer && maps.length > 0 ? (
+        <BatchUpload campaignId={campaignId} maps={maps.map((m) => ({ id: m.id, name: m.name }))} />
+      ) : null}
+      {batches.length > 0 ? (
+        <section>
+          <h3 className="mb-1">Recent batches</h3>
+          <ul className="flex flex-col gap-0.5 text-sm">
+            {batches.map((b) => (
+              <li key={b.id}>
+                <Link href={`${base}/batches/${b.id}`}>{b.label}</Link>{" "}
+                <span className="text-2xs text-ink-muted">
+                  {fmtDate(b.createdAt)} UTC · {b.stored} of {b.fileCount} files stored
+                </span>
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
 
       {runs.length === 0 ? (
         <EmptyState title="No plate runs yet.">

@@ -1,0 +1,1 @@
+export { PlateBatchResponse as GetPlateBatchResponse } from "../schema";
