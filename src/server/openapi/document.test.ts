@@ -74,8 +74,11 @@ function asReceived(o: ApiOperation, where: "body" | "query", v: unknown, schema
   const props = (schema.properties ?? {}) as Record<string, JsonSchema>;
   const out: Record<string, unknown> = {};
   for (const [k, x] of Object.entries(v)) {
-    if (where === "body" && o.body?.kind === "multipart" && props[k]?.format === "binary")
-      out[k] = new File(["invented,example\n"], "invented.csv", { type: "text/csv" });
+    const file = () => new File(["invented,example\n"], "invented.csv", { type: "text/csv" });
+    const items = props[k]?.items as JsonSchema | undefined;
+    if (where === "body" && o.body?.kind === "multipart" && props[k]?.format === "binary") out[k] = file();
+    else if (where === "body" && o.body?.kind === "multipart" && items?.format === "binary")
+      out[k] = Array.isArray(x) ? x.map(file) : file();
     else if (where === "query" || o.body?.kind === "multipart") out[k] = String(x);
     else out[k] = x;
   }

@@ -5,7 +5,7 @@ import { errorCodes } from "@/server/errors";
 import { jsonSchemaOf, type JsonSchema } from "./json-schema";
 import { minimalExample } from "./example";
 import { apiOperations } from "./operations";
-import { registryIdOf, type ApiOperation } from "./types";
+import { registryIdOf, type ApiAuth, type ApiOperation } from "./types";
 
 /** The error body every route answers with (src/server/errors.ts, toPublicError). */
 export const ErrorBody = z.object({
@@ -47,10 +47,11 @@ const TAGS: [prefix: RegExp, tag: string][] = [
   [/^\/api\/(me|tokens)/, "Account"],
   [/^\/api\/audit/, "Audit log"],
   [/^\/api\/compound-imports/, "Compound imports"],
-  [/^\/api\/(compounds|libraries)/, "Compounds"],
+  [/^\/api\/compounds/, "Compounds"],
+  [/^\/api\/libraries/, "Libraries"],
   [/^\/api\/campaigns\/\{campaignId\}\/plate-maps/, "Plate maps"],
   [/^\/api\/campaigns\/\{campaignId\}\/plate-(runs|batches)/, "Plate runs"],
-  [/^\/api\/campaigns\/\{campaignId\}\/(experiments|results)/, "Experiments and analyses"],
+  [/^\/api\/campaigns\/\{campaignId\}\/experiments/, "Experiments and analyses"],
   [/^\/api\/campaigns\/\{campaignId\}\/hits/, "Hits"],
   [/^\/api\/campaigns\/\{campaignId\}\/(team|members|invitations)/, "Team"],
   [/^\/api\/campaigns\/\{campaignId\}\/digest/, "Digest"],
@@ -100,7 +101,7 @@ export function requestBodyOf(op: ApiOperation) {
 const errorRef = { $ref: "#/components/schemas/Error" };
 const errorAnswer = (description: string) => ({ description, content: { "application/json": { schema: errorRef } } });
 
-function responsesOf(op: ApiOperation) {
+function responsesOf(op: ApiOperation, auth: ApiAuth) {
   const out: Record<string, unknown> = {};
   for (const [status, r] of Object.entries(op.responses)) {
     const type = r.contentType ?? "application/json";
@@ -112,7 +113,6 @@ function responsesOf(op: ApiOperation) {
             content: { [type]: r.schema ? { schema: jsonSchemaOf(r.schema, "output") } : {} },
           };
   }
-  const auth = op.auth ?? "any";
   if (op.body || op.query || op.params)
     out["400"] ??= errorAnswer("The request was refused; `error` says what and where.");
   if (auth !== "public") out["401"] ??= errorAnswer("Not signed in, or the token is unknown, expired or revoked.");
@@ -145,6 +145,16 @@ export function buildOpenApiDocument(operations: ApiOperation[] = apiOperations)
     tags.add(tag);
     const who = entry ? callersOf(entry.allow) : "Not in the registry.";
     const parameters = parametersOf(op);
+    // The registry says which routes refuse personal tokens (e.g. minting one); an operation may say so itself.
+    const auth: ApiAuth =
+      op.auth ?? ((entry as { sessionOnly?: boolean } | undefined)?.sessionOnly ? "session" : "any");
+    const scope = op.method === "GET" ? "read" : "read-write";
+    const tokenNote =
+      auth === "any"
+        ? `Personal tokens: scope \`${scope}\` or wider.`
+        : auth === "session"
+          ? "Browser session only; tokens are refused."
+          : "";
     (paths[op.path] ??= {})[op.method.toLowerCase()] = {
       operationId: `${op.method.toLowerCase()}${op.path
         .replace(/^\/api/, "")
@@ -154,14 +164,15 @@ export function buildOpenApiDocument(operations: ApiOperation[] = apiOperations)
         .map((w) => w[0]!.toUpperCase() + w.slice(1))
         .join("")}`,
       summary: op.summary,
-      description: [op.description, `Who may call: ${who}`].filter(Boolean).join("\n\n"),
+      description: [op.description, tokenNote, `Who may call: ${who}`].filter(Boolean).join("\n\n"),
       tags: [tag],
-      security: SECURITY[op.auth ?? "any"],
+      security: SECURITY[auth],
       ...(parameters.length ? { parameters } : {}),
       ...(op.body ? { requestBody: requestBodyOf(op) } : {}),
-      responses: responsesOf(op),
+      responses: responsesOf(op, auth),
       "x-registry-id": id,
       "x-callers": entry ? [...entry.allow] : [],
+      ...(auth === "any" ? { "x-token-scope": scope } : {}),
     };
   }
   return {

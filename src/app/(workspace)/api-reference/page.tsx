@@ -51,7 +51,9 @@ function fieldsOf(s: Schema, prefix = ""): { name: string; required: boolean; ty
   const required = new Set((s.required ?? []) as string[]);
   return Object.entries(props).flatMap(([k, p]) => {
     const name = prefix + k;
-    const row = { name, required: required.has(k), type: typeOf(p), note: p.description as string | undefined };
+    const unit = unitOf(k);
+    const type = unit ? `${typeOf(p)} (${unit})` : typeOf(p);
+    const row = { name, required: required.has(k), type, note: p.description as string | undefined };
     return p.type === "object" && p.properties ? [{ ...row, type: "object" }, ...fieldsOf(p, `${name}.`)] : [row];
   });
 }
@@ -68,6 +70,37 @@ function authOf(op: Operation): string {
   const names = op.security.flatMap((r) => Object.keys(r));
   if (names.length === 0) return "no sign-in";
   return names.includes("bearerAuth") ? "session or personal token" : "browser session only";
+}
+
+/** Units the field names carry by the project's naming rule (`concentrationMm`, `volumeUl`, `thresholdPct`). */
+const UNIT_SUFFIXES: [RegExp, string][] = [
+  [/Pct$/, "%"],
+  [/Mm$/, "mM"],
+  [/Um$/, "µM"],
+  [/Nm$/, "nM"],
+  [/Ul$/, "µL"],
+  [/Ml$/, "mL"],
+  [/Mg$/, "mg"],
+];
+function unitOf(name: string): string | null {
+  return UNIT_SUFFIXES.find(([re]) => re.test(name))?.[1] ?? null;
+}
+
+/** Renders `backticked` words of a description as code. */
+function Prose({ text }: { text: string }) {
+  return (
+    <>
+      {text.split("`").map((part, i) =>
+        i % 2 ? (
+          <code key={i} className="font-mono">
+            {part}
+          </code>
+        ) : (
+          part
+        ),
+      )}
+    </>
+  );
 }
 
 function slug(s: string) {
@@ -150,7 +183,9 @@ function OperationCard({ path, method, op }: { path: string; method: string; op:
         {purpose ? (
           <>
             <dt className="text-ink-muted">Notes</dt>
-            <dd>{purpose}</dd>
+            <dd>
+              <Prose text={purpose} />
+            </dd>
           </>
         ) : null}
       </dl>
@@ -171,7 +206,10 @@ function OperationCard({ path, method, op }: { path: string; method: string; op:
                   {p.required ? <span className="text-fail"> *</span> : null}
                 </td>
                 <td className="text-xs text-ink-muted">{p.in}</td>
-                <td className="font-mono text-xs text-ink-soft">{typeOf(p.schema)}</td>
+                <td className="font-mono text-xs text-ink-soft">
+                  {typeOf(p.schema)}
+                  {unitOf(p.name) ? ` (${unitOf(p.name)})` : ""}
+                </td>
               </tr>
             ))}
           </tbody>
@@ -214,7 +252,9 @@ function OperationCard({ path, method, op }: { path: string; method: string; op:
         {Object.entries(op.responses).map(([status, r]) => (
           <li key={status}>
             <span className={`num font-mono ${Number(status) < 400 ? "text-pass" : "text-ink-muted"}`}>{status}</span>{" "}
-            <span className="text-ink-soft">{r.description}</span>
+            <span className="text-ink-soft">
+              <Prose text={r.description} />
+            </span>
           </li>
         ))}
       </ul>
