@@ -100,14 +100,14 @@ export const apiOperations: ApiOperation[] = [
     method: "GET",
     path: "/api/me/digest",
     summary: "Whether I receive each of my campaigns' weekly digest",
-    responses: { 200: ok("`items`: one per campaign of mine, with `receive`.") },
+    responses: { 200: { description: "One per campaign of mine.", schema: myDigest.GetMyDigestResponse } },
   },
   {
     method: "PUT",
     path: "/api/me/digest",
     summary: "Stop or resume my own digest of one campaign",
     body: { schema: myDigest.PutMyDigestBody, kind: "json" },
-    responses: { 200: ok("`campaignId` and the new `receive`.") },
+    responses: { 200: { description: "The new setting.", schema: myDigest.PutMyDigestResponse } },
   },
   // Campaigns
   {
@@ -115,7 +115,9 @@ export const apiOperations: ApiOperation[] = [
     path: "/api/campaigns",
     summary: "Create a campaign",
     body: { schema: campaignsSchema.PostCampaignBody, kind: "json" },
-    responses: { 201: ok("`id`, `name`, `targetEnzyme`; members are then invited.") },
+    responses: {
+      201: { description: "The campaign; members are then invited.", schema: campaignsSchema.PostCampaignResponse },
+    },
   },
   {
     method: "GET",
@@ -142,7 +144,9 @@ export const apiOperations: ApiOperation[] = [
     path: "/api/campaigns/{campaignId}/members",
     summary: "Invite a person by e-mail (one-time link, valid 72 hours)",
     body: { schema: members.PostMemberBody, kind: "json" },
-    responses: { 201: ok("`invitationId`, `email`, `role`, `expiresAt`; the link goes only to the invitee.") },
+    responses: {
+      201: { description: "The invitation; the link goes only to the invitee.", schema: members.PostMemberResponse },
+    },
   },
   {
     method: "PATCH",
@@ -150,7 +154,7 @@ export const apiOperations: ApiOperation[] = [
     summary: "Change a member's role",
     params: members.memberParams,
     body: { schema: members.PatchMemberBody, kind: "json" },
-    responses: { 200: ok("`userId` and the new `role`.") },
+    responses: { 200: { description: "`userId` and the new `role`.", schema: members.PatchMemberResponse } },
   },
   {
     method: "DELETE",
@@ -165,7 +169,7 @@ export const apiOperations: ApiOperation[] = [
     path: "/api/audit",
     summary: "The audit log, newest first, with the values before and after",
     query: audit.GetAuditQuery,
-    responses: { 200: ok("`items` and `total` of every matching row.") },
+    responses: { 200: { description: "`items` and `total` of every matching row.", schema: audit.GetAuditResponse } },
   },
   // Compound registry
   {
@@ -217,7 +221,7 @@ export const apiOperations: ApiOperation[] = [
     summary: "Add a batch (numbered next), optionally with a stock solution",
     params: compound.registryIdParam,
     body: { schema: batches.PostBatchBody, kind: "json" },
-    responses: { 201: ok("`registryId` and the new `batchNumber`.") },
+    responses: { 201: { description: "`registryId` and the new `batchNumber`.", schema: batches.PostBatchResponse } },
   },
   {
     method: "GET",
@@ -250,7 +254,7 @@ export const apiOperations: ApiOperation[] = [
     path: "/api/libraries",
     summary: "Create a library, optionally with members (all found or nothing)",
     body: { schema: libraries.PostLibraryBody, kind: "json" },
-    responses: { 201: ok("`id`, `name`, `added`.") },
+    responses: { 201: { description: "The library.", schema: libraries.PostLibraryResponse } },
   },
   {
     method: "GET",
@@ -263,7 +267,12 @@ export const apiOperations: ApiOperation[] = [
     path: "/api/libraries/{libraryId}/members",
     summary: "Add compounds to a library by registry ID (one unknown ID refuses all)",
     body: { schema: libraryMembers.PostLibraryMembersBody, kind: "json" },
-    responses: { 200: ok("`libraryId`, `added`, `already` (members before).") },
+    responses: {
+      200: {
+        description: "`added`, and `already` (members before).",
+        schema: libraryMembers.PostLibraryMembersResponse,
+      },
+    },
   },
   {
     method: "DELETE",
