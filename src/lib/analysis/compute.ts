@@ -188,6 +188,11 @@ export type DoseResponseOptions = {
    * % activity or a raw signal.
    */
   response?: DoseResponseScale;
+  /**
+   * The sentences' wording: the concentration unit they name ("µM"), and whether outlier
+   * sentences name the points by their wells. The engine is unit-agnostic: bare numbers without it.
+   */
+  wording?: { concentrationUnit: string; wells: boolean };
 };
 
 export type DoseResponseScale = ResponseScale;
@@ -321,6 +326,8 @@ export function analyseDoseResponseSeries(
     ...(opts.response ? { response: opts.response } : {}),
     ...(opts.fixTopPct !== null && opts.fixTopPct !== undefined ? { fixedTop: opts.fixTopPct } : {}),
     ...(opts.fixBottomPct !== null && opts.fixBottomPct !== undefined ? { fixedBottom: opts.fixBottomPct } : {}),
+    ...(opts.wording ? { units: { concentration: opts.wording.concentrationUnit } } : {}),
+    ...(opts.wording?.wells ? { rowNames: Array.from(x, (_, k) => where(k)[1]) } : {}),
   });
   const weighting: WeightingDecision = {
     used: c.weighting.used,
@@ -447,7 +454,8 @@ export function analyseDoseResponse(
     for (const r of list)
       if (r.concentrationUm !== null && r.inhibitionPct !== null && Number.isFinite(r.inhibitionPct))
         pts.push({ concentrationUm: r.concentrationUm, inhibitionPct: r.inhibitionPct, runId: r.runId, well: r.well });
-    out.push(analyseDoseResponseCompound(id, pts, opts));
+    // The app's concentrations are µM and its points wells: the sentences say so.
+    out.push(analyseDoseResponseCompound(id, pts, { wording: { concentrationUnit: "µM", wells: true }, ...opts }));
   }
   return out;
 }

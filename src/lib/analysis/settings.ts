@@ -35,7 +35,14 @@ export function engineOptionsFrom(s: RecordedFitSettings) {
   const robust = s.resolved.robust ?? s.robust ?? false;
   const enzymeUm = s.resolved.enzymeNm !== null ? s.resolved.enzymeNm / 1000 : null;
   return {
-    doseResponse: { fixTopPct: s.fixTopPct ?? null, fixBottomPct: s.fixBottomPct ?? null, enzymeUm, weighting, robust },
+    doseResponse: {
+      fixTopPct: s.fixTopPct ?? null,
+      fixBottomPct: s.fixBottomPct ?? null,
+      enzymeUm,
+      weighting,
+      robust,
+      wording: { concentrationUnit: "µM", wells: true },
+    },
     // The app's concentrations are µM and its rows wells: the sentences say so (the command words its own units).
     mechanism: { weighting, enzymeUm, robust, wording: { concentrationUnit: "µM", wells: true } },
   };

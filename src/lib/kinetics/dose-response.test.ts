@@ -313,6 +313,72 @@ describe("input errors name what is wrong and where", () => {
   });
 });
 
+describe("sentences name the concentration unit and the wells when given (seeded invented data)", () => {
+  const units = { concentration: "µM" };
+  const names = CONC.map((_, k) => `P${k + 1}`);
+
+  it("inactive, step and below-range sentences carry the unit", () => {
+    const flat = analyseCurve(...xy(series(1000, () => 0, 5)), { units });
+    expect(flat.reason).toMatch(/^< 50 % inhibition at the top concentration 30 µM: maximum -?[\d.]+ %$/);
+    const step = analyseCurve(
+      CONC,
+      CONC.map((c, k) => (c > 0.5 ? 97 : 3) + (k % 2 ? 1 : -1)),
+      { units },
+    );
+    expect(step.reason).toMatch(/^a step \(Hill .*\) between 0\.3 µM and 0\.9487 µM: /);
+    const below = analyseCurve(...xy(series(5000, (x) => inhibition(x, 1e-4, 1), 3)), { units });
+    expect(below.reason).toBe("≥ 50 % inhibition at every concentration: IC50 below the tested range (< 0.0009487 µM)");
+  });
+
+  it("a proposed outlier is named by its well, and the IC50 without it has its unit", () => {
+    const c = randomCurve(1002);
+    const y = [...c.y];
+    y[7] = y[7]! > 50 ? y[7]! - 90 : y[7]! + 90;
+    const a = analyseCurve(c.x, y, { units, rowNames: names });
+    expect(a.reason).toMatch(/; without the proposed outlier \(well P8\) the curve is fitted, IC50 [\d.]+ µM$/);
+  });
+
+  it("400 varied curves: every concentration in a reason has the unit; without units the texts are the same bare", () => {
+    let reasons = 0;
+    for (let s = 0; s < 400; s++) {
+      const u = seededRandom(90000 + s);
+      const z = seededNormal(seededRandom(91000 + s));
+      const ic50 = Math.pow(10, -3 + 5.5 * u());
+      const hill = 0.5 + 8 * u() ** 2;
+      const max = 40 + 80 * u();
+      const sd = 3 + 25 * u();
+      const x: number[] = [];
+      const y: number[] = [];
+      for (const c of CONC)
+        for (let r = 0; r < 2; r++) {
+          x.push(c);
+          y.push(inhibition(c, ic50, hill, max) + sd * z());
+        }
+      if (s % 7 === 0) y[5]! += 90;
+      const plain = analyseCurve(x, y);
+      const worded = analyseCurve(x, y, { units });
+      expect(worded.outcome).toBe(plain.outcome);
+      expect(worded.fit?.ic50).toBe(plain.fit?.ic50);
+      expect(worded.reason?.replaceAll(" µM", "")).toBe(plain.reason);
+      const t = worded.reason;
+      if (!t) continue;
+      reasons++;
+      for (const m of t.matchAll(/(top concentration|range \([<>]|between|and|IC50) (-?\d[\d.e+-]*)(.{0,3})/g))
+        expect(m[3], `${m[0]} in: ${t}`).toMatch(/^ µM/);
+      for (const m of t.matchAll(/decades \(([^)]*)\)/g)) expect(m[1], t).toMatch(/^[\d.e+-]+–[\d.e+-]+ µM$/);
+      // Outcomes in words, not as codes ("not determined", not "not-determined").
+      expect(t).not.toMatch(/not-determined/);
+    }
+    expect(reasons).toBeGreaterThan(100);
+  });
+
+  it("row names must match the points", () => {
+    expect(() => analyseCurve([1, 2, 3, 4, 5], [1, 2, 3, 4, 5], { rowNames: ["A1"] })).toThrow(
+      /1 row names for 5 points/,
+    );
+  });
+});
+
 function xy(s: { x: number[]; y: number[] }): [number[], number[]] {
   return [s.x, s.y];
 }

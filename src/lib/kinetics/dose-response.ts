@@ -47,6 +47,7 @@ import {
 import { findOutliers, rsdr, DEFAULT_OUTLIER_Q } from "./robust";
 import { chooseWeighting, concentrationKeys, relativeWeightFactors, scaleRows, type Weighting } from "./weighting";
 import { MIN_DOSE_RESPONSE_CONCENTRATIONS, MIN_DOSE_RESPONSE_POINTS } from "./table-input";
+import type { JudgementUnits } from "./mechanism-judgement";
 
 export type CurveOutcome = "fitted" | "inactive" | "not-determined" | "activator";
 
@@ -75,6 +76,13 @@ export interface AnalyseCurveOptions {
   response?: ResponseScale;
   fixedTop?: number;
   fixedBottom?: number;
+  /**
+   * Unit label the sentences attach to concentrations ("µM"); the engine is unit-agnostic, so
+   * bare numbers by default. Only `concentration` is read (responses are % or the caller's signal).
+   */
+  units?: JudgementUnits;
+  /** Name of each point for the sentences ("well C07"); by default points are not named. */
+  rowNames?: readonly string[];
 }
 
 export interface CurveOutlier {
@@ -143,6 +151,8 @@ const LEAVE_OUT_GAIN = 0.5;
 interface Settings {
   weighting: Weighting;
   response: ResponseScale;
+  /** " µM" (with its space) or "": appended to concentrations in sentences. */
+  unit: string;
   fixedTop?: number;
   fixedBottom?: number;
 }
@@ -186,6 +196,8 @@ export function analyseCurve(
   }
   if (options.keys && options.keys.length !== n)
     throw new RangeError(`analyseCurve: ${options.keys.length} keys for ${n} points`);
+  if (options.rowNames && options.rowNames.length !== n)
+    throw new RangeError(`analyseCurve: ${options.rowNames.length} row names for ${n} points`);
   const requested = options.weighting ?? "auto";
   if (requested !== "auto" && requested !== "none" && requested !== "relative")
     throw new RangeError(`analyseCurve: weighting must be auto, none or relative (got ${String(requested)})`);
@@ -247,9 +259,19 @@ export function analyseCurve(
   }
   c.flags = [...c.flags, "outliers-proposed"];
   if (c.outcome !== "fitted") {
-    const wells = base.outliers.length === 1 ? "the proposed outlier" : `the ${base.outliers.length} proposed outliers`;
+    const one = base.outliers.length === 1;
+    const named = options.rowNames
+      ? ` (${pointsText(
+          base.outliers.map((o) => o.index),
+          options.rowNames,
+        )})`
+      : "";
+    const wells = (one ? "the proposed outlier" : `the ${base.outliers.length} proposed outliers`) + named;
     const ic50 = without.fit?.ic50;
-    const then = without.outcome === "fitted" && ic50 ? `fitted, IC50 ${fmtC(ic50)}` : without.outcome;
+    const then =
+      without.outcome === "fitted" && ic50
+        ? `fitted, IC50 ${fmtC(ic50, settings.unit)}`
+        : OUTCOME_WORDS[without.outcome];
     c.reason = `${c.reason}; without ${wells} the curve is ${then}`;
   }
   return assemble(c, base, "all-points", { ...without, basis: "outliers-excluded" });
@@ -262,7 +284,8 @@ function indices(n: number): number[] {
 }
 
 function curveSettings(weighting: Weighting, response: Settings["response"], options: AnalyseCurveOptions): Settings {
-  const settings: Settings = { weighting, response };
+  const unit = options.units?.concentration ? ` ${options.units.concentration}` : "";
+  const settings: Settings = { weighting, response, unit };
   if (options.fixedTop !== undefined) settings.fixedTop = options.fixedTop;
   if (options.fixedBottom !== undefined) settings.fixedBottom = options.fixedBottom;
   return settings;
@@ -293,7 +316,14 @@ function autoWeighting(
   const keep = (_: unknown, i: number) => !out.has(i);
   const again = chooseWeighting(keys.filter(keep), ys.filter(keep));
   if (again.weighting === "relative") return choice;
-  const wells = out.size === 1 ? "the well" : `the ${out.size} wells`;
+  const wells = options.rowNames
+    ? `${pointsText(
+        [...out].sort((a, b) => a - b),
+        options.rowNames,
+      )}, which`
+    : out.size === 1
+      ? "the well"
+      : `the ${out.size} wells`;
   return {
     ...again,
     reason: `${again.reason}, judged without ${wells} an unweighted outlier search proposes (with ${out.size === 1 ? "it" : "them"}: ${choice.reason})`,
@@ -502,18 +532,18 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
       if (topInh <= -activation) {
         out.outcome = "activator";
         out.maxActivationPct = -groups.minMean;
-        out.reason = `activity rises with concentration: ${fmt(-topMean)} % above the vehicle at the top concentration ${fmtC(xTop)} (noise SD ${fmt(noise)} %), an activator, not an inhibitor`;
+        out.reason = `activity rises with concentration: ${fmt(-topMean)} % above the vehicle at the top concentration ${fmtC(xTop, s.unit)} (noise SD ${fmt(noise)} %), an activator, not an inhibitor`;
         return judged;
       }
     }
     if (groups.maxMean < INACTIVE_BELOW_PCT && (fittedTopInh === null || fittedTopInh < INACTIVE_BELOW_PCT)) {
       out.outcome = "inactive";
-      out.reason = `< ${INACTIVE_BELOW_PCT} % inhibition at the top concentration ${fmtC(xTop)}: maximum ${fmt(groups.maxMean)} %`;
+      out.reason = `< ${INACTIVE_BELOW_PCT} % inhibition at the top concentration ${fmtC(xTop, s.unit)}: maximum ${fmt(groups.maxMean)} %`;
       return judged;
     }
   }
   if (percent && groups.minMean >= INACTIVE_BELOW_PCT) {
-    out.reason = `≥ ${INACTIVE_BELOW_PCT} % inhibition at every concentration: IC50 below the tested range (< ${fmtC(xLow)})`;
+    out.reason = `≥ ${INACTIVE_BELOW_PCT} % inhibition at every concentration: IC50 below the tested range (< ${fmtC(xLow, s.unit)})`;
     out.flags.push("ic50-below-range");
     return judged;
   }
@@ -543,7 +573,7 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
     out.flags.push("steep-step");
     if (bracket) {
       out.ic50Bracket = bracket;
-      out.reason = `a step (Hill ${fmt(fit.hill)}) between ${fmtC(bracket[0])} and ${fmtC(bracket[1])}: the IC50 lies between them but the data do not fix it; test concentrations inside the step (steep curves may mean aggregation or tight binding)`;
+      out.reason = `a step (Hill ${fmt(fit.hill)}) between ${fmtC(bracket[0], s.unit)} and ${fmtC(bracket[1], s.unit)}: the IC50 lies between them but the data do not fix it; test concentrations inside the step (steep curves may mean aggregation or tight binding)`;
     } else {
       out.reason = `a step (Hill ${fmt(fit.hill)}) outside the tested concentrations: the IC50 is not fixed by the data`;
     }
@@ -553,7 +583,7 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
   const lLow = Math.log10(xLow);
   if (fit.log10Ic50 > lTop + RANGE_SLACK_LOG10 || fit.log10Ic50 < lLow - RANGE_SLACK_LOG10) {
     const above = fit.log10Ic50 > lTop;
-    out.reason = `IC50 ${above ? "above" : "below"} the tested range (${above ? ">" : "<"} ${fmtC(above ? xTop : xLow)}) by more than half a decade: not determined by these data`;
+    out.reason = `IC50 ${above ? "above" : "below"} the tested range (${above ? ">" : "<"} ${fmtC(above ? xTop : xLow, s.unit)}) by more than half a decade: not determined by these data`;
     out.flags.push(above ? "ic50-above-range" : "ic50-below-range");
     return judged;
   }
@@ -562,7 +592,7 @@ function judge(xAll: number[], yAll: number[], keysAll: readonly string[] | null
     out.reason =
       lo === null || hi === null
         ? "the 95 % confidence interval of the IC50 is unbounded: not determined by these data"
-        : `the 95 % confidence interval of the IC50 spans ${fmt(Math.log10(hi / lo))} decades (${fmtC(lo)}–${fmtC(hi)}): not determined by these data`;
+        : `the 95 % confidence interval of the IC50 spans ${fmt(Math.log10(hi / lo))} decades (${fmtEnd(lo)}–${fmtEnd(hi)}${s.unit}): not determined by these data`;
     out.flags.push("ci-wider-than-10-fold");
     return judged;
   }
@@ -772,8 +802,24 @@ function cachedRunsTest(res: readonly number[]): RunsTest {
 function fmt(v: number): string {
   return Number.isFinite(v) ? String(Number(v.toPrecision(3))) : String(v);
 }
-function fmtC(v: number): string {
-  return String(Number(v.toPrecision(4)));
+/** A concentration for a sentence, 4 significant figures, with `unit` (" µM" or "") after it. */
+function fmtC(v: number, unit = ""): string {
+  return String(Number(v.toPrecision(4))) + unit;
+}
+/** A fitted CI end: 3 significant figures, powers of ten beyond 10⁻³…10⁵ ("1.4e-5", not "0.00001445"). */
+function fmtEnd(v: number): string {
+  const a = Math.abs(v);
+  return a !== 0 && (a < 1e-3 || a >= 1e5) ? v.toExponential(1) : fmt(v);
+}
+const OUTCOME_WORDS: Record<CurveOutcome, string> = {
+  fitted: "fitted",
+  inactive: "inactive",
+  activator: "an activator",
+  "not-determined": "not determined",
+};
+/** "well C07" or "wells C07, D07" from point indices and the caller's names. */
+function pointsText(idx: readonly number[], names: readonly string[]): string {
+  return `${idx.length > 1 ? "wells" : "well"} ${idx.map((k) => names[k] ?? `point ${k + 1}`).join(", ")}`;
 }
 function fmtP(p: number): string {
   return Number.isFinite(p) ? p.toPrecision(2) : "n/a";
