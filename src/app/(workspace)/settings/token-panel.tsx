@@ -171,9 +171,9 @@ export function TokenPanel({ campaigns }: { campaigns: CampaignChoice[] }) {
               <th>Name</th>
               <th>Access</th>
               <th>Campaigns</th>
-              <th>Created</th>
+              <th>Created (UTC)</th>
               <th>Last used</th>
-              <th>Expires</th>
+              <th>Expires (UTC)</th>
               <th>State</th>
               <th />
             </tr>
@@ -186,10 +186,14 @@ export function TokenPanel({ campaigns }: { campaigns: CampaignChoice[] }) {
                 <td>
                   {t.campaigns ? t.campaigns.map((c) => c.name ?? "(deleted campaign)").join(", ") : "All of yours"}
                 </td>
-                <td>{day(t.createdAt)}</td>
-                <td title="Recorded to the minute">{when(t.lastUsedAt)}</td>
-                <td>{day(t.expiresAt)}</td>
-                <td>{t.status === "revoked" ? `revoked ${day(t.revokedAt)}` : t.status}</td>
+                <td className="whitespace-nowrap">{day(t.createdAt)}</td>
+                <td className="whitespace-nowrap" title="Recorded to the minute">
+                  {when(t.lastUsedAt)}
+                </td>
+                <td className="whitespace-nowrap">{day(t.expiresAt)}</td>
+                <td className="whitespace-nowrap">
+                  {t.status === "revoked" ? `revoked ${day(t.revokedAt)}` : t.status}
+                </td>
                 <td>
                   {t.status === "active" ? (
                     <button type="button" className="btn-danger px-2 py-0.5 text-xs" onClick={() => revoke(t)}>

@@ -1,4 +1,4 @@
-import { requireAdmin, requireUser } from "@/server/auth/guard";
+import { requireAdmin, requireUser, tokenExcludesCampaign } from "@/server/auth/guard";
 import { campaignsFor, createCampaign } from "@/server/services/campaigns";
 import { json, parseJson, route } from "@/server/http";
 import { PostCampaignBody, PostCampaignResponse } from "./schema";
@@ -9,7 +9,8 @@ export const dynamic = "force-dynamic";
 /** The campaigns the user belongs to (an admin: all), with the user's role in each. */
 export const GET = route(async () => {
   const user = await requireUser();
-  const list = await campaignsFor(user);
+  // A token limited to chosen campaigns lists only those.
+  const list = (await campaignsFor(user)).filter((c) => !tokenExcludesCampaign(c.id));
   return json({
     items: list.map((c) => ({
       id: c.id,

@@ -1,4 +1,4 @@
-import { requireUser } from "@/server/auth/guard";
+import { requireUser, tokenExcludesCampaign } from "@/server/auth/guard";
 import { campaignsFor } from "@/server/services/campaigns";
 import { json, route } from "@/server/http";
 
@@ -7,7 +7,8 @@ export const dynamic = "force-dynamic";
 /** The signed-in user, their global role and their memberships. 401 JSON without a session. */
 export const GET = route(async () => {
   const user = await requireUser();
-  const list = await campaignsFor(user);
+  // A token limited to chosen campaigns lists only those.
+  const list = (await campaignsFor(user)).filter((c) => !tokenExcludesCampaign(c.id));
   return json({
     user: { id: user.id, email: user.email, name: user.name },
     globalRole: user.globalRole,

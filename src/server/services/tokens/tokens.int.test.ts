@@ -16,6 +16,8 @@ import * as tokenRoute from "@/app/api/tokens/[tokenId]/route";
 import * as hitsRoute from "@/app/api/campaigns/[campaignId]/hits/route";
 import * as viewsRoute from "@/app/api/campaigns/[campaignId]/hits/views/route";
 import * as plateMapsRoute from "@/app/api/campaigns/[campaignId]/plate-maps/route";
+import * as campaignsRoute from "@/app/api/campaigns/route";
+import * as meRoute from "@/app/api/me/route";
 import * as settingsActions from "@/app/(workspace)/settings/actions";
 import { TOKEN_DEFAULT_DAYS } from "@/lib/api-tokens";
 
@@ -157,6 +159,15 @@ describe("personal API tokens", () => {
     const other = await hits(w.otherCampaignId);
     expect(other.status).toBe(404);
     expect((other.json as { error: string }).error).toBe("No such campaign.");
+    // The lists name only the chosen campaign; a session still sees both.
+    const listed = await withToken(campaignsRoute.GET, token, { path: "/api/campaigns" });
+    expect((listed.json as { items: { id: string }[] }).items.map((c) => c.id)).toEqual([w.campaignId]);
+    const me = await withToken(meRoute.GET, token, { path: "/api/me" });
+    expect((me.json as { memberships: { campaignId: string }[] }).memberships.map((m) => m.campaignId)).toEqual([
+      w.campaignId,
+    ]);
+    const session = await callRoute(campaignsRoute.GET, { user: w.people.lead, path: "/api/campaigns" });
+    expect((session.json as { items: unknown[] }).items).toHaveLength(2);
     await db
       .delete(memberships)
       .where(and(eq(memberships.campaignId, w.otherCampaignId), eq(memberships.userId, w.people.lead.id)));
