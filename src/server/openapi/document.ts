@@ -151,7 +151,9 @@ export function buildOpenApiDocument(operations: ApiOperation[] = apiOperations)
     const scope = op.method === "GET" ? "read" : "read-write";
     const tokenNote =
       auth === "any"
-        ? `Personal tokens: scope \`${scope}\` or wider.`
+        ? scope === "read"
+          ? "Personal tokens: a `read` or `read-write` token."
+          : "Personal tokens: a `read-write` token (a `read` token is refused)."
         : auth === "session"
           ? "Browser session only; tokens are refused."
           : "";
