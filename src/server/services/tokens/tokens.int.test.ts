@@ -18,6 +18,10 @@ import * as viewsRoute from "@/app/api/campaigns/[campaignId]/hits/views/route";
 import * as plateMapsRoute from "@/app/api/campaigns/[campaignId]/plate-maps/route";
 import * as campaignsRoute from "@/app/api/campaigns/route";
 import * as meRoute from "@/app/api/me/route";
+import * as compoundRoute from "@/app/api/compounds/[registryId]/route";
+import { registerCompound } from "@/server/services/compounds";
+import { uniqueSmiles } from "@/test/compounds";
+import { plateMaps } from "@/server/db/schema";
 import * as settingsActions from "@/app/(workspace)/settings/actions";
 import { TOKEN_DEFAULT_DAYS } from "@/lib/api-tokens";
 
@@ -171,6 +175,32 @@ describe("personal API tokens", () => {
     await db
       .delete(memberships)
       .where(and(eq(memberships.campaignId, w.otherCampaignId), eq(memberships.userId, w.people.lead.id)));
+  });
+
+  it("a campaign-limited token reads only the compounds of its campaigns (a session reads those of all of them)", async () => {
+    const world = await makeWorld();
+    await db
+      .insert(memberships)
+      .values({ campaignId: world.otherCampaignId, userId: world.people.viewer.id, role: "viewer" });
+    const admin = owner(world.people.admin, "admin");
+    const r = await registerCompound(admin, { smiles: uniqueSmiles(), name: `Only on B ${world.tag} (invented)` });
+    await db.insert(plateMaps).values({
+      campaignId: world.otherCampaignId,
+      name: `B map ${world.tag} (invented)`,
+      format: 96,
+      wells: [{ well: "A1", role: "sample", compound: r.registryId, concentrationUm: 10 }],
+      sampleWells: 1,
+      neutralWells: 0,
+      fullWells: 0,
+    });
+    const { token } = await createToken(owner(world.people.viewer), {
+      name: "only A",
+      scope: "read",
+      campaignIds: [world.campaignId],
+    });
+    const opts = { path: `/api/compounds/${r.registryId}`, params: { registryId: r.registryId } };
+    expect((await callRoute(compoundRoute.GET, { user: world.people.viewer, ...opts })).status).toBe(200);
+    expect((await withToken(compoundRoute.GET, token, opts)).status).toBe(404);
   });
 
   it("a removed member's token loses the campaign at once; a demoted admin's token loses administration", async () => {
