@@ -29,6 +29,8 @@ export interface ViewOptions {
   fixTop: number | null;
   fixBottom: number | null;
   response: DoseResponseScale;
+  /** The concentration unit the file's header names ("µM"), for the sentences; null: bare numbers. */
+  concentrationUnit: string | null;
 }
 
 export interface DoseJob {
@@ -127,6 +129,8 @@ export function doseResponseView(compound: string, r: CompoundResult) {
     maxInhibition: d.maxInhibitionPct ?? null,
     maxActivation: called?.maxActivationPct ?? null,
     ic50Bracket: called?.ic50BracketUm ?? null,
+    testedRange: d.testedRangeUm ?? null,
+    fixed: fitted ? { top: d.fixed.topPct, bottom: d.fixed.bottomPct } : null,
     flags: r.flags,
     weighting: d.weighting ?? null,
     adequacy: d.adequacy ?? null,
@@ -148,6 +152,7 @@ export function doseResponseJobView(job: DoseJob, o: ViewOptions) {
       fixTopPct: o.fixTop,
       fixBottomPct: o.fixBottom,
       response: o.response,
+      ...(o.concentrationUnit ? { wording: { concentrationUnit: o.concentrationUnit, wells: false } } : {}),
     });
   } catch (e) {
     return { compound: job.compound, error: `${lineSpan(job.lines)}: ${messageOf(e)}` };
@@ -174,7 +179,7 @@ function modelView(m: ModelSummary) {
     deltaAicc: m.deltaAicc,
     akaikeWeight: m.akaikeWeight,
     fTestVsMixed: m.fTestVsMixedP === null ? null : { f: m.fTestVsMixedF ?? null, p: m.fTestVsMixedP },
-    se: { vmax: m.se.vmax, km: m.se.km, kic: m.se.kic, kiu: m.se.kiu },
+    se: { vmax: m.se.vmax, km: m.se.km, kic: m.se.kic, kiu: m.se.kiu, a: m.se.a, b: m.se.b },
     ci95: m.ci95,
     dof: m.dof,
     converged: m.converged,
@@ -185,13 +190,24 @@ function modelView(m: ModelSummary) {
 /** kmUm → km, kicUm → kic, …: the command's constants are in the file's unit. */
 const plainName = (k: string): string => (k.endsWith("Um") ? k.slice(0, -2) : k);
 
-function alternativeView(a: AlternativeModel) {
+/** An alternative model; `unit` is the file's concentration unit (null: "concentration"). */
+function alternativeView(a: AlternativeModel, unit: string | null) {
   return {
     model: a.model,
     name: a.name,
     meaning: a.meaning,
     constants: Object.fromEntries(
-      Object.entries(a.constants).map(([k, c]) => [plainName(k), { value: c.value, se: c.se, ci95: c.ci95 }]),
+      Object.entries(a.constants).map(([k, c]) => [
+        plainName(k),
+        // The app's "µM" is the file's own unit here; "rate" and a ratio's "" stay.
+        {
+          value: c.value,
+          se: c.se,
+          ci95: c.ci95,
+          unit: c.unit === "µM" ? (unit ?? "concentration") : c.unit,
+          fixed: c.fixed === true,
+        },
+      ]),
     ),
     residualActivity: a.residualActivity ?? null,
     enzyme: a.enzymeUm ?? null,
@@ -201,17 +217,19 @@ function alternativeView(a: AlternativeModel) {
     dof: a.dof,
     converged: a.converged,
     adequacy: a.adequacy,
+    exclusion: a.exclusion ?? null,
   };
 }
 
 /** One mechanism data set as printed; `lines` maps a point index back to its file line. */
-export function mechanismView(r: CompoundResult, lines: readonly number[]) {
+export function mechanismView(r: CompoundResult, lines: readonly number[], unit: string | null = null) {
   const d = r.detail as MechanismFittedDetail;
   const o = d.outliers;
   const s = d.screens;
   return {
     best: d.best,
     label: d.label,
+    n: d.n,
     labelReasons: d.labelReasons ?? [],
     recommended: d.recommended ?? null,
     recommendedReason: d.recommendedReason ?? null,
@@ -224,8 +242,9 @@ export function mechanismView(r: CompoundResult, lines: readonly number[]) {
     flags: r.flags,
     weighting: d.weightingDecision ?? { used: d.weighting, chosen: "set", reason: "" },
     enzyme: d.enzymeUm ?? null,
+    backgroundSubtracted: d.backgroundSubtracted,
     models: Object.fromEntries(Object.entries(d.models).map(([m, v]) => [m, modelView(v)])),
-    alternatives: (d.alternatives ?? []).map(alternativeView),
+    alternatives: (d.alternatives ?? []).map((a) => alternativeView(a, unit)),
     screens: s
       ? {
           substrateInhibition: s.substrateInhibition,
@@ -252,6 +271,8 @@ export function mechanismView(r: CompoundResult, lines: readonly number[]) {
             substrate: p.substrateUm,
             inhibitor: p.inhibitorUm,
             rate: p.rate,
+            residual: p.residual,
+            p: p.p,
           })),
           reported: o.reported,
           callWithout: o.callWithout,
@@ -282,6 +303,7 @@ export function mechanismJobView(job: MechanismJob, o: ViewOptions) {
       weighting: o.weighting,
       robust: o.robust,
       enzymeUm: o.enzyme,
+      ...(o.concentrationUnit ? { wording: { concentrationUnit: o.concentrationUnit, wells: false } } : {}),
     });
     const d = r.detail;
     if ("error" in d) failure = d.error.replace(/^fitMechanism: /, "");
@@ -295,6 +317,6 @@ export function mechanismJobView(job: MechanismJob, o: ViewOptions) {
     if (job.compound === null) throw new CompoundError(message);
     return { compound: job.compound, error: message };
   }
-  const view = mechanismView(r, lines);
+  const view = mechanismView(r, lines, o.concentrationUnit);
   return job.compound === null ? view : { compound: job.compound, ...view };
 }

@@ -169,6 +169,8 @@ describe("analyze dose-response (R datasets::DNase run 1; expected values comput
       "maxInhibition",
       "maxActivation",
       "ic50Bracket",
+      "testedRange",
+      "fixed",
       "flags",
       "weighting",
       "adequacy",
@@ -247,6 +249,62 @@ describe("analyze on difficult invented data: outcomes, --enzyme, --robust, --we
     // The proposal names the file line of the well.
     const line = (r.outliers as { proposed: { line: number }[] }).proposed[0]!.line;
     expect(difficultDoseCsv.split("\n")[line - 1]).toMatch(/^wild-well,100,0$/);
+  });
+
+  it("the header's concentration unit is named in the sentences; without one they give bare numbers", () => {
+    const withUnit = difficultDoseCsv.replace(/^compound,concentration,/, "compound,concentration (µM),");
+    const named = ok(run(["dose-response", csv("unit.csv", withUnit)])) as DoseOut[];
+    const bare = ok(run(["dose-response", csv("bare.csv", difficultDoseCsv)])) as DoseOut[];
+    const inactive = named.find((o) => o.compound === "inactive")!;
+    expect(inactive.reason).toMatch(/^< 50 % inhibition at the top concentration \d[\d.]* µM: maximum/);
+    expect(bare.find((o) => o.compound === "inactive")!.reason).toBe((inactive.reason as string).replace(" µM", ""));
+    // Figures are the same either way.
+    expect(named.map((o) => o.ic50)).toEqual(bare.map((o) => o.ic50));
+    expect(inactive.testedRange).toEqual([expect.any(Number), expect.any(Number)]);
+    expect(named.find((o) => o.compound === "clean")!.fixed).toEqual({ top: null, bottom: null });
+  });
+
+  it("mechanism: n, background, alternative exclusions and units, β's fixed mark, outlier residuals and p", () => {
+    const mech = ok(run(["mechanism", csv("fields.csv", difficultMechanismCsv), "--robust"])) as MechOut[];
+    type Constant = { value: number | null; unit: string; fixed: boolean };
+    type Alt = { model: string; exclusion: string | null; constants: Record<string, Constant> };
+    for (const m of mech) {
+      if ("error" in m) continue;
+      expect(typeof m.n).toBe("number");
+      expect(typeof m.backgroundSubtracted).toBe("boolean");
+      for (const a of m.alternatives as Alt[]) {
+        expect(a).toHaveProperty("exclusion");
+        // The file's header says µM: the constants carry it; Vmax is a rate, β a ratio.
+        expect(a.constants.km!.unit).toBe("µM");
+        expect(a.constants.vmax!.unit).toBe("rate");
+        if (a.constants.beta) expect(a.constants.beta.unit).toBe("");
+        for (const c of Object.values(a.constants)) expect(typeof c.fixed).toBe("boolean");
+      }
+    }
+    // Invented: a competitive matrix (Vmax 1, Km 10, Ki 2, µM), a little deterministic scatter, one rate 40 % high.
+    const rows: string[] = [];
+    for (const i of [0, 1, 2, 4, 8])
+      for (const sub of [2, 5, 10, 20, 50, 100])
+        for (let rep = 0; rep < 2; rep++) {
+          const k = rows.length;
+          const v = sub / (10 * (1 + i / 2) + sub) + 0.01 * Math.sin(7.3 * k + 1);
+          rows.push(`wild,${sub},${i},${(k === 27 ? 1.4 : 1) * v}`);
+        }
+    const wildCsv = "compound,substrate (µM),inhibitor (µM),rate\n" + rows.join("\n") + "\n";
+    mech.push(...(ok(run(["mechanism", csv("wild-mech.csv", wildCsv)])) as MechOut[]));
+    const proposed = mech.flatMap(
+      (m) =>
+        ((m.outliers as { proposed: Record<string, unknown>[] } | null)?.proposed ?? []) as Record<string, unknown>[],
+    );
+    expect(proposed.length).toBeGreaterThan(0);
+    for (const p of proposed) {
+      expect(p).toHaveProperty("residual");
+      expect(p).toHaveProperty("p");
+    }
+    // The wild rate (data row 28, file line 29) stands out with its standardised residual and ROUT p.
+    const wild = proposed.find((p) => p.line === 29)!;
+    expect(wild.residual as number).toBeGreaterThan(5);
+    expect(wild.p as number).toBeLessThan(1e-6);
   });
 
   it("--weighting=relative is used as set and said so", () => {

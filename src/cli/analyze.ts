@@ -124,7 +124,26 @@ function parseOptions(command: Command, args: readonly string[]): CommandOptions
     fixBottom: number("fix-bottom", false),
     // "auto" is resolved from the file's header in prepare(); signal until then.
     response: RESPONSES[response === "auto" ? "signal" : response]!,
+    // Read from the file's header in prepare().
+    concentrationUnit: null,
   };
+}
+
+/**
+ * The concentration unit the header names, for the sentences: "concentration (µM)" for
+ * dose-response, "substrate (µM)" or "inhibitor (µM)" for mechanism (the reader has already
+ * required the two to agree). Null when there is none or it does not look like a unit label
+ * (at most 12 letters, digits, "/", "." or spaces): the sentences then give bare numbers.
+ */
+export function concentrationUnitFromHeader(text: string, command: Command): string | null {
+  const names = command === "dose-response" ? ["concentration"] : ["substrate", "inhibitor"];
+  for (const cell of firstNonBlankLine(text).split(/[,;\t]/)) {
+    const m = /^\s*"?\s*([a-z]+)\s*[([]\s*([^)\]]*?)\s*[)\]]\s*"?\s*$/i.exec(cell);
+    if (!m || !names.includes(m[1]!.toLowerCase())) continue;
+    const unit = m[2]!;
+    return /^[\p{L}\d/. ]{1,12}$/u.test(unit) ? unit : null;
+  }
+  return null;
 }
 
 /**
@@ -542,11 +561,16 @@ function prepare(argv: readonly string[], readFile: (path: string) => string): P
   try {
     if (command === "dose-response") {
       const auto = !rest.some((a) => a.startsWith("--response=")) || rest.includes("--response=auto");
-      const resolved = auto ? { ...options, response: responseFromHeader(text) } : options;
+      const resolved = {
+        ...options,
+        response: auto ? responseFromHeader(text) : options.response,
+        concentrationUnit: concentrationUnitFromHeader(text, command),
+      };
       return { work: { command, jobs: doseJobs(text) }, options: resolved, batch: true, file };
     }
     const jobs = mechanismJobs(text);
-    return { work: { command, jobs }, options, batch: jobs[0]?.compound !== null, file };
+    const resolved = { ...options, concentrationUnit: concentrationUnitFromHeader(text, command) };
+    return { work: { command, jobs }, options: resolved, batch: jobs[0]?.compound !== null, file };
   } catch (e) {
     if (e instanceof TableInputError) throw new UsageError(`${file} ${e.message}`);
     throw e;
