@@ -40,7 +40,8 @@ export function compoundsWorld(w: World) {
     p = (async () => {
       const admin = w.people.admin;
       const c = await registerCompound(admin, {
-        smiles: `c1ccc2ccccc2c1C(=O)N${"C".repeat(2 + (parseInt(w.tag, 16) % 50))}O`,
+        // Random per world: a structure derived from the tag alone repeats once a run makes a few dozen worlds.
+        smiles: uniqueSmiles(),
         name: `World ${w.tag} (invented)`,
         batch: { supplier: "Invented Supplier" },
       });
