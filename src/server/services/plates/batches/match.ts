@@ -70,8 +70,8 @@ function mapByRef(maps: MapRef[], ref: string): MapRef | undefined {
 
 /**
  * Which plate map a file uses: its manifest row (plate_map, or a barcode equal to a map's name);
- * else a plate map's name found as a token in the export's header barcode or the file name (the
- * longest name wins; two different maps of the same length leave it unmatched); else the
+ * else a plate map's name (or its first word) found as a token in the export's header barcode or
+ * the file name (the longest match wins; two different maps of the same length leave it unmatched); else the
  * request's default plate map; else unmatched, for a person to assign.
  */
 export function matchPlateMap(
@@ -96,11 +96,24 @@ export function matchPlateMap(
   }
   const tryText = (text: string | null, by: string): Match | null => {
     if (!text) return null;
-    const hits = maps.filter((m) => containsToken(text, m.name)).sort((a, b) => b.name.length - a.name.length);
+    // A map is named by its whole name or its first word ("screen-01" of "screen-01 (single-dose)").
+    const keys = (m: MapRef) => [m.name, m.name.trim().split(/\s+/)[0] ?? ""].filter((k) => k.length >= 3);
+    const hits = maps
+      .map((m) => ({
+        m,
+        len: Math.max(
+          0,
+          ...keys(m)
+            .filter((k) => containsToken(text, k))
+            .map((k) => k.length),
+        ),
+      }))
+      .filter((h) => h.len > 0)
+      .sort((a, b) => b.len - a.len);
     if (hits.length === 0) return null;
-    if (hits.length > 1 && hits[0]!.name.length === hits[1]!.name.length)
+    if (hits.length > 1 && hits[0]!.len === hits[1]!.len)
       return { plateMapId: null, barcode, matchedBy: null, message: `${by} matches more than one plate map` };
-    return { plateMapId: hits[0]!.id, barcode, matchedBy: by };
+    return { plateMapId: hits[0]!.m.id, barcode, matchedBy: by };
   };
   const stem = baseName(fileName).replace(/\.[A-Za-z0-9]{1,5}$/, "");
   const found = tryText(barcode, "barcode") ?? tryText(stem, "file name");
