@@ -13,6 +13,7 @@ import { registry } from "./registry";
 import { makeWorld, as, callAction, type World, type TestUser } from "@/test/harness";
 import { analysesWorld } from "@/test/analyses";
 import { stopBoss } from "@/server/jobs/boss";
+import { startWorkerHeartbeat } from "@/server/jobs/heartbeat";
 import { toPublicError } from "./errors";
 import { checkJson, fieldProblem } from "./edge-input";
 
@@ -93,7 +94,16 @@ beforeAll(async () => {
     token: "not-a-token",
   };
 });
-afterAll(() => stopBoss());
+// /api/health is called with hostile queries too: it answers 503 while no worker beats (a true
+// answer, not an input error), so a worker's heartbeat row stands in for one here.
+let heartbeat: { stop: () => Promise<void> } | undefined;
+beforeAll(async () => {
+  heartbeat = await startWorkerHeartbeat();
+});
+afterAll(async () => {
+  await heartbeat?.stop();
+  await stopBoss();
+});
 
 async function call(
   handler: Handler,

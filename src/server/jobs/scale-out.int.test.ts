@@ -239,7 +239,9 @@ describe("two web handler sets and two workers on one Postgres", () => {
     const recipients = new Set(rows.map((r) => r.userId));
     expect(rows).toHaveLength(recipients.size); // one row per person and week
     expect(rows.every((r) => r.status === "sent")).toBe(true);
-    expect(runs.reduce((s, r) => s + r.sent, 0)).toBe(rows.length);
+    // The two workers run the digest schedule too, so some (or all) of the sends may be theirs;
+    // the outbox below counts every send of this week's rows, whoever made it.
+    expect(runs.reduce((s, r) => s + r.sent, 0)).toBeLessThanOrEqual(rows.length);
     const mail = (await harnessA.outbox()).filter((m) => rows.some((r) => r.idempotencyKey === m.idempotency_key));
     expect(mail).toHaveLength(rows.length);
     expect(recipients.size).toBeGreaterThan(0);
