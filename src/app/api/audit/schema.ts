@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { pageLimit, pageOffset } from "@/lib/validation/paging";
 
 /**
  * Query of GET /api/audit: the admin audit page's filters — `campaignId`, `action` contains,
@@ -8,18 +9,8 @@ export const GetAuditQuery = z.strictObject({
   campaignId: z.string().uuid("campaignId must be a campaign id.").optional(),
   action: z.string().trim().max(60, "action: at most 60 characters.").optional(),
   actor: z.string().trim().max(120, "actor: at most 120 characters.").optional(),
-  limit: z.coerce
-    .number()
-    .int("limit must be a whole number")
-    .min(1, "limit must be 1–200")
-    .max(200, "limit must be 1–200")
-    .default(50),
-  offset: z.coerce
-    .number()
-    .int("offset must be a whole number")
-    .min(0, "offset must be 0 or more")
-    .max(10_000_000, "offset is too large")
-    .default(0),
+  limit: pageLimit,
+  offset: pageOffset(10_000_000, "offset is too large"),
 });
 
 /** Answer of GET /api/audit: a page of rows, newest first, and the count of all matching rows. */

@@ -3,6 +3,8 @@ import "server-only";
 export { issueDetails } from "./errors";
 export { createPlateMap, getPlateMap, listPlateMaps, updatePlateMap, type PlateMapInput } from "./plate-maps";
 export { readPlateMapCsv, readPlateMapJson } from "./plate-maps-import";
+export { copyPlateMap, deletePlateMap, plateMapWithUse } from "./plate-maps-manage";
+export { checkWellNames, runHead } from "./run-checks";
 export {
   previewRun,
   s3KeyFor,

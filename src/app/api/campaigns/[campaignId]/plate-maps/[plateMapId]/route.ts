@@ -2,8 +2,7 @@ import type { z } from "zod";
 import { requireCampaign } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
 import { AppError } from "@/server/errors";
-import { issueDetails, updatePlateMap } from "@/server/services/plates";
-import { deletePlateMap, plateMapWithUse } from "@/server/services/plates/plate-maps-manage";
+import { deletePlateMap, issueDetails, plateMapWithUse, updatePlateMap } from "@/server/services/plates";
 import { plateMapFromJson, plateMapFromWells } from "@/lib/plates";
 import { PatchPlateMapBody, type GetPlateMapResponse } from "./schema";
 

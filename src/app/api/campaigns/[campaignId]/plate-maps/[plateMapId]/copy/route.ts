@@ -1,6 +1,6 @@
 import { requireCampaign } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
-import { copyPlateMap } from "@/server/services/plates/plate-maps-manage";
+import { copyPlateMap } from "@/server/services/plates";
 import { PostPlateMapCopyBody } from "../schema";
 
 export const dynamic = "force-dynamic";

@@ -1,8 +1,7 @@
 import type { z } from "zod";
 import { requireCampaign } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
-import { decideRun } from "@/server/services/plates";
-import { runHead } from "@/server/services/plates/run-checks";
+import { decideRun, runHead } from "@/server/services/plates";
 import { PostDecisionBody, type PostDecisionResponse } from "./schema";
 
 export const dynamic = "force-dynamic";

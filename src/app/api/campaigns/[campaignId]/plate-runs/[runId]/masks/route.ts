@@ -1,8 +1,7 @@
 import type { z } from "zod";
 import { requireCampaign } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
-import { changeMasks } from "@/server/services/plates";
-import { checkWellNames, runHead } from "@/server/services/plates/run-checks";
+import { changeMasks, checkWellNames, runHead } from "@/server/services/plates";
 import { PostMasksBody, type MasksResponse } from "./schema";
 
 export const dynamic = "force-dynamic";

@@ -1,8 +1,7 @@
 import type { z } from "zod";
 import { requireCampaign } from "@/server/auth/guard";
 import { json, parseJson, route } from "@/server/http";
-import { unmaskWell } from "@/server/services/plates";
-import { checkWellNames, runHead } from "@/server/services/plates/run-checks";
+import { checkWellNames, runHead, unmaskWell } from "@/server/services/plates";
 import { DeleteMaskBody, type DeleteMaskResponse } from "./schema";
 
 export const dynamic = "force-dynamic";
